@@ -1,0 +1,1 @@
+//! Combination tables as data (skeleton).

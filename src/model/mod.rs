@@ -1,0 +1,263 @@
+//! The validated planar frame model: everything known after reading and checking the input.
+//!
+//! All quantities are SI base units (m, N, Pa, N·m); user units live only at the edges
+//! ([`crate::units`], [`crate::input`], [`crate::report`]). Entities refer to each other by
+//! index; ids are kept for messages and reports. The sign convention is documented in
+//! [`loads`].
+
+pub mod loads;
+
+use serde::Serialize;
+use std::collections::BTreeMap;
+use strum::{Display, EnumString};
+
+pub use loads::{
+    ActionCategory, LoadCase, LoadDirection, LocalLoad, Measure, MemberLoad, MemberLoadKind,
+    NodalLoad,
+};
+
+use crate::units::UnitSystem;
+
+/// A joint of the frame, global coordinates in metres.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Node {
+    pub id: String,
+    pub x: f64,
+    pub y: f64,
+}
+
+/// An elastic material.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Material {
+    pub id: String,
+    /// Young's modulus E, Pa.
+    pub e: f64,
+    /// Unit weight γ, N/m³ (for self-weight).
+    pub unit_weight: Option<f64>,
+}
+
+/// What a member does in the frame; drives stiffness modifiers and story detection.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash, Serialize, Display, EnumString)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum Role {
+    Column,
+    Beam,
+    Brace,
+}
+
+/// A cross-section.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Section {
+    pub id: String,
+    /// Area A, m².
+    pub area: f64,
+    /// Second moment of area I about the bending axis, m⁴.
+    pub inertia: f64,
+    /// Overall depth, m (used in reports and for ACI's minimum moment).
+    pub depth: Option<f64>,
+    /// Role hint; when absent the member's orientation decides (see [`Member::role`]).
+    pub role: Option<Role>,
+}
+
+/// A prismatic member between two nodes.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Member {
+    pub id: String,
+    /// Index of end i in [`Model::nodes`].
+    pub i: usize,
+    /// Index of end j in [`Model::nodes`].
+    pub j: usize,
+    /// Index into [`Model::sections`].
+    pub section: usize,
+    /// Index into [`Model::materials`].
+    pub material: usize,
+    /// Moment release (hinge) at end i.
+    pub release_i: bool,
+    /// Moment release (hinge) at end j.
+    pub release_j: bool,
+    /// Role: the section's hint, else column when the member is within 45° of vertical,
+    /// beam otherwise. Resolved at validation.
+    pub role: Role,
+}
+
+/// The restraint of one degree of freedom at a support.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub enum Restraint {
+    Free,
+    Fixed,
+    /// Elastic spring: N/m for translations, N·m/rad for the rotation.
+    Spring(f64),
+}
+
+/// A support at a node: restraints of (X, Y, rotation).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Support {
+    pub node: usize,
+    pub dofs: [Restraint; 3],
+}
+
+/// Which second-order method `check` applies.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Display, EnumString, Default)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum SecondOrderMethod {
+    /// AISC 360-16 Appendix 8: B1/B2 amplified first-order analysis.
+    #[default]
+    #[strum(serialize = "aisc-b1b2")]
+    #[serde(rename = "aisc-b1b2")]
+    AiscB1B2,
+    /// ACI 318-19 §6.6.4 moment magnification (Q, δs, δ).
+    #[strum(serialize = "aci-magnifier")]
+    #[serde(rename = "aci-magnifier")]
+    AciMagnifier,
+    /// EN 1993-1-1 §5.2 alpha_cr story criterion and amplified sway effects.
+    #[strum(serialize = "ec3-alpha-cr")]
+    #[serde(rename = "ec3-alpha-cr")]
+    Ec3AlphaCr,
+    /// Direct second-order elastic analysis (P-Delta and P-delta), iterated.
+    #[strum(serialize = "direct")]
+    #[serde(rename = "direct")]
+    Direct,
+}
+
+/// Preset member stiffness reductions for the analysis.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Display, EnumString, Default)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum StiffnessPreset {
+    /// Gross section properties.
+    #[default]
+    Gross,
+    /// ACI 318-19 Table 6.6.3.1.1(a): columns 0.70 Ig, beams 0.35 Ig, area 1.0 Ag.
+    AciCracked,
+    /// AISC 360-16 §C2.3: 0.8 on all stiffnesses and τb on flexural stiffness of columns.
+    AiscDirect,
+}
+
+/// Notional lateral loads added to every factored case where the method calls for them.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
+#[serde(rename_all = "kebab-case")]
+pub enum NotionalLoads {
+    /// None added.
+    #[default]
+    None,
+    /// N_i = coefficient·α·Y_i at each level (AISC 360-16 §C2.2b, coefficient 0.002).
+    Aisc { coefficient: f64 },
+    /// EN 1993-1-1 §5.3.2(3)a equivalent sway imperfection φ = φ0·αh·αm applied as φ·N.
+    Ec3Imperfection,
+}
+
+/// Analysis settings read from the model file (the command line may override them).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct AnalysisOptions {
+    pub method: SecondOrderMethod,
+    pub stiffness: StiffnessPreset,
+    /// Multipliers on I by role applied on top of the preset (1.0 = none).
+    pub inertia_factor: BTreeMap<String, f64>,
+    pub notional: NotionalLoads,
+    /// Elements per member in the second-order and buckling analyses (P-δ capture).
+    pub segments: usize,
+    /// ACI 318-19 §6.6.4.4.4: βdns, ratio of sustained to total factored axial load.
+    pub beta_dns: f64,
+}
+
+impl Default for AnalysisOptions {
+    fn default() -> Self {
+        AnalysisOptions {
+            method: SecondOrderMethod::default(),
+            stiffness: StiffnessPreset::default(),
+            inertia_factor: BTreeMap::new(),
+            notional: NotionalLoads::None,
+            segments: 4,
+            beta_dns: 0.6,
+        }
+    }
+}
+
+/// Declared stories (optional; otherwise detected from column tops).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct StoryDeclaration {
+    /// Elevations of the story tops, m, bottom story first.
+    pub levels: Vec<f64>,
+}
+
+/// Which combination table a model uses, and its parameter overrides.
+#[derive(Debug, Clone, PartialEq, Default, Serialize)]
+pub struct ComboChoice {
+    /// Shipped table name or path, relative to the model file.
+    pub table: Option<String>,
+    pub params: BTreeMap<String, f64>,
+}
+
+/// A validated planar frame.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Model {
+    pub title: String,
+    /// The user's units, used for reporting.
+    pub units: UnitSystem,
+    pub nodes: Vec<Node>,
+    pub materials: Vec<Material>,
+    pub sections: Vec<Section>,
+    pub members: Vec<Member>,
+    pub supports: Vec<Support>,
+    pub load_cases: Vec<LoadCase>,
+    pub combos: ComboChoice,
+    pub analysis: AnalysisOptions,
+    pub stories: Option<StoryDeclaration>,
+}
+
+impl Model {
+    /// Length of member `m`, m.
+    pub fn length(&self, m: usize) -> f64 {
+        let (dx, dy) = self.delta(m);
+        dx.hypot(dy)
+    }
+
+    /// Projections (ΔX, ΔY) of member `m` from end i to end j, m.
+    pub fn delta(&self, m: usize) -> (f64, f64) {
+        let mem = &self.members[m];
+        let (a, b) = (&self.nodes[mem.i], &self.nodes[mem.j]);
+        (b.x - a.x, b.y - a.y)
+    }
+
+    /// Direction cosines (c, s) of member `m`.
+    pub fn cosines(&self, m: usize) -> (f64, f64) {
+        let (dx, dy) = self.delta(m);
+        let l = dx.hypot(dy);
+        (dx / l, dy / l)
+    }
+
+    /// E·A and E·I of member `m` with gross properties, N and N·m².
+    pub fn gross_stiffness(&self, m: usize) -> (f64, f64) {
+        let mem = &self.members[m];
+        let e = self.materials[mem.material].e;
+        let s = &self.sections[mem.section];
+        (e * s.area, e * s.inertia)
+    }
+
+    /// Index of the node with this id.
+    pub fn node_index(&self, id: &str) -> Option<usize> {
+        self.nodes.iter().position(|n| n.id == id)
+    }
+
+    /// Index of the member with this id.
+    pub fn member_index(&self, id: &str) -> Option<usize> {
+        self.members.iter().position(|m| m.id == id)
+    }
+
+    /// Index of the load case with this id.
+    pub fn case_index(&self, id: &str) -> Option<usize> {
+        self.load_cases.iter().position(|c| c.id == id)
+    }
+
+    /// Member loads of load case `case` reduced to local axes, grouped by member.
+    pub fn local_loads(&self, case: usize) -> Vec<Vec<LocalLoad>> {
+        let mut out = vec![Vec::new(); self.members.len()];
+        for ml in &self.load_cases[case].member {
+            let (c, s) = self.cosines(ml.member);
+            out[ml.member].push(ml.kind.to_local(c, s));
+        }
+        out
+    }
+}
