@@ -11,6 +11,7 @@
 //! standard govern.
 
 pub mod combos;
+pub mod diag;
 pub mod input;
 pub mod model;
 pub mod solve;
