@@ -15,4 +15,5 @@ pub mod diag;
 pub mod input;
 pub mod model;
 pub mod solve;
+pub mod stories;
 pub mod units;

@@ -1,6 +1,22 @@
 //! Solvers: the first-order direct stiffness solution, and (from the check work) the
 //! no-sway/sway split, the second-order and buckling analyses.
+//!
+//! Layers, bottom up: [`element`] matrices → [`mesh`] → [`system`] (DOF numbering,
+//! assembly, factorization on [`skyline`] storage in [`ordering`]'s order) → [`linear`]
+//! (one load vector: forces, reactions, residual) → [`first_order`] (model-level results).
 
+pub mod beam;
+pub mod element;
+pub mod first_order;
 pub mod forces;
+pub mod linear;
+pub mod mesh;
+pub mod ordering;
+pub mod second_order;
+pub mod skyline;
+pub mod sway;
+pub mod system;
 
+pub use first_order::{solve_case, FirstOrder, Solution};
 pub use forces::{EndForces, InternalForces};
+pub use system::SystemError;

@@ -1,0 +1,282 @@
+//! Loads on a mesh, one solution of a factored system, and its recovery: displacements,
+//! member-end forces, reactions and the equilibrium residual.
+
+use nalgebra::Vector6;
+use serde::Serialize;
+
+use super::beam::{fixed_end_forces, restrict};
+use super::element::transformation;
+use super::forces::EndForces;
+use super::mesh::Mesh;
+use super::system::{
+    Direction, Dof, FreeDirection, System, SystemError, element_equations, element_matrices,
+};
+use crate::model::{LocalLoad, Model};
+
+/// Loads applied to a mesh: nodal forces (global axes) and element loads (local axes).
+#[derive(Debug, Clone, PartialEq, Default, Serialize)]
+pub struct MeshLoads {
+    /// `[Fx, Fy, Mz]` per mesh node, N and N·m.
+    pub nodal: Vec<[f64; 3]>,
+    /// Loads on each element, positions from the element's end i.
+    pub element: Vec<Vec<LocalLoad>>,
+}
+
+impl MeshLoads {
+    /// No load on `mesh`.
+    pub fn zero(mesh: &Mesh) -> MeshLoads {
+        MeshLoads {
+            nodal: vec![[0.0; 3]; mesh.nodes.len()],
+            element: vec![Vec::new(); mesh.elements.len()],
+        }
+    }
+
+    /// Add load case `case` of `model` times `factor`.
+    pub fn add_case(&mut self, model: &Model, mesh: &Mesh, case: usize, factor: f64) {
+        if factor == 0.0 {
+            return;
+        }
+        for nl in &model.load_cases[case].nodal {
+            self.add_nodal(nl.node, [factor * nl.fx, factor * nl.fy, factor * nl.mz]);
+        }
+        for (m, loads) in model.local_loads(case).into_iter().enumerate() {
+            for load in loads {
+                self.add_member_load(mesh, m, load.scaled(factor));
+            }
+        }
+    }
+
+    /// Add a load in member-local axes to member `m`, split over its elements.
+    pub fn add_member_load(&mut self, mesh: &Mesh, m: usize, load: LocalLoad) {
+        let range = mesh.member_elements[m].clone();
+        let last = range.end - 1;
+        for ie in range {
+            let e = &mesh.elements[ie];
+            // The last element also takes a point load exactly at the member's end j.
+            let x1 = if ie == last {
+                e.x0 + e.length * (1.0 + 1e-12)
+            } else {
+                e.x0 + e.length
+            };
+            if let Some(part) = restrict(&load, e.x0, x1) {
+                self.element[ie].push(part);
+            }
+        }
+    }
+
+    /// Add a nodal force `[Fx, Fy, Mz]`.
+    pub fn add_nodal(&mut self, node: usize, f: [f64; 3]) {
+        for k in 0..3 {
+            self.nodal[node][k] += f[k];
+        }
+    }
+
+    /// Total applied force and moment about the origin `[ΣFx, ΣFy, ΣMz]`, from the load
+    /// definitions themselves (not from the solver's equivalent loads).
+    pub fn resultant(&self, mesh: &Mesh) -> [f64; 3] {
+        let mut r = [0.0; 3];
+        for (n, f) in self.nodal.iter().enumerate() {
+            let (x, y) = mesh.nodes[n];
+            add_force(&mut r, x, y, f[0], f[1], f[2]);
+        }
+        for (ie, loads) in self.element.iter().enumerate() {
+            let e = &mesh.elements[ie];
+            let (xi, yi) = mesh.nodes[e.i];
+            for load in loads {
+                // Local resultant (px, py) acting at distance `at`, plus a couple.
+                let (px, py, at, m) = local_resultant(load);
+                let (gx, gy) = (e.c * px - e.s * py, e.s * px + e.c * py);
+                add_force(&mut r, xi + e.c * at, yi + e.s * at, gx, gy, m);
+            }
+        }
+        r
+    }
+}
+
+fn add_force(r: &mut [f64; 3], x: f64, y: f64, fx: f64, fy: f64, m: f64) {
+    r[0] += fx;
+    r[1] += fy;
+    r[2] += m + x * fy - y * fx;
+}
+
+/// Resultant of a local load: `(px, py, position, couple)`; the axial and transverse parts
+/// of a linear load act at their own centroids, so the transverse part's moment about the
+/// axial resultant's line is carried as the couple.
+fn local_resultant(load: &LocalLoad) -> (f64, f64, f64, f64) {
+    match *load {
+        LocalLoad::Linear {
+            a,
+            b,
+            qx_a,
+            qy_a,
+            qx_b,
+            qy_b,
+        } => {
+            let len = b - a;
+            // Resultant of a trapezoid and its centroid from a.
+            let res = |qa: f64, qb: f64| -> (f64, f64) {
+                let p = 0.5 * (qa + qb) * len;
+                let mom = len * len * (qa / 6.0 + qb / 3.0); // ∫ q(t)·t dt, t from a
+                (p, mom)
+            };
+            let (px, _) = res(qx_a, qx_b);
+            let (py, my) = res(qy_a, qy_b);
+            // Place the whole resultant at a; the transverse part's moment about a is my.
+            (px, py, a, my)
+        }
+        LocalLoad::Point { a, px, py } => (px, py, a, 0.0),
+        LocalLoad::Moment { a, m } => (0.0, 0.0, a, m),
+    }
+}
+
+/// Equilibrium check of one solution.
+#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
+pub struct Residual {
+    /// Applied loads plus reactions, `[ΣFx (N), ΣFy (N), ΣMz about the origin (N·m)]`.
+    pub global: [f64; 3],
+    /// Largest out-of-balance force at any free node, N (moments divided by a unit length).
+    pub max_nodal: f64,
+    /// Largest applied load component, N, for relative comparison.
+    pub applied: f64,
+}
+
+impl Residual {
+    /// The largest residual relative to the applied load (0 when nothing is applied).
+    pub fn relative(&self) -> f64 {
+        let worst = self
+            .global
+            .iter()
+            .map(|v| v.abs())
+            .fold(self.max_nodal, f64::max);
+        if self.applied > 0.0 {
+            worst / self.applied
+        } else {
+            worst
+        }
+    }
+}
+
+/// Everything one load vector produces on a mesh.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Response {
+    /// `[ux (m), uy (m), θ (rad)]` per mesh node, global axes.
+    pub displacements: Vec<[f64; 3]>,
+    /// End actions of each element.
+    pub element_forces: Vec<EndForces>,
+    /// Reactions per mesh node `[Rx, Ry, Mz]`, nonzero only at supports and held DOFs.
+    pub reactions: Vec<[f64; 3]>,
+    pub residual: Residual,
+}
+
+/// Solve the factored `system` for `loads` and recover element forces and reactions.
+pub fn respond(
+    model: &Model,
+    mesh: &Mesh,
+    system: &System,
+    loads: &MeshLoads,
+) -> Result<Response, SystemError> {
+    let n = system.n;
+    let mut f = vec![0.0; n];
+    // Unresisted loads on idle rotations make the frame a mechanism for this load.
+    let mut idle_loaded = Vec::new();
+    for (node, p) in loads.nodal.iter().enumerate() {
+        for d in 0..3 {
+            match system.dofs[node][d] {
+                Dof::Free(q) | Dof::Spring(q, _) => f[q] += p[d],
+                Dof::Idle if p[d] != 0.0 => idle_loaded.push(FreeDirection {
+                    node,
+                    direction: Direction::ALL[d],
+                    place: mesh.describe_node(model, node),
+                }),
+                _ => {}
+            }
+        }
+    }
+    if !idle_loaded.is_empty() {
+        return Err(SystemError::Mechanism(idle_loaded));
+    }
+    // Condensed fixed-end actions of every element; their negatives load the nodes.
+    let mut fixed = Vec::with_capacity(mesh.elements.len());
+    for (ie, e) in mesh.elements.iter().enumerate() {
+        let f0 = Vector6::from(fixed_end_forces(e.length, &loads.element[ie]).to_array());
+        let axial = system.axial.as_ref().map(|a| a[ie]);
+        let (kl, fl) = element_matrices(e, axial, &f0);
+        let t = transformation(e.c, e.s);
+        let fg = t.transpose() * fl;
+        for (r, q) in element_equations(&system.dofs, e).iter().enumerate() {
+            if let Some(q) = q {
+                f[*q] -= fg[r];
+            }
+        }
+        fixed.push((kl, fl, t));
+    }
+    let u = system.solve(&f);
+    let displacements: Vec<[f64; 3]> = system
+        .dofs
+        .iter()
+        .map(|d| {
+            let g = |k: usize| d[k].equation().map_or(0.0, |q| u[q]);
+            [g(0), g(1), g(2)]
+        })
+        .collect();
+    // Element end actions and the forces they put on the nodes.
+    let mut on_nodes = vec![[0.0; 3]; mesh.nodes.len()];
+    let mut element_forces = Vec::with_capacity(mesh.elements.len());
+    for (e, (kl, fl, t)) in mesh.elements.iter().zip(&fixed) {
+        let (a, b) = (displacements[e.i], displacements[e.j]);
+        let ug = Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
+        let end = kl * (t * ug) + fl;
+        let eg = t.transpose() * end;
+        for k in 0..3 {
+            on_nodes[e.i][k] += eg[k];
+            on_nodes[e.j][k] += eg[3 + k];
+        }
+        element_forces.push(EndForces::from_array(end.into()));
+    }
+    // Node balance: applied + reaction = Σ element end actions (global).
+    let mut reactions = vec![[0.0; 3]; mesh.nodes.len()];
+    let mut max_nodal: f64 = 0.0;
+    for (node, d) in system.dofs.iter().enumerate() {
+        for k in 0..3 {
+            let out_of_balance = on_nodes[node][k] - loads.nodal[node][k];
+            match d[k] {
+                Dof::Held => reactions[node][k] = out_of_balance,
+                Dof::Spring(q, ks) => {
+                    reactions[node][k] = -ks * u[q];
+                    max_nodal = max_nodal.max((out_of_balance - reactions[node][k]).abs());
+                }
+                Dof::Free(_) | Dof::Idle => max_nodal = max_nodal.max(out_of_balance.abs()),
+            }
+        }
+    }
+    let applied_r = loads.resultant(mesh);
+    let mut global = applied_r;
+    for (node, r) in reactions.iter().enumerate() {
+        let (x, y) = mesh.nodes[node];
+        add_force(&mut global, x, y, r[0], r[1], r[2]);
+    }
+    let applied = loads
+        .nodal
+        .iter()
+        .flat_map(|p| p.iter())
+        .chain(applied_r.iter().take(2))
+        .map(|v| v.abs())
+        .chain(
+            loads
+                .element
+                .iter()
+                .flatten()
+                .map(|l| local_resultant(l).0.hypot(local_resultant(l).1)),
+        )
+        .fold(0.0, f64::max);
+    Ok(Response {
+        displacements,
+        element_forces,
+        reactions,
+        residual: Residual {
+            global,
+            max_nodal,
+            applied,
+        },
+    })
+}

@@ -1,0 +1,230 @@
+//! Direct second-order elastic analysis (P-Δ and P-δ) and the elastic critical load factor.
+//!
+//! Each member is split into [`crate::model::AnalysisOptions::segments`] elements, and the
+//! consistent geometric stiffness of every element is added to its elastic stiffness, so
+//! both the chord rotation of the member (P-Δ) and its own curvature (P-δ) soften the frame.
+//! The axial forces are updated and the system refactored until the displacements settle.
+//!
+//! With two or more elements per member this reproduces the exact beam-column solutions of
+//! the AISC 360-16 Commentary Chapter C benchmark problems within 0.5 % (reference notes §5,
+//! computed [X]); `tests/second_order.rs` checks them against the closed forms.
+//!
+//! The elastic critical load factor α_cr solves `(K + α_cr·K_G(N))·φ = 0` with the
+//! first-order axial forces N of the load: the smallest load factor at which the
+//! factorization of `K + α·K_G` fails, found by bisection.
+
+use serde::Serialize;
+
+use super::first_order::Solution;
+use super::linear::{MeshLoads, Response, respond};
+use super::mesh::{MemberStiffness, Mesh};
+use super::system::{Restraints, System, SystemError};
+use crate::model::Model;
+
+/// Largest number of P-Δ iterations before a case is declared not converged.
+pub const MAX_ITERATIONS: usize = 50;
+/// Convergence: change in displacements relative to the largest displacement.
+pub const TOLERANCE: f64 = 1e-9;
+
+/// A segmented model ready for second-order and buckling analyses.
+#[derive(Debug, Clone)]
+pub struct SecondOrderModel {
+    pub mesh: Mesh,
+    pub restraints: Restraints,
+    /// The elastic system (no geometric stiffness), factored.
+    pub elastic: System,
+}
+
+/// Outcome of a direct second-order analysis.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub enum SecondOrderOutcome {
+    /// Converged: model-level results, the number of iterations, and the element axial
+    /// forces of the last iteration (N, tension positive).
+    Converged {
+        solution: Solution,
+        iterations: usize,
+    },
+    /// The stiffness lost positive definiteness (load above a critical load) or the
+    /// iteration did not settle.
+    Unstable { reason: String },
+}
+
+/// Axial force of each element (mean of its ends, tension positive), N.
+pub fn element_axial(r: &Response) -> Vec<f64> {
+    r.element_forces
+        .iter()
+        .map(|f| 0.5 * (-f.i[0] + f.j[0]))
+        .collect()
+}
+
+impl SecondOrderModel {
+    /// Segment `model` (`segments` elements per member) and factor its elastic stiffness.
+    pub fn new(
+        model: &Model,
+        stiffness: &[MemberStiffness],
+        segments: usize,
+    ) -> Result<SecondOrderModel, SystemError> {
+        let mesh = Mesh::new(model, stiffness, segments.max(1));
+        let restraints = Restraints::from_model(model, &mesh);
+        let elastic = System::new(model, &mesh, &restraints, None)?;
+        Ok(SecondOrderModel {
+            mesh,
+            restraints,
+            elastic,
+        })
+    }
+
+    /// First-order response to `loads` on the segmented mesh.
+    pub fn first_order(&self, model: &Model, loads: &MeshLoads) -> Result<Response, SystemError> {
+        respond(model, &self.mesh, &self.elastic, loads)
+    }
+
+    /// Direct second-order analysis under `loads` (already factored, including any notional
+    /// loads), iterating the axial forces to convergence.
+    pub fn direct(
+        &self,
+        model: &Model,
+        loads: &MeshLoads,
+    ) -> Result<SecondOrderOutcome, SystemError> {
+        let first = self.first_order(model, loads)?;
+        let mut axial = element_axial(&first);
+        let mut previous = first.displacements.clone();
+        for iteration in 1..=MAX_ITERATIONS {
+            let system = match System::new(model, &self.mesh, &self.restraints, Some(&axial)) {
+                Ok(s) => s,
+                Err(SystemError::Unstable(free)) => {
+                    let at = free
+                        .first()
+                        .map_or(String::new(), |f| format!(" at {}", f.place));
+                    return Ok(SecondOrderOutcome::Unstable {
+                        reason: format!(
+                            "stiffness including P-Delta is not positive definite{at}: the \
+                             load exceeds the elastic critical load"
+                        ),
+                    });
+                }
+                Err(e) => return Err(e),
+            };
+            let r = respond(model, &self.mesh, &system, loads)?;
+            let scale = max_translation(&r.displacements).max(f64::MIN_POSITIVE);
+            let change = r
+                .displacements
+                .iter()
+                .zip(&previous)
+                .map(|(a, b)| (a[0] - b[0]).abs().max((a[1] - b[1]).abs()))
+                .fold(0.0, f64::max);
+            axial = element_axial(&r);
+            previous = r.displacements.clone();
+            if change <= TOLERANCE * scale {
+                return Ok(SecondOrderOutcome::Converged {
+                    solution: Solution::from_response(&self.mesh, &r),
+                    iterations: iteration,
+                });
+            }
+        }
+        Ok(SecondOrderOutcome::Unstable {
+            reason: format!("P-Delta iteration did not converge in {MAX_ITERATIONS} iterations"),
+        })
+    }
+
+    /// Elastic critical load factor α_cr of `loads` and the buckled shape (translations and
+    /// rotation of each model node, scaled so the largest translation is 1). `None` when no
+    /// element is in compression or the frame does not buckle below [`ALPHA_CR_CEILING`]
+    /// times the load.
+    ///
+    /// α_cr is the smallest λ at which `K + λ·K_G(N)` stops being positive definite, found
+    /// by bisection on the factorization (a failed Cholesky pivot marks λ ≥ α_cr, Sylvester's
+    /// law of inertia). Releases are condensed from `K + λ·K_G` at each λ, so hinged members
+    /// are treated exactly rather than by a linearised geometric stiffness. The shape is the
+    /// near-null vector of `K + 0.999·α_cr·K_G` by inverse iteration.
+    pub fn critical_factor(
+        &self,
+        model: &Model,
+        loads: &MeshLoads,
+    ) -> Result<Option<Buckling>, SystemError> {
+        let first = self.first_order(model, loads)?;
+        let axial = element_axial(&first);
+        if axial.iter().all(|&n| n >= 0.0) {
+            return Ok(None);
+        }
+        let stable = |lambda: f64| -> Result<Option<System>, SystemError> {
+            let scaled: Vec<f64> = axial.iter().map(|n| lambda * n).collect();
+            match System::new(model, &self.mesh, &self.restraints, Some(&scaled)) {
+                Ok(s) => Ok(Some(s)),
+                Err(SystemError::Unstable(_)) => Ok(None),
+                Err(e) => Err(e),
+            }
+        };
+        // Bracket α_cr in (lo, hi].
+        let (mut lo, mut hi) = (0.0, 1.0);
+        while stable(hi)?.is_some() {
+            lo = hi;
+            hi *= 4.0;
+            if hi > ALPHA_CR_CEILING {
+                return Ok(None);
+            }
+        }
+        while hi - lo > 1e-7 * hi {
+            let mid = 0.5 * (lo + hi);
+            if stable(mid)?.is_some() {
+                lo = mid
+            } else {
+                hi = mid
+            }
+        }
+        let alpha_cr = 0.5 * (lo + hi);
+        let shape = match stable(0.999 * lo)? {
+            Some(system) => self.mode_shape(&system),
+            None => vec![[0.0; 3]; self.mesh.model_nodes],
+        };
+        Ok(Some(Buckling { alpha_cr, shape }))
+    }
+
+    /// Inverse iteration on a nearly singular system: its near-null vector, per model node.
+    fn mode_shape(&self, system: &System) -> Vec<[f64; 3]> {
+        let n = system.n;
+        let mut x: Vec<f64> = (0..n).map(|k| 1.0 + (k % 7) as f64 * 0.01).collect();
+        for _ in 0..8 {
+            x = system.solve(&x);
+            let norm = x.iter().map(|v| v * v).sum::<f64>().sqrt();
+            if norm == 0.0 || !norm.is_finite() {
+                break;
+            }
+            x.iter_mut().for_each(|v| *v /= norm);
+        }
+        let mut shape: Vec<[f64; 3]> = system.dofs[..self.mesh.model_nodes]
+            .iter()
+            .map(|d| {
+                let v = |k: usize| d[k].equation().map_or(0.0, |q| x[q]);
+                [v(0), v(1), v(2)]
+            })
+            .collect();
+        let peak = shape
+            .iter()
+            .flat_map(|s| [s[0], s[1]])
+            .fold(0.0f64, |m, v| if v.abs() > m.abs() { v } else { m });
+        if peak != 0.0 {
+            for s in &mut shape {
+                s.iter_mut().for_each(|v| *v /= peak);
+            }
+        }
+        shape
+    }
+}
+
+/// Above this load factor a frame is reported as not buckling under the load.
+pub const ALPHA_CR_CEILING: f64 = 1.0e6;
+
+/// Elastic buckling of one load: the critical load factor and the mode shape.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Buckling {
+    pub alpha_cr: f64,
+    /// `[ux, uy, θ]` per model node, largest translation 1.
+    pub shape: Vec<[f64; 3]>,
+}
+
+fn max_translation(u: &[[f64; 3]]) -> f64 {
+    u.iter()
+        .map(|d| d[0].abs().max(d[1].abs()))
+        .fold(0.0, f64::max)
+}
