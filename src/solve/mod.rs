@@ -2,5 +2,7 @@
 //! no-sway/sway split, the second-order and buckling analyses.
 
 pub mod forces;
+pub mod ordering;
+pub mod skyline;
 
 pub use forces::{EndForces, InternalForces};
