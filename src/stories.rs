@@ -155,22 +155,3 @@ pub fn member_stories(model: &Model, stories: &[Story], m: usize) -> Vec<usize> 
         .map(|(k, _)| k)
         .collect()
 }
-
-/// Nodes whose X translation the no-sway solution holds: every node at a story level
-/// (not the base) that its supports do not already hold in X.
-pub fn held_nodes(model: &Model, stories: &[Story]) -> Vec<usize> {
-    let supported_x = |n: usize| {
-        model
-            .supports
-            .iter()
-            .any(|s| s.node == n && s.dofs[0] == crate::model::Restraint::Fixed)
-    };
-    let mut nodes: Vec<usize> = stories
-        .iter()
-        .flat_map(|s| s.top_nodes.iter().copied())
-        .filter(|&n| !supported_x(n))
-        .collect();
-    nodes.sort_unstable();
-    nodes.dedup();
-    nodes
-}

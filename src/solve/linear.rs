@@ -4,7 +4,7 @@
 use nalgebra::Vector6;
 use serde::Serialize;
 
-use super::beam::{fixed_end_forces, restrict};
+use super::beam::{fixed_end_forces, split_loads};
 use super::element::transformation;
 use super::forces::EndForces;
 use super::mesh::Mesh;
@@ -49,18 +49,11 @@ impl MeshLoads {
     /// Add a load in member-local axes to member `m`, split over its elements.
     pub fn add_member_load(&mut self, mesh: &Mesh, m: usize, load: LocalLoad) {
         let range = mesh.member_elements[m].clone();
-        let last = range.end - 1;
-        for ie in range {
-            let e = &mesh.elements[ie];
-            // The last element also takes a point load exactly at the member's end j.
-            let x1 = if ie == last {
-                e.x0 + e.length * (1.0 + 1e-12)
-            } else {
-                e.x0 + e.length
-            };
-            if let Some(part) = restrict(&load, e.x0, x1) {
-                self.element[ie].push(part);
-            }
+        let mut cuts: Vec<f64> = range.clone().map(|ie| mesh.elements[ie].x0).collect();
+        let last = &mesh.elements[range.end - 1];
+        cuts.push(last.x0 + last.length);
+        for (ie, parts) in range.zip(split_loads(&[load], &cuts)) {
+            self.element[ie].extend(parts);
         }
     }
 

@@ -1,28 +1,35 @@
 //! The no-sway / sway split of a first-order solution.
 //!
-//! * **No-sway**: the frame with the X translation of every story-level node held
-//!   ([`crate::stories::held_nodes`]); the forces at those holds are recorded.
+//! * **No-sway**: the frame held against sidesway at every story level. Each level is held
+//!   as a floor would hold it: the mean X translation of the level's nodes is zero, and the
+//!   holding force `λ` of the level is shared equally among those nodes. With axially rigid
+//!   beams this is the same as holding every node of the level; with real beams it leaves
+//!   the beams free to shorten, so a symmetric frame under symmetric load has no holding
+//!   force and no sway part.
 //! * **Sway**: the free frame under the reversed holding forces.
-//! * The first-order total is their sum (superposition), which `tests/` checks against the
-//!   free frame solved directly.
+//! * The first-order total is their sum (superposition; `tests/first_order.rs` checks it).
 //!
-//! Both systems are factored once per model; every load case is solved once in each, and
-//! factored cases are formed by combining those solutions with their load factors.
+//! Everything rests on one factorization of the free frame: a load's free solution `F`,
+//! the unit solutions `U_l` (a unit X force shared equally by the nodes of level l), and
+//! the small system `Σ_m A_lm·λ_m = −ū_l(F)` with `A_lm` the mean X translation of level l
+//! under `U_m`. Then no-sway = `F + Σ λ_m·U_m` and sway = `−Σ λ_m·U_m`.
 
+use nalgebra::{DMatrix, DVector};
 use serde::Serialize;
 
 use super::first_order::{FirstOrder, Solution};
 use super::linear::MeshLoads;
 use super::system::SystemError;
-use crate::model::Model;
+use crate::model::{Model, Restraint};
+use crate::stories::Story;
 
 /// The no-sway and sway parts of one load vector.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct SwayParts {
     pub no_sway: Solution,
     pub sway: Solution,
-    /// X force at each held node in the no-sway solution, N (index-aligned with
-    /// [`SwaySplit::held`]).
+    /// Holding force of each story's top level in the no-sway solution, N (positive in +X,
+    /// the force the hold exerts on the frame).
     pub holding: Vec<f64>,
 }
 
@@ -56,61 +63,102 @@ impl SwayParts {
     }
 }
 
-/// The two factored systems of the split.
+/// The factored free frame and the unit level solutions of the split.
 #[derive(Debug, Clone)]
 pub struct SwaySplit {
-    /// The nodes held in X in the no-sway system.
-    pub held: Vec<usize>,
-    pub held_system: FirstOrder,
-    pub free_system: FirstOrder,
+    pub free: FirstOrder,
+    /// Per story: the nodes of its top level that the split holds (those not held in X by
+    /// a support). Empty for a level the supports already hold.
+    pub level_nodes: Vec<Vec<usize>>,
+    /// Per story: the free frame under a unit X force (1 N) shared equally by its level
+    /// nodes.
+    pub unit: Vec<Solution>,
+    /// `A_lm`: mean X translation of level l under `unit[m]`.
+    flexibility: DMatrix<f64>,
 }
 
 impl SwaySplit {
-    /// Factor the held and the free system of `model`.
-    pub fn new(model: &Model, held: Vec<usize>) -> Result<SwaySplit, SystemError> {
-        let free_system = FirstOrder::new(model, &[])?;
-        let held_system = FirstOrder::new(model, &held)?;
-        Ok(SwaySplit {
-            held,
-            held_system,
-            free_system,
-        })
+    /// Factor the free frame of `model` and solve the unit level loads of `stories`.
+    pub fn new(model: &Model, stories: &[Story]) -> Result<SwaySplit, SystemError> {
+        let free = FirstOrder::new(model, &[])?;
+        let held_by_support = |n: usize| {
+            model.supports.iter().any(|s| s.node == n && s.dofs[0] == Restraint::Fixed)
+        };
+        let level_nodes: Vec<Vec<usize>> = stories
+            .iter()
+            .map(|s| {
+                let nodes: Vec<usize> = s.top_nodes.clone();
+                if nodes.iter().any(|&n| held_by_support(n)) { Vec::new() } else { nodes }
+            })
+            .collect();
+        let mut unit = Vec::with_capacity(stories.len());
+        for nodes in &level_nodes {
+            let mut loads = MeshLoads::zero(&free.mesh);
+            for &n in nodes {
+                loads.add_nodal(n, [1.0 / nodes.len() as f64, 0.0, 0.0]);
+            }
+            unit.push(free.solve_loads(model, &loads)?);
+        }
+        let nl = stories.len();
+        let mut flexibility = DMatrix::zeros(nl, nl);
+        for l in 0..nl {
+            for m in 0..nl {
+                flexibility[(l, m)] = mean_ux(&unit[m], &level_nodes[l]);
+            }
+            if level_nodes[l].is_empty() {
+                flexibility[(l, l)] = 1.0;
+            }
+        }
+        Ok(SwaySplit { free, level_nodes, unit, flexibility })
     }
 
-    /// Empty loads on the (shared) first-order mesh.
+    /// Empty loads on the first-order mesh.
     pub fn zero_loads(&self) -> MeshLoads {
-        MeshLoads::zero(&self.free_system.mesh)
+        MeshLoads::zero(&self.free.mesh)
     }
 
     /// Split the response to `loads` into its no-sway and sway parts.
     pub fn split(&self, model: &Model, loads: &MeshLoads) -> Result<SwayParts, SystemError> {
-        let no_sway = self.held_system.solve_loads(model, loads)?;
-        let holding: Vec<f64> = self.held.iter().map(|&n| no_sway.reactions[n][0]).collect();
-        let mut reversed = self.zero_loads();
-        for (&n, &h) in self.held.iter().zip(&holding) {
-            reversed.add_nodal(n, [-h, 0.0, 0.0]);
-        }
-        let sway = self.free_system.solve_loads(model, &reversed)?;
-        Ok(SwayParts {
-            no_sway: strip_holds(no_sway, &self.held),
-            sway,
-            holding,
-        })
+        let free = self.free.solve_loads(model, loads)?;
+        let ubar = DVector::from_iterator(
+            self.level_nodes.len(),
+            self.level_nodes.iter().map(|nodes| -mean_ux(&free, nodes)),
+        );
+        let holding: Vec<f64> = self
+            .flexibility
+            .clone()
+            .lu()
+            .solve(&ubar)
+            .map(|v| v.iter().copied().collect())
+            .unwrap_or_else(|| vec![0.0; self.level_nodes.len()]);
+        let sway = self.lateral(&holding.iter().map(|h| -h).collect::<Vec<_>>());
+        let no_sway = Solution::combine(&[(1.0, &free), (-1.0, &sway)]);
+        Ok(SwayParts { no_sway, sway, holding })
     }
 
     /// Split load case `case`.
     pub fn split_case(&self, model: &Model, case: usize) -> Result<SwayParts, SystemError> {
         let mut loads = self.zero_loads();
-        loads.add_case(model, &self.free_system.mesh, case, 1.0);
+        loads.add_case(model, &self.free.mesh, case, 1.0);
         self.split(model, &loads)
+    }
+
+    /// The free frame under lateral forces `h[l]` (N, +X) at the story levels, each shared
+    /// equally among the level's nodes.
+    pub fn lateral(&self, h: &[f64]) -> Solution {
+        let mut out = Solution::zero_like(&self.unit[0]);
+        for (u, &f) in self.unit.iter().zip(h) {
+            out.add_scaled(f, u);
+        }
+        out.residual = Default::default();
+        out
     }
 }
 
-/// The no-sway solution without the artificial holds among its reactions (they are
-/// reported as holding forces instead).
-fn strip_holds(mut s: Solution, held: &[usize]) -> Solution {
-    for &n in held {
-        s.reactions[n][0] = 0.0;
+/// Mean X translation of `nodes` in `s` (0 for no nodes), m.
+pub fn mean_ux(s: &Solution, nodes: &[usize]) -> f64 {
+    if nodes.is_empty() {
+        return 0.0;
     }
-    s
+    nodes.iter().map(|&n| s.displacements[n][0]).sum::<f64>() / nodes.len() as f64
 }

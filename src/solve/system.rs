@@ -254,8 +254,9 @@ fn assemble(mesh: &Mesh, dofs: &[[Dof; 3]], n: usize, axial: Option<&[f64]>) -> 
     k
 }
 
-/// After a failed factorization, find the directions free to move: hold the failing
-/// equation and try again, up to a few times, so the message names every loose node.
+/// After a failed factorization, find the directions free to move: the near-null vector of
+/// `K` (by inverse iteration on `K` with a tiny multiple of its diagonal added) names the
+/// nodes and directions that move in the mechanism, largest first.
 fn locate_free(
     mesh: &Mesh,
     model: &Model,
@@ -264,59 +265,67 @@ fn locate_free(
     axial: Option<&[f64]>,
     first: FactorError,
 ) -> Vec<FreeDirection> {
-    let mut dofs = dofs.to_vec();
-    let mut err = first;
-    let mut out = Vec::new();
-    for _ in 0..8 {
-        let FactorError::NotPositiveDefinite { index, .. } = err;
-        let Some((node, d)) = find_equation(&dofs, index) else {
-            break;
-        };
-        out.push(FreeDirection {
-            node,
-            direction: Direction::ALL[d],
-            place: mesh.describe_node(model, node),
-        });
-        // Renumber with that DOF held.
-        dofs[node][d] = Dof::Held;
-        let (renum, m) = renumber(&dofs);
-        match assemble(mesh, &renum, m, axial).factor() {
-            Ok(_) => break,
-            Err(e) => {
-                dofs = renum;
-                err = e;
+    let FactorError::NotPositiveDefinite { index, .. } = first;
+    let fallback = || {
+        find_equation(dofs, index)
+            .map(|(node, d)| FreeDirection {
+                node,
+                direction: Direction::ALL[d],
+                place: mesh.describe_node(model, node),
+            })
+            .into_iter()
+            .collect::<Vec<_>>()
+    };
+    let mut k = assemble(mesh, dofs, n, axial);
+    // Shift by a small multiple of the largest diagonal so that the null space becomes
+    // barely stiff; for K + K_G, shift past the negative eigenvalues as well.
+    let dmax = (0..n).map(|q| k.diagonal(q).abs()).fold(0.0, f64::max);
+    let shift = if axial.is_some() { 0.0 } else { 1e-9 * dmax };
+    for q in 0..n {
+        k.add(q, q, shift);
+    }
+    let Ok(factor) = k.factor() else { return fallback() };
+    let mut x: Vec<f64> = (0..n).map(|q| 1.0 + 0.1 * ((q * 7919) % 13) as f64).collect();
+    for _ in 0..6 {
+        factor.solve(&mut x);
+        let norm = x.iter().fold(0.0f64, |m, v| m.max(v.abs()));
+        if norm == 0.0 || !norm.is_finite() {
+            return fallback();
+        }
+        x.iter_mut().for_each(|v| *v /= norm);
+    }
+    // Translations dominate a mechanism; rotations count where no translation moves.
+    let mut moving: Vec<(f64, usize, usize)> = Vec::new();
+    for (node, d) in dofs.iter().enumerate() {
+        for (k, dof) in d.iter().enumerate() {
+            if let Some(q) = dof.equation() {
+                moving.push((x[q].abs(), node, k));
             }
         }
     }
-    let _ = n;
-    out
+    let peak_t = moving.iter().filter(|m| m.2 < 2).map(|m| m.0).fold(0.0, f64::max);
+    let keep: Vec<(f64, usize, usize)> = if peak_t > 0.1 {
+        moving.into_iter().filter(|m| m.2 < 2 && m.0 >= 0.5 * peak_t).collect()
+    } else {
+        moving.into_iter().filter(|m| m.0 >= 0.5).collect()
+    };
+    let mut keep = keep;
+    keep.sort_by(|a, b| b.0.total_cmp(&a.0));
+    keep.truncate(8);
+    if keep.is_empty() {
+        return fallback();
+    }
+    keep.into_iter()
+        .map(|(_, node, k)| FreeDirection {
+            node,
+            direction: Direction::ALL[k],
+            place: mesh.describe_node(model, node),
+        })
+        .collect()
 }
 
 fn find_equation(dofs: &[[Dof; 3]], eq: usize) -> Option<(usize, usize)> {
     dofs.iter().enumerate().find_map(|(node, d)| {
-        d.iter()
-            .position(|x| x.equation() == Some(eq))
-            .map(|k| (node, k))
+        d.iter().position(|x| x.equation() == Some(eq)).map(|k| (node, k))
     })
-}
-
-fn renumber(dofs: &[[Dof; 3]]) -> (Vec<[Dof; 3]>, usize) {
-    // Keep the relative order of the remaining equations.
-    let mut eqs: Vec<(usize, usize, usize)> = Vec::new();
-    for (node, d) in dofs.iter().enumerate() {
-        for (k, x) in d.iter().enumerate() {
-            if let Some(q) = x.equation() {
-                eqs.push((q, node, k));
-            }
-        }
-    }
-    eqs.sort_unstable();
-    let mut out = dofs.to_vec();
-    for (new, &(_, node, k)) in eqs.iter().enumerate() {
-        out[node][k] = match dofs[node][k] {
-            Dof::Spring(_, s) => Dof::Spring(new, s),
-            _ => Dof::Free(new),
-        };
-    }
-    (out, eqs.len())
 }
