@@ -380,6 +380,8 @@ fn axial_resultant(x: f64, side: Side, loads: &[LocalLoad]) -> f64 {
 /// loads integrated exactly over their part left of `x`. Loads at `a ≤ 0` always count, so
 /// at `x = 0` the value just inside the member is returned for either side. At `x = L`,
 /// [`Side::Left`] gives the value just inside the member (`N = Fx_j`, `V = −Fy_j`, `M = Mz_j`).
+/// [`Side::Right`] at `x = L` would include loads at `L` and so describe the far side of
+/// end j: ask for [`Side::Left`] there.
 pub fn internal_forces_at(
     x: f64,
     side: Side,
@@ -866,6 +868,23 @@ mod tests {
         }];
         assert_eq!(internal_forces(0.0, &end, &at_zero).v, 3.0);
         assert_eq!(internal_forces(0.0, &end, &at_zero).n, -2.0);
+    }
+
+    #[test]
+    fn stations_merge_the_grid_with_breakpoints() {
+        // A point load on a grid station gives one left and one right station there, no
+        // third copy from the grid.
+        let loads = [LocalLoad::Point {
+            a: 2.0,
+            px: 0.0,
+            py: -1.0,
+        }];
+        let end = condensed_fixed_end_forces(4.0, &loads, true, true);
+        let st = stations(4.0, 1.0, &end, &loads, 0.0, 0.0, 3);
+        let xs: Vec<f64> = st.iter().map(|s| s.x).collect();
+        assert_eq!(xs, vec![0.0, 2.0, 2.0, 4.0]);
+        // closed form: simple beam reactions P/2, so V = +0.5 left and −0.5 right.
+        assert!(close(st[1].v, 0.5, 1.0) && close(st[2].v, -0.5, 1.0));
     }
 
     #[test]
