@@ -51,7 +51,11 @@ fn pinned_base_portal_under_beam_udl() {
     let (m0, _) = end_moments(&s, b);
     assert_relative_eq!(m0, -3200.0, max_relative = AXIAL_RIGID);
     // Thrust H = Mc/h at each base (same source).
-    assert_relative_eq!(s.reactions[0][0].abs(), 3200.0 / 4.0, max_relative = AXIAL_RIGID);
+    assert_relative_eq!(
+        s.reactions[0][0].abs(),
+        3200.0 / 4.0,
+        max_relative = AXIAL_RIGID
+    );
 }
 
 #[test]
@@ -100,7 +104,11 @@ fn propped_cantilever_under_udl() {
     let d = f.case("D", ActionCategory::Dead);
     f.udl(d, m, 2000.0, LoadDirection::Gravity);
     let s = solve_case(&f.model, d).unwrap();
-    assert_relative_eq!(s.reactions[b][1], 3.0 * 2000.0 * 6.0 / 8.0, max_relative = 1e-10);
+    assert_relative_eq!(
+        s.reactions[b][1],
+        3.0 * 2000.0 * 6.0 / 8.0,
+        max_relative = 1e-10
+    );
     assert_relative_eq!(s.reactions[a][2], 2000.0 * 36.0 / 8.0, max_relative = 1e-10);
 }
 
@@ -121,8 +129,16 @@ fn two_span_continuous_beam_under_udl() {
     f.udl(d, m2, 4000.0, LoadDirection::Gravity);
     let s = solve_case(&f.model, d).unwrap();
     let (w, l) = (4000.0, 5.0);
-    assert_relative_eq!(s.reactions[n[0]][1], 3.0 * w * l / 8.0, max_relative = 1e-10);
-    assert_relative_eq!(s.reactions[n[1]][1], 10.0 * w * l / 8.0, max_relative = 1e-10);
+    assert_relative_eq!(
+        s.reactions[n[0]][1],
+        3.0 * w * l / 8.0,
+        max_relative = 1e-10
+    );
+    assert_relative_eq!(
+        s.reactions[n[1]][1],
+        10.0 * w * l / 8.0,
+        max_relative = 1e-10
+    );
     let (_, m_support) = end_moments(&s, m1);
     assert_relative_eq!(m_support, -w * l * l / 8.0, max_relative = 1e-10);
 }
@@ -140,7 +156,10 @@ fn braced_column_with_fixed_base_has_inflection_at_one_third() {
     let parts = split.split_case(&f.model, d).unwrap();
     let m = internal_forces(4.0 / 3.0, &parts.no_sway.end_forces[c1], &[]).m;
     let (_, m_top) = end_moments(&parts.no_sway, c1);
-    assert!(m.abs() < AXIAL_RIGID * m_top.abs(), "M(h/3) = {m}, M(top) = {m_top}");
+    assert!(
+        m.abs() < AXIAL_RIGID * m_top.abs(),
+        "M(h/3) = {m}, M(top) = {m_top}"
+    );
 }
 
 #[test]
@@ -153,13 +172,22 @@ fn symmetric_frame_under_symmetric_gravity_does_not_sway() {
     let st = stories(&f.model).unwrap();
     let split = SwaySplit::new(&f.model, &st).unwrap();
     let parts = split.split_case(&f.model, d).unwrap();
-    let peak = parts.no_sway.end_forces.iter().map(|e| e.i[2].abs()).fold(0.0, f64::max);
+    let peak = parts
+        .no_sway
+        .end_forces
+        .iter()
+        .map(|e| e.i[2].abs())
+        .fold(0.0, f64::max);
     for e in &parts.sway.end_forces {
         assert!(e.i[2].abs() < 1e-9 * peak && e.j[2].abs() < 1e-9 * peak);
     }
     let s = solve_case(&f.model, d).unwrap();
     // Both knees move by the beam's axial shortening only, equal and opposite.
-    assert_relative_eq!(s.displacements[n1][0], -s.displacements[n2][0], epsilon = 1e-15);
+    assert_relative_eq!(
+        s.displacements[n1][0],
+        -s.displacements[n2][0],
+        epsilon = 1e-15
+    );
 }
 
 #[test]
@@ -198,8 +226,16 @@ fn no_sway_plus_sway_equals_free_frame() {
         assert!(plumbline::solve::sway::mean_ux(&parts.no_sway, nodes).abs() < 1e-15);
     }
     let total = parts.total();
-    let free = FirstOrder::new(&f.model, &[]).unwrap().solve_case(&f.model, c).unwrap();
-    let scale = free.end_forces.iter().flat_map(|e| e.to_array()).map(f64::abs).fold(0.0, f64::max);
+    let free = FirstOrder::new(&f.model, &[])
+        .unwrap()
+        .solve_case(&f.model, c)
+        .unwrap();
+    let scale = free
+        .end_forces
+        .iter()
+        .flat_map(|e| e.to_array())
+        .map(f64::abs)
+        .fold(0.0, f64::max);
     for (a, b) in total.end_forces.iter().zip(&free.end_forces) {
         for (x, y) in a.to_array().iter().zip(b.to_array()) {
             assert!((x - y).abs() <= 1e-9 * scale, "{x} vs {y}");
@@ -218,7 +254,9 @@ fn maxwell_betti_reciprocity_on_a_random_frame() {
     // unit Y force at B equals the Y displacement at B due to a unit X force at A.
     let mut seed: u64 = 12345;
     let mut rnd = move || {
-        seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+        seed = seed
+            .wrapping_mul(6364136223846793005)
+            .wrapping_add(1442695040888963407);
         (seed >> 11) as f64 / (1u64 << 53) as f64
     };
     let mut f = Frame::new();
@@ -230,15 +268,21 @@ fn maxwell_betti_reciprocity_on_a_random_frame() {
     }
     for lv in 0..2 {
         for col in 0..3 {
-            f.member(grid[lv * 3 + col], grid[(lv + 1) * 3 + col], 200e9, 0.01, 1e-4 * (1.0 + rnd()));
+            f.member(
+                grid[lv * 3 + col],
+                grid[(lv + 1) * 3 + col],
+                200e9,
+                0.01,
+                1e-4 * (1.0 + rnd()),
+            );
         }
         for col in 0..2 {
             let (i, j) = (grid[(lv + 1) * 3 + col], grid[(lv + 1) * 3 + col + 1]);
             f.member(i, j, 200e9, 0.01, 2e-4 * (1.0 + rnd()));
         }
     }
-    for col in 0..3 {
-        f.fixed(grid[col]);
+    for &n in &grid[..3] {
+        f.fixed(n);
     }
     let (a, b) = (grid[4], grid[8]);
     let ca = f.case("A", ActionCategory::Live);
@@ -248,7 +292,11 @@ fn maxwell_betti_reciprocity_on_a_random_frame() {
     let sys = FirstOrder::new(&f.model, &[]).unwrap();
     let sa = sys.solve_case(&f.model, ca).unwrap();
     let sb = sys.solve_case(&f.model, cb).unwrap();
-    assert_relative_eq!(sa.displacements[b][1], sb.displacements[a][0], max_relative = 1e-9);
+    assert_relative_eq!(
+        sa.displacements[b][1],
+        sb.displacements[a][0],
+        max_relative = 1e-9
+    );
 }
 
 #[test]

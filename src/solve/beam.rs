@@ -409,7 +409,7 @@ pub fn internal_forces(x: f64, end: &EndForces, loads: &[LocalLoad]) -> Internal
 /// `(x, value)` of the largest and of the smallest value of a quantity along a member.
 /// From [`span_extremes`] the value is the bending moment M; from [`deflection_extremes`]
 /// it is the transverse deflection. Ties keep the smallest x.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct SpanExtremes {
     /// `(x, value)` of the maximum.
     pub max: (f64, f64),
@@ -541,7 +541,7 @@ pub fn deflection_at(
 }
 
 /// One output station along a member.
-#[derive(Debug, Clone, Copy, PartialEq)]
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
 pub struct Station {
     /// Distance from end i, m.
     pub x: f64,

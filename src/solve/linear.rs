@@ -59,8 +59,8 @@ impl MeshLoads {
 
     /// Add a nodal force `[Fx, Fy, Mz]`.
     pub fn add_nodal(&mut self, node: usize, f: [f64; 3]) {
-        for k in 0..3 {
-            self.nodal[node][k] += f[k];
+        for (a, b) in self.nodal[node].iter_mut().zip(f) {
+            *a += b;
         }
     }
 
@@ -173,10 +173,10 @@ pub fn respond(
     // Unresisted loads on idle rotations make the frame a mechanism for this load.
     let mut idle_loaded = Vec::new();
     for (node, p) in loads.nodal.iter().enumerate() {
-        for d in 0..3 {
-            match system.dofs[node][d] {
-                Dof::Free(q) | Dof::Spring(q, _) => f[q] += p[d],
-                Dof::Idle if p[d] != 0.0 => idle_loaded.push(FreeDirection {
+        for (d, (&dof, &pd)) in system.dofs[node].iter().zip(p).enumerate() {
+            match dof {
+                Dof::Free(q) | Dof::Spring(q, _) => f[q] += pd,
+                Dof::Idle if pd != 0.0 => idle_loaded.push(FreeDirection {
                     node,
                     direction: Direction::ALL[d],
                     place: mesh.describe_node(model, node),

@@ -17,6 +17,6 @@ pub mod skyline;
 pub mod sway;
 pub mod system;
 
-pub use first_order::{solve_case, FirstOrder, Solution};
+pub use first_order::{FirstOrder, Solution, solve_case};
 pub use forces::{EndForces, InternalForces};
 pub use system::SystemError;

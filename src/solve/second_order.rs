@@ -15,6 +15,7 @@
 
 use serde::Serialize;
 
+use super::beam::{SpanExtremes, span_extremes};
 use super::first_order::Solution;
 use super::linear::{MeshLoads, Response, respond};
 use super::mesh::{MemberStiffness, Mesh};
@@ -38,10 +39,12 @@ pub struct SecondOrderModel {
 /// Outcome of a direct second-order analysis.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub enum SecondOrderOutcome {
-    /// Converged: model-level results, the number of iterations, and the element axial
-    /// forces of the last iteration (N, tension positive).
+    /// Converged: model-level results, the extreme span moments of each member (from its
+    /// segments, so they include P-δ), the mesh-level response and the iterations taken.
     Converged {
         solution: Solution,
+        span: Vec<SpanExtremes>,
+        response: Box<Response>,
         iterations: usize,
     },
     /// The stiffness lost positive definiteness (load above a critical load) or the
@@ -118,6 +121,8 @@ impl SecondOrderModel {
             if change <= TOLERANCE * scale {
                 return Ok(SecondOrderOutcome::Converged {
                     solution: Solution::from_response(&self.mesh, &r),
+                    span: member_span_extremes(&self.mesh, &r, loads),
+                    response: Box::new(r),
                     iterations: iteration,
                 });
             }
@@ -227,4 +232,42 @@ fn max_translation(u: &[[f64; 3]]) -> f64 {
     u.iter()
         .map(|d| d[0].abs().max(d[1].abs()))
         .fold(0.0, f64::max)
+}
+
+/// Extreme moments along each member, from the end forces and loads of its segments
+/// (positions measured from the member's end i).
+pub fn member_span_extremes(mesh: &Mesh, r: &Response, loads: &MeshLoads) -> Vec<SpanExtremes> {
+    mesh.member_elements
+        .iter()
+        .map(|range| {
+            let mut out: Option<SpanExtremes> = None;
+            for ie in range.clone() {
+                let e = &mesh.elements[ie];
+                let s = span_extremes(e.length, &r.element_forces[ie], &loads.element[ie]);
+                let shifted = SpanExtremes {
+                    max: (s.max.0 + e.x0, s.max.1),
+                    min: (s.min.0 + e.x0, s.min.1),
+                };
+                out = Some(match out {
+                    None => shifted,
+                    Some(o) => SpanExtremes {
+                        max: if shifted.max.1 > o.max.1 {
+                            shifted.max
+                        } else {
+                            o.max
+                        },
+                        min: if shifted.min.1 < o.min.1 {
+                            shifted.min
+                        } else {
+                            o.min
+                        },
+                    },
+                });
+            }
+            out.unwrap_or(SpanExtremes {
+                max: (0.0, 0.0),
+                min: (0.0, 0.0),
+            })
+        })
+        .collect()
 }

@@ -82,13 +82,20 @@ impl SwaySplit {
     pub fn new(model: &Model, stories: &[Story]) -> Result<SwaySplit, SystemError> {
         let free = FirstOrder::new(model, &[])?;
         let held_by_support = |n: usize| {
-            model.supports.iter().any(|s| s.node == n && s.dofs[0] == Restraint::Fixed)
+            model
+                .supports
+                .iter()
+                .any(|s| s.node == n && s.dofs[0] == Restraint::Fixed)
         };
         let level_nodes: Vec<Vec<usize>> = stories
             .iter()
             .map(|s| {
                 let nodes: Vec<usize> = s.top_nodes.clone();
-                if nodes.iter().any(|&n| held_by_support(n)) { Vec::new() } else { nodes }
+                if nodes.iter().any(|&n| held_by_support(n)) {
+                    Vec::new()
+                } else {
+                    nodes
+                }
             })
             .collect();
         let mut unit = Vec::with_capacity(stories.len());
@@ -109,7 +116,12 @@ impl SwaySplit {
                 flexibility[(l, l)] = 1.0;
             }
         }
-        Ok(SwaySplit { free, level_nodes, unit, flexibility })
+        Ok(SwaySplit {
+            free,
+            level_nodes,
+            unit,
+            flexibility,
+        })
     }
 
     /// Empty loads on the first-order mesh.
@@ -133,7 +145,11 @@ impl SwaySplit {
             .unwrap_or_else(|| vec![0.0; self.level_nodes.len()]);
         let sway = self.lateral(&holding.iter().map(|h| -h).collect::<Vec<_>>());
         let no_sway = Solution::combine(&[(1.0, &free), (-1.0, &sway)]);
-        Ok(SwayParts { no_sway, sway, holding })
+        Ok(SwayParts {
+            no_sway,
+            sway,
+            holding,
+        })
     }
 
     /// Split load case `case`.

@@ -126,8 +126,8 @@ pub fn number_dofs(mesh: &Mesh, restraints: &Restraints) -> (Vec<[Dof; 3]>, usiz
     let mut dofs = vec![[Dof::Held; 3]; nn];
     let mut next = 0;
     for &n in &order {
-        for d in 0..3 {
-            dofs[n][d] = match restraints.nodes[n][d] {
+        for (d, (slot, restraint)) in dofs[n].iter_mut().zip(restraints.nodes[n]).enumerate() {
+            *slot = match restraint {
                 Restraint::Fixed => Dof::Held,
                 Restraint::Free if d == 2 && !rot_stiff[n] => Dof::Idle,
                 Restraint::Free => {
@@ -284,8 +284,12 @@ fn locate_free(
     for q in 0..n {
         k.add(q, q, shift);
     }
-    let Ok(factor) = k.factor() else { return fallback() };
-    let mut x: Vec<f64> = (0..n).map(|q| 1.0 + 0.1 * ((q * 7919) % 13) as f64).collect();
+    let Ok(factor) = k.factor() else {
+        return fallback();
+    };
+    let mut x: Vec<f64> = (0..n)
+        .map(|q| 1.0 + 0.1 * ((q * 7919) % 13) as f64)
+        .collect();
     for _ in 0..6 {
         factor.solve(&mut x);
         let norm = x.iter().fold(0.0f64, |m, v| m.max(v.abs()));
@@ -303,9 +307,16 @@ fn locate_free(
             }
         }
     }
-    let peak_t = moving.iter().filter(|m| m.2 < 2).map(|m| m.0).fold(0.0, f64::max);
+    let peak_t = moving
+        .iter()
+        .filter(|m| m.2 < 2)
+        .map(|m| m.0)
+        .fold(0.0, f64::max);
     let keep: Vec<(f64, usize, usize)> = if peak_t > 0.1 {
-        moving.into_iter().filter(|m| m.2 < 2 && m.0 >= 0.5 * peak_t).collect()
+        moving
+            .into_iter()
+            .filter(|m| m.2 < 2 && m.0 >= 0.5 * peak_t)
+            .collect()
     } else {
         moving.into_iter().filter(|m| m.0 >= 0.5).collect()
     };
@@ -326,6 +337,8 @@ fn locate_free(
 
 fn find_equation(dofs: &[[Dof; 3]], eq: usize) -> Option<(usize, usize)> {
     dofs.iter().enumerate().find_map(|(node, d)| {
-        d.iter().position(|x| x.equation() == Some(eq)).map(|k| (node, k))
+        d.iter()
+            .position(|x| x.equation() == Some(eq))
+            .map(|k| (node, k))
     })
 }

@@ -7,7 +7,11 @@ use plumbline::units::{Unit, UnitSystem};
 
 /// SI units for reports of test models.
 pub fn si_units() -> UnitSystem {
-    let u = |name: &str, factor: f64, dim: (i32, i32)| Unit { name: name.into(), factor, dim };
+    let u = |name: &str, factor: f64, dim: (i32, i32)| Unit {
+        name: name.into(),
+        factor,
+        dim,
+    };
     UnitSystem {
         length: u("m", 1.0, (1, 0)),
         force: u("N", 1.0, (0, 1)),
@@ -56,7 +60,11 @@ impl Frame {
     /// A member with its own material (E) and section (A, I); role from orientation.
     pub fn member(&mut self, i: usize, j: usize, e: f64, a: f64, inertia: f64) -> usize {
         let k = self.model.members.len();
-        self.model.materials.push(Material { id: format!("E{k}"), e, unit_weight: None });
+        self.model.materials.push(Material {
+            id: format!("E{k}"),
+            e,
+            unit_weight: None,
+        });
         self.model.sections.push(Section {
             id: format!("S{k}"),
             area: a,
@@ -109,7 +117,9 @@ impl Frame {
     }
 
     pub fn nodal(&mut self, case: usize, node: usize, fx: f64, fy: f64, mz: f64) {
-        self.model.load_cases[case].nodal.push(NodalLoad { node, fx, fy, mz });
+        self.model.load_cases[case]
+            .nodal
+            .push(NodalLoad { node, fx, fy, mz });
     }
 
     /// Full-length uniform load of intensity `w` in `direction`.
@@ -130,7 +140,9 @@ impl Frame {
     }
 
     pub fn member_load(&mut self, case: usize, member: usize, kind: MemberLoadKind) {
-        self.model.load_cases[case].member.push(MemberLoad { member, kind });
+        self.model.load_cases[case]
+            .member
+            .push(MemberLoad { member, kind });
     }
 }
 
