@@ -139,8 +139,11 @@ pub enum StiffnessPreset {
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
 #[serde(rename_all = "kebab-case")]
 pub enum NotionalLoads {
-    /// None added.
+    /// Whatever the second-order method calls for: AISC notional loads for the AISC and
+    /// direct methods, the EN 1993-1-1 sway imperfection for its method, none for ACI.
     #[default]
+    Auto,
+    /// None added.
     None,
     /// N_i = coefficient·α·Y_i at each level (AISC 360-16 §C2.2b, coefficient 0.002).
     Aisc { coefficient: f64 },
@@ -168,7 +171,7 @@ impl Default for AnalysisOptions {
             method: SecondOrderMethod::default(),
             stiffness: StiffnessPreset::default(),
             inertia_factor: BTreeMap::new(),
-            notional: NotionalLoads::None,
+            notional: NotionalLoads::Auto,
             segments: 4,
             beta_dns: 0.6,
         }

@@ -1,0 +1,343 @@
+//! `check`: every factored case solved without sway and with sway, amplified for
+//! second-order effects by the method chosen, and each story classified.
+//!
+//! Stages for one model (the analysis core never reads files or prints):
+//! 1. stories ([`crate::stories`]) and the no-sway/sway split ([`crate::solve::sway`]):
+//!    every load case is solved once, held and free; factored cases combine those
+//!    solutions by their factors;
+//! 2. per factored case: notional loads where the method calls for them, story figures
+//!    (ΣP, shear, drift, Q, B2, δs, α_cr), a direct second-order analysis (for the drift
+//!    amplification Δ2nd/Δ1st, and as the design basis of the `direct` method), and the
+//!    elastic critical load factor from a buckling analysis;
+//! 3. per member: end and span moments as no-sway part, sway part, amplifiers and design
+//!    value ([`member`]).
+//!
+//! Results assist a licensed engineer; local codes and the adopted edition of each
+//! standard govern.
+
+pub mod aci;
+pub mod aisc;
+pub mod ec3;
+pub mod member;
+pub mod story;
+
+use serde::Serialize;
+
+use crate::combos::{Basis, FactoredCase};
+use crate::model::{Model, NotionalLoads, SecondOrderMethod, StiffnessPreset};
+use crate::solve::first_order::combined_member_loads;
+use crate::solve::linear::MeshLoads;
+use crate::solve::mesh::member_stiffness;
+use crate::solve::second_order::{SecondOrderModel, SecondOrderOutcome};
+use crate::solve::sway::{SwayParts, SwaySplit};
+use crate::solve::{Solution, SystemError};
+use crate::stories::{Story, StoryError, stories};
+
+pub use member::{MemberCheck, MomentCheck, Part};
+pub use story::{Classification, StoryFigures};
+
+/// The caution every report of this crate carries.
+pub const CAUTION: &str = "Results assist a licensed engineer and do not replace one: final \
+design belongs to a licensed engineer under the local building code, and the adopted edition \
+of each standard governs.";
+
+/// Why `check` could not run.
+#[derive(Debug, thiserror::Error)]
+pub enum CheckError {
+    #[error(transparent)]
+    Stories(#[from] StoryError),
+    #[error(transparent)]
+    System(#[from] SystemError),
+    #[error("no factored cases to check")]
+    NoCases,
+}
+
+/// A story as the report lists it.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct StoryInfo {
+    pub number: usize,
+    /// Elevations, m.
+    pub bottom: f64,
+    pub top: f64,
+    pub columns: Vec<String>,
+}
+
+/// Outcome of the direct second-order analysis of one case.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct DirectStatus {
+    pub converged: bool,
+    pub iterations: usize,
+    pub reason: Option<String>,
+}
+
+/// Everything `check` found for one factored case (one notional-load direction).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CaseCheck {
+    /// The factored case id, with `/N+` or `/N-` when notional loads were added in both
+    /// directions to a gravity-only case.
+    pub id: String,
+    pub expression: String,
+    pub basis: Basis,
+    /// Notional or imperfection forces added at each story's top level, N (+X).
+    pub notional: Vec<f64>,
+    /// Elastic critical load factor from the buckling analysis (None: nothing buckles).
+    pub alpha_cr: Option<f64>,
+    /// Buckled shape `[ux, uy, θ]` per node, largest translation 1.
+    pub buckled_shape: Option<Vec<[f64; 3]>>,
+    pub direct: DirectStatus,
+    /// False when the case exceeds a critical load (story, member or frame).
+    pub stable: bool,
+    pub stories: Vec<StoryFigures>,
+    pub members: Vec<MemberCheck>,
+}
+
+/// The whole result of `check`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CheckReport {
+    pub title: String,
+    pub method: SecondOrderMethod,
+    pub stiffness: StiffnessPreset,
+    pub stories: Vec<StoryInfo>,
+    pub cases: Vec<CaseCheck>,
+    pub caution: String,
+}
+
+/// Run the check of `model` for `cases` with the model's analysis options.
+pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, CheckError> {
+    if cases.is_empty() {
+        return Err(CheckError::NoCases);
+    }
+    let stories = stories(model)?;
+    let split = SwaySplit::new(model, &stories)?;
+    let parts: Vec<SwayParts> = (0..model.load_cases.len())
+        .map(|k| split.split_case(model, k))
+        .collect::<Result<_, _>>()?;
+    let stiffness = member_stiffness(model);
+    let second = SecondOrderModel::new(model, &stiffness, model.analysis.segments)?;
+    let ctx = Context { model, stories: &stories, split: &split, second: &second, stiffness: &stiffness };
+    let mut out = Vec::new();
+    for fc in cases {
+        out.extend(ctx.case(fc, &parts)?);
+    }
+    Ok(CheckReport {
+        title: model.title.clone(),
+        method: model.analysis.method,
+        stiffness: model.analysis.stiffness,
+        stories: stories
+            .iter()
+            .map(|s| StoryInfo {
+                number: s.number,
+                bottom: s.bottom,
+                top: s.top,
+                columns: s.columns.iter().map(|&m| model.members[m].id.clone()).collect(),
+            })
+            .collect(),
+        cases: out,
+        caution: CAUTION.to_string(),
+    })
+}
+
+/// What every case of one model shares.
+struct Context<'a> {
+    model: &'a Model,
+    stories: &'a [Story],
+    split: &'a SwaySplit,
+    second: &'a SecondOrderModel,
+    stiffness: &'a [crate::solve::mesh::MemberStiffness],
+}
+
+impl Context<'_> {
+    /// Check one factored case: one result, or two for the two notional directions.
+    fn case(&self, fc: &FactoredCase, parts: &[SwayParts]) -> Result<Vec<CaseCheck>, CheckError> {
+        let model = self.model;
+        let refs: Vec<(f64, &SwayParts)> = fc.factors.iter().map(|&(k, f)| (f, &parts[k])).collect();
+        if refs.is_empty() {
+            return Ok(Vec::new());
+        }
+        let combined = SwayParts::combine(&refs);
+        let total = combined.total();
+        let member_loads = combined_member_loads(model, &fc.factors);
+        let gravity = story::story_gravity(model, self.stories, &total);
+        let alpha = aisc::alpha(fc.basis);
+
+        // Applied loads of the case on the segmented mesh, for the direct and buckling
+        // analyses, and the net applied lateral load.
+        let mut loads = MeshLoads::zero(&self.second.mesh);
+        for &(k, f) in &fc.factors {
+            loads.add_case(model, &self.second.mesh, k, f);
+        }
+        let lateral = loads.resultant(&self.second.mesh)[0];
+        let v_total = gravity.sum_p.first().copied().unwrap_or(0.0).max(0.0);
+
+        let buckling = self.second.critical_factor(model, &loads)?;
+
+        // Notional loads: which directions, and how large at each level.
+        let base_sway: Solution = combined.sway.clone();
+        let estimate = story::figures(
+            model, self.stories, self.split, &gravity, &combined.holding, &[], &base_sway, alpha,
+        );
+        let variants = notional_variants(
+            model,
+            self.stories,
+            fc.basis,
+            lateral,
+            v_total,
+            &gravity,
+            &total,
+            &estimate,
+        );
+
+        let mut out = Vec::with_capacity(variants.len());
+        for (suffix, notional) in variants {
+            let sway = if notional.iter().any(|&n| n != 0.0) {
+                let mut s = combined.sway.clone();
+                s.add_scaled(1.0, &self.split.lateral(&notional));
+                s
+            } else {
+                combined.sway.clone()
+            };
+            // Direct analysis at α × loads (AISC 360-16 §C2.1: ASD combinations are
+            // analysed at 1.6 × the ASD loads and the results divided by 1.6, from memory).
+            let mut dl = MeshLoads::zero(&self.second.mesh);
+            for &(k, f) in &fc.factors {
+                dl.add_case(model, &self.second.mesh, k, alpha * f);
+            }
+            for (s, &n) in self.stories.iter().zip(&notional) {
+                let nodes = &self.split.level_nodes[s.number - 1];
+                for &node in nodes {
+                    dl.add_nodal(node, [alpha * n / nodes.len() as f64, 0.0, 0.0]);
+                }
+            }
+            let direct = self.second.direct(model, &dl)?;
+            let (direct_status, direct_solution) = match direct {
+                SecondOrderOutcome::Converged { solution, span, iterations, .. } => {
+                    let mut s = Solution::zero_like(&solution);
+                    s.add_scaled(1.0 / alpha, &solution);
+                    let span = span
+                        .into_iter()
+                        .map(|e| crate::solve::beam::SpanExtremes {
+                            max: (e.max.0, e.max.1 / alpha),
+                            min: (e.min.0, e.min.1 / alpha),
+                        })
+                        .collect::<Vec<_>>();
+                    (
+                        DirectStatus { converged: true, iterations, reason: None },
+                        Some((s, span)),
+                    )
+                }
+                SecondOrderOutcome::Unstable { reason } => (
+                    DirectStatus { converged: false, iterations: 0, reason: Some(reason) },
+                    None,
+                ),
+            };
+            let figures = story::figures(
+                model,
+                self.stories,
+                self.split,
+                &gravity,
+                &combined.holding,
+                &notional,
+                &sway,
+                alpha,
+            );
+            let figures = story::classify(
+                model,
+                self.stories,
+                figures,
+                direct_solution.as_ref().map(|d| &d.0),
+                &combined.no_sway,
+                &sway,
+                alpha,
+            );
+            let members = member::members(&member::MemberInput {
+                model,
+                stories: self.stories,
+                stiffness: self.stiffness,
+                no_sway: &combined.no_sway,
+                sway: &sway,
+                loads: &member_loads,
+                figures: &figures,
+                direct: direct_solution.as_ref(),
+                alpha,
+            });
+            let stable = direct_status.converged
+                && figures.iter().all(|f| f.classification != Classification::Unstable)
+                && members.iter().all(|m| m.stable)
+                && buckling.as_ref().is_none_or(|b| b.alpha_cr > 1.0);
+            out.push(CaseCheck {
+                id: format!("{}{}", fc.id, suffix),
+                expression: fc.expression.clone(),
+                basis: fc.basis,
+                notional,
+                alpha_cr: buckling.as_ref().map(|b| b.alpha_cr),
+                buckled_shape: buckling.as_ref().map(|b| b.shape.clone()),
+                direct: direct_status,
+                stable,
+                stories: figures,
+                members,
+            });
+        }
+        Ok(out)
+    }
+}
+
+/// The notional-load variants of one case: `(id suffix, force per story level)`.
+///
+/// * AISC 360-16 §C2.2b: `Ni = 0.002·α·Yi` (+0.001·α·Yi with τb = 1, §C2.3(c)); in
+///   gravity-only cases in both directions; in cases with lateral load only when
+///   Δ2nd/Δ1st (estimated by B2) exceeds 1.7, in the direction of the lateral load [C1].
+/// * EN 1993-1-1 §5.3.2: `φ·N` at each level with φ from (5.5); omitted when
+///   `H_Ed ≥ 0.15·V_Ed` (§5.3.2(4)B) [M].
+/// * `auto` picks AISC notional loads for the AISC and direct methods, the EN 1993-1-1
+///   imperfection for its method, and none for ACI 318's moment magnification.
+#[allow(clippy::too_many_arguments)]
+fn notional_variants(
+    model: &Model,
+    stories: &[Story],
+    basis: Basis,
+    lateral: f64,
+    v_total: f64,
+    gravity: &story::Gravity,
+    total: &Solution,
+    estimate: &[StoryFigures],
+) -> Vec<(&'static str, Vec<f64>)> {
+    let none = vec![("", vec![0.0; stories.len()])];
+    let alpha = aisc::alpha(basis);
+    let kind = match model.analysis.notional {
+        NotionalLoads::Auto => match model.analysis.method {
+            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => {
+                NotionalLoads::Aisc { coefficient: 0.002 }
+            }
+            SecondOrderMethod::Ec3AlphaCr => NotionalLoads::Ec3Imperfection,
+            SecondOrderMethod::AciMagnifier => NotionalLoads::None,
+        },
+        k => k,
+    };
+    let gravity_only = lateral.abs() <= 1e-9 * v_total.max(1.0);
+    let coefficient = match kind {
+        NotionalLoads::None | NotionalLoads::Auto => return none,
+        NotionalLoads::Aisc { coefficient } => {
+            let tau_b_one = model.analysis.stiffness == StiffnessPreset::AiscDirect;
+            let c = (coefficient + if tau_b_one { 0.001 } else { 0.0 }) * alpha;
+            let ratio = estimate.iter().filter_map(|f| f.b2).fold(1.0, f64::max);
+            if !gravity_only && ratio <= aisc::NOTIONAL_GRAVITY_ONLY_LIMIT {
+                return none;
+            }
+            c
+        }
+        NotionalLoads::Ec3Imperfection => {
+            if !gravity_only && ec3::imperfection_negligible(lateral, v_total) {
+                return none;
+            }
+            let height = stories.last().map_or(0.0, |s| s.top) - stories.first().map_or(0.0, |s| s.bottom);
+            let m = story::loaded_columns(model, &stories[0], total);
+            ec3::sway_imperfection(height, m)
+        }
+    };
+    let level = |sign: f64| -> Vec<f64> { gravity.y.iter().map(|y| sign * coefficient * y).collect() };
+    if gravity_only {
+        vec![("/N+", level(1.0)), ("/N-", level(-1.0))]
+    } else {
+        vec![("", level(lateral.signum()))]
+    }
+}
