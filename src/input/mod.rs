@@ -1,1 +1,54 @@
-//! Reading model files (skeleton).
+//! Reading model files: TOML text → [`raw`] structs mirroring the file (with source spans)
+//! → [`validate`] (units applied, [`generate`]d frame expanded, ids resolved, geometry and
+//! loads checked) → [`Model`]. The format is documented in `docs/model-file.md`.
+//!
+//! Every problem is a [`FileError`] naming the file, line, column and field.
+
+pub mod generate;
+pub mod raw;
+pub mod select;
+pub mod validate;
+
+use std::path::Path;
+use std::sync::Arc;
+
+use crate::diag::FileError;
+use crate::model::Model;
+
+/// Parse and validate the text of a model file; `file` names it in error messages.
+pub fn parse_model(text: &str, file: &str) -> Result<Model, FileError> {
+    let shared: Arc<str> = Arc::from(text);
+    let raw: raw::RawModel = toml::from_str(text).map_err(|e| toml_error(&e, file, &shared))?;
+    validate::build(raw, file, shared)
+}
+
+/// Read and validate a model file from disk.
+pub fn load_model(path: &Path) -> Result<Model, FileError> {
+    let file = path.display().to_string();
+    let text = std::fs::read_to_string(path).map_err(|e| FileError {
+        file: file.clone(),
+        line: 0,
+        column: 0,
+        field: "(file)".to_string(),
+        message: format!("cannot read the model file: {e}"),
+        help: Some("expected a readable UTF-8 TOML file".to_string()),
+        span: None,
+        source_text: None,
+    })?;
+    parse_model(&text, &file)
+}
+
+/// A TOML syntax or type error as a located [`FileError`]; the field is the key at the
+/// error position when one can be read there.
+fn toml_error(e: &toml::de::Error, file: &str, text: &Arc<str>) -> FileError {
+    let span = e.span();
+    let field = span
+        .as_ref()
+        .and_then(|s| text.get(s.clone()))
+        .map(|t| t.trim())
+        .filter(|t| !t.is_empty() && t.len() <= 40 && !t.contains('\n'))
+        .unwrap_or("(toml)")
+        .to_string();
+    let message = e.message().trim().trim_end_matches('.').replace('\n', " ");
+    FileError::at(file, text, span, field, message)
+}
