@@ -124,7 +124,16 @@ pub fn describe_exponents(dim: (i32, i32)) -> String {
     if let Some(d) = named.iter().find(|d| d.exponents() == dim) {
         return d.describe().to_string();
     }
-    format!("length^{}*force^{}", dim.0, dim.1)
+    let part = |name: &str, p: i32| match p {
+        0 => None,
+        1 => Some(name.to_string()),
+        _ => Some(format!("{name}^{p}")),
+    };
+    let parts: Vec<String> = [part("length", dim.0), part("force", dim.1)]
+        .into_iter()
+        .flatten()
+        .collect();
+    parts.join("*")
 }
 
 /// A named unit: SI value of one unit and its dimension exponents (length, force).

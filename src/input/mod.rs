@@ -38,17 +38,36 @@ pub fn load_model(path: &Path) -> Result<Model, FileError> {
     parse_model(&text, &file)
 }
 
-/// A TOML syntax or type error as a located [`FileError`]; the field is the key at the
-/// error position when one can be read there.
+/// A TOML syntax or type error as a located [`FileError`]; the field is the key (or table
+/// header) written on the line of the error, when there is one.
 fn toml_error(e: &toml::de::Error, file: &str, text: &Arc<str>) -> FileError {
     let span = e.span();
     let field = span
         .as_ref()
-        .and_then(|s| text.get(s.clone()))
-        .map(|t| t.trim())
-        .filter(|t| !t.is_empty() && t.len() <= 40 && !t.contains('\n'))
-        .unwrap_or("(toml)")
-        .to_string();
+        .map_or_else(|| "(toml)".to_string(), |s| key_on_line(text, s.start));
     let message = e.message().trim().trim_end_matches('.').replace('\n', " ");
     FileError::at(file, text, span, field, message)
+}
+
+/// The key assigned on the line holding byte `pos` (`key = ...`), or the table header
+/// (`[frame]`, `[[case.member_load]]`), or `(toml)`.
+fn key_on_line(text: &str, pos: usize) -> String {
+    let pos = text.floor_char_boundary(pos.min(text.len()));
+    let start = text[..pos].rfind('\n').map_or(0, |k| k + 1);
+    let line = text[start..].lines().next().unwrap_or("").trim();
+    let is_key = |k: &str| {
+        !k.is_empty()
+            && k.chars()
+                .all(|c| c.is_alphanumeric() || matches!(c, '_' | '-' | '.' | '"'))
+    };
+    if line.starts_with('[') {
+        return line
+            .trim_matches(|c| c == '[' || c == ']')
+            .trim()
+            .to_string();
+    }
+    match line.split_once('=') {
+        Some((k, _)) if is_key(k.trim()) => k.trim().to_string(),
+        _ => "(toml)".to_string(),
+    }
 }

@@ -117,7 +117,7 @@ impl Ctx {
                 v.span(),
                 field,
                 format!(
-                    "expected a positive value ({}), got {}",
+                    "expected {} greater than zero, got {}",
                     dim.describe(),
                     self.show(si, dim)
                 ),
