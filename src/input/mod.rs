@@ -4,6 +4,10 @@
 //!
 //! Every problem is a [`FileError`] naming the file, line, column and field.
 
+// FileError carries the source text and span for rendering; errors are rare and returned
+// once per file, so its size does not matter here.
+#![allow(clippy::result_large_err)]
+
 pub mod generate;
 pub mod raw;
 pub mod select;

@@ -926,19 +926,17 @@ fn self_weight(
 
 /// A position along a member: a length, or a fraction of the member length written `"0.5L"`.
 fn position(ctx: &Ctx, v: &S<Num>, l: f64, field: &str) -> Result<f64, FileError> {
-    if let Num::Text(t) = v.get_ref() {
-        if let Some(frac) = t.trim().strip_suffix('L') {
-            return match frac.trim().parse::<f64>() {
-                Ok(f) if f.is_finite() => Ok(f * l),
-                _ => Err(ctx.err(
-                    v.span(),
-                    field,
-                    format!(
-                        "expected a fraction of the member length such as \"0.5L\", got \"{t}\""
-                    ),
-                )),
-            };
-        }
+    if let Num::Text(t) = v.get_ref()
+        && let Some(frac) = t.trim().strip_suffix('L')
+    {
+        return match frac.trim().parse::<f64>() {
+            Ok(f) if f.is_finite() => Ok(f * l),
+            _ => Err(ctx.err(
+                v.span(),
+                field,
+                format!("expected a fraction of the member length such as \"0.5L\", got \"{t}\""),
+            )),
+        };
     }
     ctx.quantity(v, Dimension::Length, field)
 }
