@@ -756,3 +756,53 @@ fn bare_numbers_use_the_declared_units() {
     );
     assert_eq!(m.units.label(plumbline::units::Dimension::Moment), "kip·ft");
 }
+
+#[test]
+fn documented_example_parses() {
+    let doc =
+        std::fs::read_to_string(Path::new(env!("CARGO_MANIFEST_DIR")).join("docs/model-file.md"))
+            .unwrap();
+    let start = doc.find("```toml\n").unwrap() + 8;
+    let end = start + doc[start..].find("```").unwrap();
+    let m = parse_model(&doc[start..end], "model-file.md").unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(m.members.len(), 15);
+    assert_eq!(m.load_cases.len(), 3);
+}
+
+#[test]
+fn truncated_and_mangled_files_give_errors_not_panics() {
+    for name in [
+        "workshop-portal.toml",
+        "retail-2story.toml",
+        "gable-frame.toml",
+        "office-3story.toml",
+    ] {
+        let text = std::fs::read_to_string(
+            Path::new(env!("CARGO_MANIFEST_DIR"))
+                .join("examples")
+                .join(name),
+        )
+        .unwrap();
+        let lines: Vec<&str> = text.lines().collect();
+        for k in 0..lines.len() {
+            // Every prefix of the file, and the file with line k removed.
+            let _ = parse_model(&lines[..k].join("\n"), name);
+            let mut cut = lines.clone();
+            cut.remove(k);
+            let _ = parse_model(&cut.join("\n"), name);
+        }
+    }
+}
+
+#[test]
+fn explicit_member_overlapping_generated_columns() {
+    // A member from N1.0 to N1.2 lies along columns C1.1 and C1.2.
+    let t = format!(
+        "{TWO_BAY_THREE_STORY}\n[[member]]\nid = \"long\" # <-\ni = \"N1.0\"\nj = \"N1.2\"\nsection = \"beam\"\nmaterial = \"S355\"\n"
+    );
+    let msg = error_on_marked_line(&t);
+    assert!(msg.contains("overlaps member \"C1.1\" over 4.5 m"), "{msg}");
+    // A duplicate of a generated node id points at the explicit node.
+    let t = format!("{TWO_BAY_THREE_STORY}\n[[node]]\nid = \"N2.2\" # <-\nx = 1\ny = 1\n");
+    assert!(error_on_marked_line(&t).contains("duplicate node id \"N2.2\""));
+}

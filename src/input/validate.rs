@@ -567,62 +567,114 @@ fn check_geometry(
         let (rx, ry) = (px - a.x, py - a.y);
         (rx * c + ry * s, (-rx * s + ry * c).abs())
     };
-    for k in 0..members.len() {
-        let tol = GEOMETRY_TOL * lengths[k];
-        for q in 0..k {
+    // Candidate pairs come from a sweep over bounding boxes sorted by their left edge, so
+    // the cost grows with the number of nearby members, not the square of all members.
+    let slack = GEOMETRY_TOL * lengths.iter().fold(0.0_f64, |a, &l| a.max(l));
+    let bbox =
+        |p: (f64, f64), q: (f64, f64)| [p.0.min(q.0), p.0.max(q.0), p.1.min(q.1), p.1.max(q.1)];
+    let boxes: Vec<[f64; 4]> = members
+        .iter()
+        .map(|m| bbox((nodes[m.i].x, nodes[m.i].y), (nodes[m.j].x, nodes[m.j].y)))
+        .collect();
+    let mut order: Vec<usize> = (0..members.len()).collect();
+    order.sort_by(|&a, &b| boxes[a][0].total_cmp(&boxes[b][0]));
+    // The overlapping pair whose later member comes first in the file: (later, earlier, shared).
+    let mut overlap: Option<(usize, usize, f64)> = None;
+    for (p, &u) in order.iter().enumerate() {
+        for &v in &order[p + 1..] {
+            if boxes[v][0] > boxes[u][1] + slack {
+                break;
+            }
+            if boxes[v][2] > boxes[u][3] + slack || boxes[u][2] > boxes[v][3] + slack {
+                continue;
+            }
+            let (k, q) = (u.max(v), u.min(v));
+            let tol = GEOMETRY_TOL * lengths[k];
             let (nq_i, nq_j) = (&nodes[members[q].i], &nodes[members[q].j]);
             let (t1, d1) = along(k, nq_i.x, nq_i.y);
             let (t2, d2) = along(k, nq_j.x, nq_j.y);
             let shared = t1.max(t2).min(lengths[k]) - t1.min(t2).max(0.0);
-            if d1 <= tol && d2 <= tol && shared > tol {
-                return Err(ctx.err(
-                    defs[k].at.span.clone(),
-                    &defs[k].at.field,
-                    format!(
-                        "member \"{}\" overlaps member \"{}\" over {}: expected collinear members to meet only at a shared end node",
-                        members[k].id,
-                        members[q].id,
-                        ctx.show(shared, Dimension::Length)
-                    ),
-                ));
+            if d1 <= tol && d2 <= tol && shared > tol && overlap.is_none_or(|o| (k, q) < (o.0, o.1))
+            {
+                overlap = Some((k, q, shared));
             }
         }
+    }
+    if let Some((k, q, shared)) = overlap {
+        return Err(ctx.err(
+            defs[k].at.span.clone(),
+            &defs[k].at.field,
+            format!(
+                "member \"{}\" overlaps member \"{}\" over {}: expected collinear members to meet only at a shared end node",
+                members[k].id,
+                members[q].id,
+                ctx.show(shared, Dimension::Length)
+            ),
+        ));
     }
     let mut connected = vec![false; nodes.len()];
     for m in members {
         connected[m.i] = true;
         connected[m.j] = true;
     }
-    for (n, node) in nodes.iter().enumerate() {
+    if let Some(n) = connected.iter().position(|c| !c) {
         let at = &node_defs[n].at;
-        if !connected[n] {
-            return Err(ctx.err(
-                at.span.clone(),
-                &at.field,
-                format!("node \"{}\" is not connected to any member: expected every node to be an end of a member", node.id),
-            ));
-        }
-        for (k, m) in members.iter().enumerate() {
-            if m.i == n || m.j == n {
+        return Err(ctx.err(
+            at.span.clone(),
+            &at.field,
+            format!(
+                "node \"{}\" is not connected to any member: expected every node to be an end of a member",
+                nodes[n].id
+            ),
+        ));
+    }
+    // Nodes sorted by x; each member looks only at the nodes within its bounding box.
+    let mut by_x: Vec<usize> = (0..nodes.len()).collect();
+    by_x.sort_by(|&a, &b| nodes[a].x.total_cmp(&nodes[b].x));
+    // The first node (in file order) lying inside a member: (node, member, distance from i).
+    let mut inside: Option<(usize, usize, f64)> = None;
+    for (k, m) in members.iter().enumerate() {
+        let tol = GEOMETRY_TOL * lengths[k];
+        let first = by_x.partition_point(|&n| nodes[n].x < boxes[k][0] - slack);
+        for &n in by_x[first..]
+            .iter()
+            .take_while(|&&n| nodes[n].x <= boxes[k][1] + slack)
+        {
+            if m.i == n
+                || m.j == n
+                || nodes[n].y < boxes[k][2] - slack
+                || nodes[n].y > boxes[k][3] + slack
+            {
                 continue;
             }
-            let tol = GEOMETRY_TOL * lengths[k];
-            let (t, d) = along(k, node.x, node.y);
-            if d <= tol && t > tol && t < lengths[k] - tol {
-                return Err(ctx.err(
-                    at.span.clone(),
-                    &at.field,
-                    format!(
-                        "node \"{}\" lies on member \"{}\" at {} from its end i but is not connected to it: \
-                         expected members to meet only at their end nodes",
-                        node.id,
-                        m.id,
-                        ctx.show(t, Dimension::Length)
-                    ),
-                )
-                .with_help(format!("split member \"{}\" at node \"{}\" into two members, or move the node", m.id, node.id)));
+            let (t, d) = along(k, nodes[n].x, nodes[n].y);
+            if d <= tol
+                && t > tol
+                && t < lengths[k] - tol
+                && inside.is_none_or(|o| (n, k) < (o.0, o.1))
+            {
+                inside = Some((n, k, t));
             }
         }
+    }
+    if let Some((n, k, t)) = inside {
+        let (at, node, m) = (&node_defs[n].at, &nodes[n], &members[k]);
+        return Err(ctx
+            .err(
+                at.span.clone(),
+                &at.field,
+                format!(
+                    "node \"{}\" lies on member \"{}\" at {} from its end i but is not connected to it: \
+                     expected members to meet only at their end nodes",
+                    node.id,
+                    m.id,
+                    ctx.show(t, Dimension::Length)
+                ),
+            )
+            .with_help(format!(
+                "split member \"{}\" at node \"{}\" into two members, or move the node",
+                m.id, node.id
+            )));
     }
     Ok(())
 }
