@@ -1,0 +1,244 @@
+//! Unit conversions against their exact definitions, and dimension errors.
+//!
+//! Sources: the international yard and pound agreement (1959): 1 yd = 0.9144 m exactly, so
+//! 1 ft = 0.3048 m and 1 in = 25.4 mm exactly; NIST SP 811 (2008 ed.) Appendix B: 1 lbf =
+//! 0.45359237 kg × 9.80665 m/s² = 4.4482216152605 N exactly. Rounded factors quoted
+//! from NIST SP 811 App. B.9 below are tagged "from memory" (recalled, not re-read); the
+//! exact checks do not depend on them.
+
+use plumbline::units::{Dimension, UnitError, UnitSystem, parse_quantity, parse_unit};
+
+const IN: f64 = 0.0254;
+const FT: f64 = 0.3048;
+const LBF: f64 = 4.448_221_615_260_5;
+
+/// Relative closeness for values computed by different roundings of the same exact product.
+fn close(a: f64, b: f64) -> bool {
+    (a - b).abs() <= 4.0 * f64::EPSILON * b.abs()
+}
+
+fn q(text: &str, d: Dimension) -> f64 {
+    parse_quantity(text, d).unwrap_or_else(|e| panic!("{text}: {e}"))
+}
+
+#[test]
+fn lengths_are_exact() {
+    // 1959 agreement: 1 in = 25.4 mm, 1 ft = 0.3048 m.
+    assert_eq!(q("1 in", Dimension::Length), IN);
+    assert_eq!(q("1 ft", Dimension::Length), FT);
+    assert_eq!(q("25.4 mm", Dimension::Length), 0.0254);
+    assert_eq!(q("100 cm", Dimension::Length), 1.0);
+    assert_eq!(q("4.5 m", Dimension::Length), 4.5);
+    assert!(close(
+        q("12 in", Dimension::Length),
+        q("1 ft", Dimension::Length)
+    ));
+}
+
+#[test]
+fn forces_are_exact() {
+    // NIST SP 811 App. B: 1 lbf = 4.4482216152605 N (exact); 1 kip = 1000 lbf.
+    assert_eq!(q("1 lbf", Dimension::Force), LBF);
+    assert_eq!(q("1 lb", Dimension::Force), LBF);
+    assert_eq!(q("1 kip", Dimension::Force), 1000.0 * LBF);
+    assert_eq!(q("2 kips", Dimension::Force), 2000.0 * LBF);
+    assert_eq!(q("25 kN", Dimension::Force), 25_000.0);
+    assert_eq!(q("1.5 MN", Dimension::Force), 1.5e6);
+    // NIST SP 811 B.9: kip → N 4.448 222 E+03 (from memory), to its 7 digits.
+    assert!((q("1 kip", Dimension::Force) / 4.448_222e3 - 1.0).abs() < 1e-6);
+}
+
+#[test]
+fn stresses_follow_their_definitions() {
+    // 1 psi = 1 lbf/in², 1 ksi = 1000 psi, 1 psf = 1 lbf/ft² (definitions).
+    assert!(close(q("1 psi", Dimension::Stress), LBF / (IN * IN)));
+    assert!(close(
+        q("1 psi", Dimension::Stress),
+        q("1 lbf/in^2", Dimension::Stress)
+    ));
+    assert!(close(
+        q("29000 ksi", Dimension::Stress),
+        29e6 * LBF / (IN * IN)
+    ));
+    assert!(close(q("1 psf", Dimension::Stress), LBF / (FT * FT)));
+    assert_eq!(q("210 GPa", Dimension::Stress), 210e9);
+    assert_eq!(q("355 MPa", Dimension::Stress), 355e6);
+    assert_eq!(
+        q("355 N/mm^2", Dimension::Stress),
+        q("355 MPa", Dimension::Stress)
+    );
+    assert_eq!(q("2 kPa", Dimension::Stress), 2000.0);
+    assert_eq!(q("2 kN/m^2", Dimension::Stress), 2000.0);
+    // NIST SP 811 B.9 (from memory): psi → Pa 6.894 757 E+03; psf → Pa 4.788 026 E+01.
+    assert!((q("1 psi", Dimension::Stress) / 6.894_757e3 - 1.0).abs() < 1e-6);
+    assert!((q("1 psf", Dimension::Stress) / 4.788_026e1 - 1.0).abs() < 1e-6);
+}
+
+#[test]
+fn section_properties() {
+    // in² and in⁴ from 1 in = 0.0254 m; cm⁴ = 1e-8 m⁴.
+    assert!(close(q("23.2 in^2", Dimension::Area), 23.2 * IN * IN));
+    assert!(close(
+        q("1250 in^4", Dimension::SecondMoment),
+        1250.0 * IN.powi(4)
+    ));
+    assert!(close(
+        q("1250 in⁴", Dimension::SecondMoment),
+        1250.0 * IN.powi(4)
+    ));
+    assert!(close(q("8000 cm^4", Dimension::SecondMoment), 8000e-8));
+    assert!(close(q("14900 mm²", Dimension::Area), 14900e-6));
+    // NIST SP 811 B.9 (from memory): in⁴ → m⁴ 4.162 314 E−07.
+    assert!((q("1 in^4", Dimension::SecondMoment) / 4.162_314e-7 - 1.0).abs() < 1e-6);
+}
+
+#[test]
+fn line_loads_moments_unit_weights_springs() {
+    assert!(close(
+        q("2.2 kip/ft", Dimension::LineLoad),
+        2200.0 * LBF / FT
+    ));
+    assert_eq!(q("12 kN/m", Dimension::LineLoad), 12_000.0);
+    // NIST SP 811 B.9 (from memory): lbf/ft → N/m 1.459 390 E+01.
+    assert!((q("1 lbf/ft", Dimension::LineLoad) / 1.459_390e1 - 1.0).abs() < 1e-6);
+    assert!(close(
+        q("30 kip*ft", Dimension::Moment),
+        30_000.0 * LBF * FT
+    ));
+    assert!(close(
+        q("30 kip·ft", Dimension::Moment),
+        q("360 kip*in", Dimension::Moment)
+    ));
+    assert_eq!(q("40 kN*m", Dimension::Moment), 40_000.0);
+    // NIST SP 811 B.9 (from memory): lbf·ft → N·m 1.355 818 E+00.
+    assert!((q("1 lbf*ft", Dimension::Moment) / 1.355_818 - 1.0).abs() < 1e-6);
+    assert!(close(
+        q("490 lbf/ft^3", Dimension::UnitWeight),
+        490.0 * LBF / FT.powi(3)
+    ));
+    assert_eq!(q("78.5 kN/m^3", Dimension::UnitWeight), 78_500.0);
+    assert!(close(
+        q("300 kip/in", Dimension::Stiffness),
+        300_000.0 * LBF / IN
+    ));
+    assert_eq!(q("20000 kN*m/rad", Dimension::RotationalStiffness), 2e7);
+    assert_eq!(q("0.5", Dimension::Dimensionless), 0.5);
+    assert_eq!(q("-1.5e3 N", Dimension::Force), -1500.0);
+}
+
+#[test]
+fn wrong_dimension_says_expected_and_given() {
+    let e = parse_quantity("12 kN*m", Dimension::LineLoad).unwrap_err();
+    assert_eq!(
+        e,
+        UnitError::WrongDimension {
+            expected: Dimension::LineLoad,
+            got: "kN*m".into(),
+            got_dim: (1, 1)
+        }
+    );
+    assert!(
+        e.to_string()
+            .starts_with("expected a line load (force/length), got kN*m"),
+        "{e}"
+    );
+    let e = parse_quantity("1250 in^3", Dimension::SecondMoment).unwrap_err();
+    assert!(e.to_string().contains("got in^3 (length^3)"), "{e}");
+    assert!(parse_quantity("29000 ksi", Dimension::Force).is_err());
+    assert!(parse_quantity("4.5 m", Dimension::Area).is_err());
+}
+
+#[test]
+fn malformed_quantities_are_errors() {
+    assert_eq!(
+        parse_quantity("12", Dimension::LineLoad),
+        Err(UnitError::MissingUnit {
+            expected: Dimension::LineLoad
+        })
+    );
+    assert!(matches!(
+        parse_quantity("kN", Dimension::Force),
+        Err(UnitError::NoNumber { .. })
+    ));
+    assert!(matches!(
+        parse_quantity("12 furlong", Dimension::Length),
+        Err(UnitError::UnknownUnit { .. })
+    ));
+    assert!(matches!(
+        parse_quantity("12 KN", Dimension::Force),
+        Err(UnitError::UnknownUnit { .. })
+    ));
+    assert!(matches!(
+        parse_quantity("12 kN//m", Dimension::LineLoad),
+        Err(UnitError::Syntax { .. })
+    ));
+    assert!(matches!(
+        parse_quantity("12 m^0", Dimension::Length),
+        Err(UnitError::Syntax { .. })
+    ));
+    assert!(matches!(
+        parse_quantity("12 m^", Dimension::Length),
+        Err(UnitError::Syntax { .. })
+    ));
+    assert!(matches!(
+        parse_quantity("1e400 m", Dimension::Length),
+        Err(UnitError::NotFinite { .. })
+    ));
+    assert!(parse_unit("kN/m^-2").is_ok_and(|u| u.dim == (2, 1)));
+}
+
+#[test]
+fn presets_and_overrides() {
+    let s = UnitSystem::preset("kip-ft").unwrap();
+    // Bare numbers: 20 ft, 29000 ksi, 1250 in⁴ (section unit in), 2 kip/ft.
+    assert_eq!(s.to_si(20.0, Dimension::Length), 20.0 * FT);
+    assert!(close(
+        s.to_si(29000.0, Dimension::Stress),
+        q("29000 ksi", Dimension::Stress)
+    ));
+    assert!(close(
+        s.to_si(1250.0, Dimension::SecondMoment),
+        1250.0 * IN.powi(4)
+    ));
+    assert!(close(s.to_si(2.0, Dimension::LineLoad), 2000.0 * LBF / FT));
+    // Reports: displacements in the deflection unit (in), moments in kip·ft.
+    assert!(close(s.from_si(0.0254, Dimension::Displacement), 1.0));
+    assert_eq!(s.label(Dimension::Displacement), "in");
+    assert_eq!(s.label(Dimension::Moment), "kip·ft");
+    assert_eq!(s.label(Dimension::LineLoad), "kip/ft");
+    assert_eq!(s.label(Dimension::SecondMoment), "in⁴");
+    let m = UnitSystem::preset("kN-m").unwrap();
+    assert_eq!(m.label(Dimension::Stress), "MPa");
+    assert_eq!(m.label(Dimension::Displacement), "mm");
+    assert_eq!(m.to_si(1.0e8, Dimension::SecondMoment), 1.0e8 * 1e-12);
+    assert_eq!(m.from_si(2.5e-3, Dimension::Displacement), 2.5);
+    for name in ["kN-m", "kip-ft", "kip-in", "N-mm"] {
+        let sys = UnitSystem::preset(name).unwrap();
+        for d in [
+            Dimension::Length,
+            Dimension::Moment,
+            Dimension::UnitWeight,
+            Dimension::RotationalStiffness,
+        ] {
+            assert!(
+                close(sys.from_si(sys.to_si(3.7, d), d), 3.7),
+                "{name} {d:?}"
+            );
+        }
+    }
+    let mut o = UnitSystem::preset("kip-ft").unwrap();
+    o.set_unit("deflection", "mm").unwrap();
+    assert_eq!(o.from_si(0.01, Dimension::Displacement), 10.0);
+    assert!(matches!(
+        o.set_unit("stress", "kip"),
+        Err(UnitError::WrongDimension { .. })
+    ));
+    assert!(matches!(
+        o.set_unit("mass", "kg"),
+        Err(UnitError::UnknownSlot { .. })
+    ));
+    assert!(matches!(
+        UnitSystem::preset("SI"),
+        Err(UnitError::UnknownPreset { .. })
+    ));
+}
