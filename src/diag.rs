@@ -65,7 +65,9 @@ pub fn line_col(text: &str, pos: usize) -> (usize, usize) {
 
 impl miette::Diagnostic for FileError {
     fn help<'a>(&'a self) -> Option<Box<dyn std::fmt::Display + 'a>> {
-        self.help.as_ref().map(|h| Box::new(h) as Box<dyn std::fmt::Display>)
+        self.help
+            .as_ref()
+            .map(|h| Box::new(h) as Box<dyn std::fmt::Display>)
     }
 
     fn source_code(&self) -> Option<&dyn miette::SourceCode> {

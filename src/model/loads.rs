@@ -12,8 +12,20 @@ use strum::{Display, EnumIter, EnumString, IntoStaticStr};
 /// The kind of action a load case belongs to. Combination tables (see [`crate::combos`]) draw
 /// load cases from these categories through their action symbols.
 #[derive(
-    Debug, Clone, Copy, PartialEq, Eq, Hash, PartialOrd, Ord, Serialize, Deserialize, Display,
-    EnumString, EnumIter, IntoStaticStr,
+    Debug,
+    Clone,
+    Copy,
+    PartialEq,
+    Eq,
+    Hash,
+    PartialOrd,
+    Ord,
+    Serialize,
+    Deserialize,
+    Display,
+    EnumString,
+    EnumIter,
+    IntoStaticStr,
 )]
 #[serde(rename_all = "kebab-case")]
 #[strum(serialize_all = "kebab-case")]
@@ -80,7 +92,11 @@ pub enum MemberLoadKind {
         measure: Measure,
     },
     /// Concentrated force `p` at distance `a` from end i.
-    Point { a: f64, p: f64, direction: LoadDirection },
+    Point {
+        a: f64,
+        p: f64,
+        direction: LoadDirection,
+    },
     /// Concentrated moment `m` (CCW positive) at distance `a` from end i.
     Moment { a: f64, m: f64 },
 }
@@ -122,7 +138,14 @@ pub struct LoadCase {
 pub enum LocalLoad {
     /// Linearly varying load on `a..b`: axial `qx` and transverse `qy` intensities (N/m)
     /// at `a` and at `b`.
-    Linear { a: f64, b: f64, qx_a: f64, qy_a: f64, qx_b: f64, qy_b: f64 },
+    Linear {
+        a: f64,
+        b: f64,
+        qx_a: f64,
+        qy_a: f64,
+        qx_b: f64,
+        qy_b: f64,
+    },
     /// Concentrated force with axial `px` and transverse `py` components at `a`.
     Point { a: f64, px: f64, py: f64 },
     /// Concentrated moment (CCW positive) at `a`.
@@ -133,7 +156,14 @@ impl LocalLoad {
     /// The same load multiplied by `f` (a load factor).
     pub fn scaled(self, f: f64) -> LocalLoad {
         match self {
-            LocalLoad::Linear { a, b, qx_a, qy_a, qx_b, qy_b } => LocalLoad::Linear {
+            LocalLoad::Linear {
+                a,
+                b,
+                qx_a,
+                qy_a,
+                qx_b,
+                qy_b,
+            } => LocalLoad::Linear {
                 a,
                 b,
                 qx_a: f * qx_a,
@@ -141,7 +171,11 @@ impl LocalLoad {
                 qx_b: f * qx_b,
                 qy_b: f * qy_b,
             },
-            LocalLoad::Point { a, px, py } => LocalLoad::Point { a, px: f * px, py: f * py },
+            LocalLoad::Point { a, px, py } => LocalLoad::Point {
+                a,
+                px: f * px,
+                py: f * py,
+            },
             LocalLoad::Moment { a, m } => LocalLoad::Moment { a, m: f * m },
         }
     }
@@ -169,7 +203,14 @@ impl MemberLoadKind {
             (w * (gx * c + gy * s), w * (-gx * s + gy * c))
         };
         match *self {
-            MemberLoadKind::Distributed { a, b, w_a, w_b, direction, measure } => {
+            MemberLoadKind::Distributed {
+                a,
+                b,
+                w_a,
+                w_b,
+                direction,
+                measure,
+            } => {
                 let proj = match (measure, direction) {
                     (Measure::Projected, LoadDirection::GlobalX) => s.abs(),
                     (Measure::Projected, LoadDirection::GlobalY | LoadDirection::Gravity) => {
@@ -179,7 +220,14 @@ impl MemberLoadKind {
                 };
                 let (qx_a, qy_a) = rotate(w_a * proj, direction);
                 let (qx_b, qy_b) = rotate(w_b * proj, direction);
-                LocalLoad::Linear { a, b, qx_a, qy_a, qx_b, qy_b }
+                LocalLoad::Linear {
+                    a,
+                    b,
+                    qx_a,
+                    qy_a,
+                    qx_b,
+                    qy_b,
+                }
             }
             MemberLoadKind::Point { a, p, direction } => {
                 let (px, py) = rotate(p, direction);
@@ -205,7 +253,17 @@ mod tests {
             measure: Measure::AlongMember,
         }
         .to_local(1.0, 0.0);
-        assert_eq!(l, LocalLoad::Linear { a: 0.0, b: 5.0, qx_a: 0.0, qy_a: -10.0, qx_b: 0.0, qy_b: -10.0 });
+        assert_eq!(
+            l,
+            LocalLoad::Linear {
+                a: 0.0,
+                b: 5.0,
+                qx_a: 0.0,
+                qy_a: -10.0,
+                qx_b: 0.0,
+                qy_b: -10.0
+            }
+        );
     }
 
     #[test]
@@ -220,7 +278,9 @@ mod tests {
             direction: LoadDirection::Gravity,
             measure: Measure::Projected,
         })
-        .to_local(c, s) else { unreachable!() };
+        .to_local(c, s) else {
+            unreachable!()
+        };
         // Back to global Y: qY = qx·s + qy·c, times 5 m along the member.
         let total_y = (qx_a * s + qy_a * c) * 5.0;
         assert!((total_y + 40.0).abs() < 1e-12);

@@ -24,12 +24,17 @@ pub struct EndForces {
 impl EndForces {
     /// As one 6-vector `[Fx_i, Fy_i, Mz_i, Fx_j, Fy_j, Mz_j]`.
     pub fn to_array(&self) -> [f64; 6] {
-        [self.i[0], self.i[1], self.i[2], self.j[0], self.j[1], self.j[2]]
+        [
+            self.i[0], self.i[1], self.i[2], self.j[0], self.j[1], self.j[2],
+        ]
     }
 
     /// From a 6-vector `[Fx_i, Fy_i, Mz_i, Fx_j, Fy_j, Mz_j]`.
     pub fn from_array(a: [f64; 6]) -> Self {
-        EndForces { i: [a[0], a[1], a[2]], j: [a[3], a[4], a[5]] }
+        EndForces {
+            i: [a[0], a[1], a[2]],
+            j: [a[3], a[4], a[5]],
+        }
     }
 
     /// `self + f·other`, for combining load cases by their factors.
