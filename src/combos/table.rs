@@ -1,0 +1,716 @@
+//! Reading a combination table from TOML, with every error located (file:line:column).
+//!
+//! The TOML is walked through `toml::de::DeTable`, which keeps the span of every key and
+//! value, so unknown keys, unknown action symbols, bad expressions, undeclared or circular
+//! parameters and empty combinations all point at the offending text.
+
+use std::collections::{BTreeMap, BTreeSet};
+use std::ops::Range;
+use std::str::FromStr;
+use std::sync::Arc;
+
+use toml::Spanned;
+use toml::de::{DeTable, DeValue};
+
+use super::expr::{Expr, find_cycle};
+use super::{
+    Action, ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Param, Term, TermKind,
+};
+use crate::diag::FileError;
+use crate::model::ActionCategory;
+
+type Val<'i> = Spanned<DeValue<'i>>;
+
+/// Keys of a term that are not action symbols.
+const TERM_KEYS: [&str; 7] = [
+    "favourable",
+    "reversible",
+    "optional",
+    "principal",
+    "one-of",
+    "leading",
+    "companions",
+];
+const TERM_KEY_COMPANIONS_OPTIONAL: &str = "optional-companions";
+
+/// Reading context: the file name and source text for located errors.
+struct Ctx<'a> {
+    file: &'a str,
+    text: Arc<str>,
+}
+
+impl Ctx<'_> {
+    fn err(&self, span: Range<usize>, field: &str, message: impl Into<String>) -> FileError {
+        FileError::at(self.file, &self.text, Some(span), field, message)
+    }
+
+    /// Entries of a table sorted by their position in the file.
+    fn entries<'t, 'i>(
+        &self,
+        t: &'t DeTable<'i>,
+    ) -> Vec<(&'t Spanned<std::borrow::Cow<'i, str>>, &'t Val<'i>)> {
+        let mut v: Vec<_> = t.iter().collect();
+        v.sort_by_key(|(k, _)| k.span().start);
+        v
+    }
+
+    /// Fail on the first key not in `allowed`.
+    fn only_keys(&self, t: &DeTable, allowed: &[&str], field: &str) -> Result<(), FileError> {
+        for (k, _) in self.entries(t) {
+            if !allowed.contains(&k.get_ref().as_ref()) {
+                return Err(self
+                    .err(
+                        k.span(),
+                        &join(field, k.get_ref()),
+                        format!("unknown key `{}`", k.get_ref()),
+                    )
+                    .with_help(format!("expected one of: {}", allowed.join(", "))));
+            }
+        }
+        Ok(())
+    }
+
+    fn table<'t, 'i>(&self, v: &'t Val<'i>, field: &str) -> Result<&'t DeTable<'i>, FileError> {
+        v.get_ref().as_table().ok_or_else(|| {
+            self.err(
+                v.span(),
+                field,
+                format!("expected a table, found {}", v.get_ref().type_str()),
+            )
+        })
+    }
+
+    fn string(&self, v: &Val, field: &str) -> Result<String, FileError> {
+        v.get_ref().as_str().map(str::to_string).ok_or_else(|| {
+            self.err(
+                v.span(),
+                field,
+                format!("expected a string, found {}", v.get_ref().type_str()),
+            )
+        })
+    }
+
+    fn boolean(&self, v: &Val, field: &str) -> Result<bool, FileError> {
+        v.get_ref().as_bool().ok_or_else(|| {
+            self.err(
+                v.span(),
+                field,
+                format!("expected true or false, found {}", v.get_ref().type_str()),
+            )
+        })
+    }
+
+    fn array<'t, 'i>(&self, v: &'t Val<'i>, field: &str) -> Result<&'t [Val<'i>], FileError> {
+        v.get_ref().as_array().map(|a| &a[..]).ok_or_else(|| {
+            self.err(
+                v.span(),
+                field,
+                format!("expected an array, found {}", v.get_ref().type_str()),
+            )
+        })
+    }
+
+    /// A factor: a TOML number, or a string holding an expression of parameters.
+    fn factor(&self, v: &Val, field: &str) -> Result<Factor, FileError> {
+        let span = v.span();
+        match v.get_ref() {
+            DeValue::Integer(i) => {
+                let s = i.as_str().replace('_', "");
+                let x = i64::from_str_radix(&s, i.radix()).map_err(|_| {
+                    self.err(span.clone(), field, format!("`{s}` is not a valid number"))
+                })?;
+                Ok(Factor {
+                    text: s,
+                    expr: Expr::Num(x as f64),
+                    span,
+                })
+            }
+            DeValue::Float(f) => {
+                let s = f.as_str().replace('_', "");
+                let x: f64 = s
+                    .parse()
+                    .ok()
+                    .filter(|x: &f64| x.is_finite())
+                    .ok_or_else(|| {
+                        self.err(span.clone(), field, format!("`{s}` is not a finite number"))
+                    })?;
+                Ok(Factor {
+                    text: s,
+                    expr: Expr::Num(x),
+                    span,
+                })
+            }
+            DeValue::String(s) => {
+                let expr = Expr::parse(s).map_err(|e| {
+                    // Point inside the string: the opening quote is one byte.
+                    let at = span.start + 1 + e.offset;
+                    self.err(at..at + 1, field, format!("invalid factor expression `{s}`: {}", e.message))
+                        .with_help("a factor is a number or an expression of parameters with + - * / and parentheses, e.g. \"1.2 + 0.2*s_ds\"")
+                })?;
+                Ok(Factor {
+                    text: s.trim().to_string(),
+                    expr,
+                    span,
+                })
+            }
+            other => Err(self.err(
+                span,
+                field,
+                format!(
+                    "expected a number or an expression string, found {}",
+                    other.type_str()
+                ),
+            )),
+        }
+    }
+}
+
+fn join(field: &str, key: &str) -> String {
+    if field.is_empty() {
+        key.to_string()
+    } else {
+        format!("{field}.{key}")
+    }
+}
+
+fn lookup<'t, 'i>(t: &'t DeTable<'i>, key: &str) -> Option<&'t Val<'i>> {
+    t.iter().find(|(k, _)| k.get_ref() == key).map(|(_, v)| v)
+}
+
+/// Parse a combination table. `file` names the source in error messages.
+///
+/// Checks: unknown keys, action symbols not declared in `[actions]`, unknown action
+/// categories, factors that are neither numbers nor valid expressions, parameters used but
+/// not declared, circular parameter defaults, empty combinations and duplicate ids.
+pub fn parse_table(text: &str, file: &str) -> Result<ComboTable, FileError> {
+    let ctx = Ctx {
+        file,
+        text: Arc::from(text),
+    };
+    let doc = DeTable::parse(text).map_err(|e| {
+        let span = e.span().unwrap_or(0..0);
+        ctx.err(span, "", format!("not valid TOML: {}", e.message()))
+    })?;
+    let root = doc.get_ref();
+    const TOP: [&str; 11] = [
+        "title",
+        "standard",
+        "edition",
+        "source",
+        "clauses",
+        "basis",
+        "caution",
+        "notes",
+        "actions",
+        "params",
+        "combination",
+    ];
+    ctx.only_keys(root, &TOP, "")?;
+
+    let need = |key: &str| -> Result<&Val, FileError> {
+        lookup(root, key).ok_or_else(|| {
+            ctx.err(0..0, key, format!("missing required key `{key}`"))
+                .with_help("see combos/TEMPLATE.toml for the layout of a table")
+        })
+    };
+    let title = ctx.string(need("title")?, "title")?;
+    let standard = ctx.string(need("standard")?, "standard")?;
+    let edition = ctx.string(need("edition")?, "edition")?;
+    let source = ctx.string(need("source")?, "source")?;
+    let caution = ctx.string(need("caution")?, "caution")?;
+    let basis_v = need("basis")?;
+    let basis_s = ctx.string(basis_v, "basis")?;
+    let basis = Basis::from_str(&basis_s).map_err(|_| {
+        ctx.err(
+            basis_v.span(),
+            "basis",
+            format!("unknown basis `{basis_s}`"),
+        )
+        .with_help("expected strength, allowable-stress or serviceability")
+    })?;
+    let clauses = ctx
+        .array(need("clauses")?, "clauses")?
+        .iter()
+        .map(|v| ctx.string(v, "clauses"))
+        .collect::<Result<Vec<_>, _>>()?;
+    let notes = match lookup(root, "notes") {
+        Some(v) => ctx
+            .array(v, "notes")?
+            .iter()
+            .map(|v| ctx.string(v, "notes"))
+            .collect::<Result<_, _>>()?,
+        None => Vec::new(),
+    };
+
+    let actions = parse_actions(&ctx, need("actions")?)?;
+    let params = match lookup(root, "params") {
+        Some(v) => parse_params(&ctx, v)?,
+        None => Vec::new(),
+    };
+    let declared: BTreeSet<&str> = params.iter().map(|p| p.name.as_str()).collect();
+    check_params(&ctx, &params, &declared)?;
+
+    let combos_v = need("combination")?;
+    let mut combinations = Vec::new();
+    for (i, c) in ctx.array(combos_v, "combination")?.iter().enumerate() {
+        let field = format!("combination[{}]", i + 1);
+        let comb = parse_combination(&ctx, c, &field, &actions)?;
+        for t in &comb.terms {
+            for af in term_factors(t) {
+                check_factor_params(&ctx, &af.factor, &declared, &field)?;
+                if let Some(f) = &af.favourable {
+                    check_factor_params(&ctx, f, &declared, &field)?;
+                }
+            }
+        }
+        if let Some(prev) = combinations.iter().find(|p: &&Combination| p.id == comb.id) {
+            let (line, _) = crate::diag::line_col(text, prev.span.start);
+            return Err(ctx.err(
+                comb.span.clone(),
+                &format!("{field}.id"),
+                format!(
+                    "duplicate combination id `{}` (first used on line {line})",
+                    comb.id
+                ),
+            ));
+        }
+        combinations.push(comb);
+    }
+    if combinations.is_empty() {
+        return Err(ctx.err(
+            combos_v.span(),
+            "combination",
+            "a table needs at least one [[combination]]",
+        ));
+    }
+
+    Ok(ComboTable {
+        file: file.to_string(),
+        title,
+        standard,
+        edition,
+        source,
+        clauses,
+        basis,
+        caution,
+        notes,
+        actions,
+        params,
+        combinations,
+        source_text: ctx.text.clone(),
+    })
+}
+
+/// All action factors of a term (for checks and rendering).
+pub(crate) fn term_factors(t: &Term) -> Vec<&ActionFactor> {
+    match &t.kind {
+        TermKind::Single(a) => vec![a],
+        TermKind::OneOf(v) => v.iter().collect(),
+        TermKind::Leading {
+            leading,
+            companions,
+            ..
+        } => leading.iter().chain(companions).collect(),
+    }
+}
+
+fn parse_actions(ctx: &Ctx, v: &Val) -> Result<Vec<Action>, FileError> {
+    let t = ctx.table(v, "actions")?;
+    let mut out = Vec::new();
+    for (k, val) in ctx.entries(t) {
+        let sym = k.get_ref().to_string();
+        let field = format!("actions.{sym}");
+        let valid = sym.chars().next().is_some_and(|c| c.is_alphabetic())
+            && sym.chars().all(|c| c.is_alphanumeric() || c == '_')
+            && !TERM_KEYS.contains(&sym.as_str());
+        if !valid {
+            return Err(ctx.err(k.span(), &field, format!("`{sym}` cannot be an action symbol"))
+                .with_help("a symbol starts with a letter and holds letters, digits or _ (e.g. D, Lr, Qk1)"));
+        }
+        let at = ctx.table(val, &field)?;
+        ctx.only_keys(at, &["category", "kind", "description"], &field)?;
+        let cat_v = lookup(at, "category")
+            .ok_or_else(|| ctx.err(val.span(), &field, "missing `category` (the model's action category this symbol draws load cases from)"))?;
+        let cat_s = ctx.string(cat_v, &format!("{field}.category"))?;
+        let category = ActionCategory::from_str(&cat_s).map_err(|_| {
+            let names: Vec<&'static str> = <ActionCategory as strum::IntoEnumIterator>::iter()
+                .map(|c| c.into())
+                .collect();
+            ctx.err(
+                cat_v.span(),
+                &format!("{field}.category"),
+                format!("unknown action category `{cat_s}`"),
+            )
+            .with_help(format!("expected one of: {}", names.join(", ")))
+        })?;
+        let kind = match lookup(at, "kind") {
+            Some(kv) => {
+                let s = ctx.string(kv, &format!("{field}.kind"))?;
+                ActionKind::from_str(&s).map_err(|_| {
+                    ctx.err(
+                        kv.span(),
+                        &format!("{field}.kind"),
+                        format!("unknown kind `{s}`"),
+                    )
+                    .with_help("expected permanent or variable")
+                })?
+            }
+            None if category == ActionCategory::Dead => ActionKind::Permanent,
+            None => ActionKind::Variable,
+        };
+        let description = match lookup(at, "description") {
+            Some(d) => ctx.string(d, &format!("{field}.description"))?,
+            None => String::new(),
+        };
+        out.push(Action {
+            symbol: sym,
+            description,
+            category,
+            kind,
+        });
+    }
+    if out.is_empty() {
+        return Err(ctx.err(
+            v.span(),
+            "actions",
+            "a table needs at least one action symbol",
+        ));
+    }
+    Ok(out)
+}
+
+fn parse_params(ctx: &Ctx, v: &Val) -> Result<Vec<Param>, FileError> {
+    let t = ctx.table(v, "params")?;
+    let mut out = Vec::new();
+    for (k, val) in ctx.entries(t) {
+        let name = k.get_ref().to_string();
+        let field = format!("params.{name}");
+        let ok = name
+            .chars()
+            .next()
+            .is_some_and(|c| c.is_ascii_alphabetic() || c == '_')
+            && name.chars().all(|c| c.is_ascii_alphanumeric() || c == '_');
+        if !ok {
+            return Err(ctx
+                .err(
+                    k.span(),
+                    &field,
+                    format!("`{name}` cannot be a parameter name"),
+                )
+                .with_help(
+                    "a parameter name holds ASCII letters, digits and _ and starts with a letter",
+                ));
+        }
+        let pt = ctx.table(val, &field)?;
+        ctx.only_keys(pt, &["default", "description", "tag"], &field)?;
+        let default = match lookup(pt, "default") {
+            Some(d) => Some(ctx.factor(d, &format!("{field}.default"))?),
+            None => None,
+        };
+        let description = match lookup(pt, "description") {
+            Some(d) => ctx.string(d, &format!("{field}.description"))?,
+            None => String::new(),
+        };
+        let tag = match lookup(pt, "tag") {
+            Some(d) => Some(ctx.string(d, &format!("{field}.tag"))?),
+            None => None,
+        };
+        out.push(Param {
+            name,
+            default,
+            description,
+            tag,
+            span: k.span(),
+        });
+    }
+    Ok(out)
+}
+
+/// Every parameter a default uses is declared, and defaults do not refer to each other in
+/// a circle.
+fn check_params(ctx: &Ctx, params: &[Param], declared: &BTreeSet<&str>) -> Result<(), FileError> {
+    let mut deps: BTreeMap<String, BTreeSet<String>> = BTreeMap::new();
+    for p in params {
+        let used = p
+            .default
+            .as_ref()
+            .map(|d| d.expr.params())
+            .unwrap_or_default();
+        if let Some(d) = &p.default {
+            check_factor_params(ctx, d, declared, &format!("params.{}", p.name))?;
+        }
+        deps.insert(p.name.clone(), used);
+    }
+    if let Some(cycle) = find_cycle(&deps) {
+        let first = &cycle[0];
+        let p = params
+            .iter()
+            .find(|p| &p.name == first)
+            .expect("cycle names a declared parameter");
+        let span = p
+            .default
+            .as_ref()
+            .map_or(p.span.clone(), |d| d.span.clone());
+        return Err(ctx
+            .err(
+                span,
+                &format!("params.{first}.default"),
+                format!("circular parameter: {}", cycle.join(" → ")),
+            )
+            .with_help("give one of these parameters a number as its default"));
+    }
+    Ok(())
+}
+
+fn check_factor_params(
+    ctx: &Ctx,
+    f: &Factor,
+    declared: &BTreeSet<&str>,
+    field: &str,
+) -> Result<(), FileError> {
+    for name in f.expr.params() {
+        if !declared.contains(name.as_str()) {
+            // Point at the name inside the expression string when it can be found.
+            let span = ctx.text[f.span.clone()]
+                .find(name.as_str())
+                .map_or(f.span.clone(), |o| {
+                    f.span.start + o..f.span.start + o + name.len()
+                });
+            return Err(ctx.err(span, field, format!("parameter `{name}` is used but not declared"))
+                .with_help(format!("declare it under [params], e.g. {name} = {{ default = 1.0, description = \"…\" }}")));
+        }
+    }
+    Ok(())
+}
+
+fn parse_combination(
+    ctx: &Ctx,
+    v: &Val,
+    field: &str,
+    actions: &[Action],
+) -> Result<Combination, FileError> {
+    let t = ctx.table(v, field)?;
+    ctx.only_keys(t, &["id", "terms", "note", "tag"], field)?;
+    let id_v = lookup(t, "id").ok_or_else(|| {
+        ctx.err(
+            v.span(),
+            field,
+            "missing `id` (the standard's number of the combination)",
+        )
+    })?;
+    let id = ctx.string(id_v, &format!("{field}.id"))?;
+    let note = lookup(t, "note")
+        .map(|n| ctx.string(n, &format!("{field}.note")))
+        .transpose()?;
+    let tag = lookup(t, "tag")
+        .map(|n| ctx.string(n, &format!("{field}.tag")))
+        .transpose()?;
+    let terms_v =
+        lookup(t, "terms").ok_or_else(|| ctx.err(id_v.span(), field, "missing `terms`"))?;
+    let tf = format!("{field}.terms");
+    let arr = ctx.array(terms_v, &tf)?;
+    if arr.is_empty() {
+        return Err(ctx
+            .err(terms_v.span(), &tf, format!("combination `{id}` is empty"))
+            .with_help("list at least one term, e.g. terms = [{ D = 1.4 }]"));
+    }
+    let terms = arr
+        .iter()
+        .enumerate()
+        .map(|(i, tv)| parse_term(ctx, tv, &format!("{tf}[{}]", i + 1), actions))
+        .collect::<Result<Vec<_>, _>>()?;
+    Ok(Combination {
+        id,
+        terms,
+        note,
+        tag,
+        span: id_v.span(),
+    })
+}
+
+/// A term: `{ D = 1.2 }`, `{ D = 1.25, favourable = 0.9 }`, `{ E = "rho", reversible = true }`,
+/// `{ one-of = [{ Lr = 0.5 }, { S = 0.5 }] }` or
+/// `{ leading = { Q = 1.5, W = 1.5 }, companions = { Q = 1.05, W = 0.9 } }`, each with the
+/// optional keys `optional = "group"` (or `true`) and `principal = true`.
+fn parse_term(ctx: &Ctx, v: &Val, field: &str, actions: &[Action]) -> Result<Term, FileError> {
+    let t = ctx.table(v, field)?;
+    let optional = match lookup(t, "optional") {
+        Some(o) => match o.get_ref() {
+            DeValue::Boolean(true) => Some(field.to_string()),
+            DeValue::Boolean(false) => None,
+            DeValue::String(s) => Some(s.to_string()),
+            other => {
+                return Err(ctx.err(
+                    o.span(),
+                    &format!("{field}.optional"),
+                    format!("expected true or a group name, found {}", other.type_str()),
+                ));
+            }
+        },
+        None => None,
+    };
+    let principal = lookup(t, "principal")
+        .map(|p| ctx.boolean(p, &format!("{field}.principal")))
+        .transpose()?
+        .unwrap_or(false);
+
+    let kind = if let Some(oo) = lookup(t, "one-of") {
+        ctx.only_keys(t, &["one-of", "optional", "principal"], field)?;
+        let of = format!("{field}.one-of");
+        let opts = ctx.array(oo, &of)?;
+        if opts.len() < 2 {
+            return Err(ctx.err(oo.span(), &of, "a one-of group needs at least two options"));
+        }
+        let v = opts
+            .iter()
+            .enumerate()
+            .map(|(i, o)| {
+                let f = format!("{of}[{}]", i + 1);
+                action_factor(ctx, ctx.table(o, &f)?, o.span(), &f, actions, true)
+            })
+            .collect::<Result<Vec<_>, _>>()?;
+        TermKind::OneOf(v)
+    } else if let Some(lv) = lookup(t, "leading") {
+        ctx.only_keys(
+            t,
+            &[
+                "leading",
+                "companions",
+                TERM_KEY_COMPANIONS_OPTIONAL,
+                "optional",
+                "principal",
+            ],
+            field,
+        )?;
+        let leading = factor_map(ctx, lv, &format!("{field}.leading"), actions)?;
+        if leading.is_empty() {
+            return Err(ctx.err(
+                lv.span(),
+                &format!("{field}.leading"),
+                "a leading group needs at least one action",
+            ));
+        }
+        let companions = match lookup(t, "companions") {
+            Some(cv) => factor_map(ctx, cv, &format!("{field}.companions"), actions)?,
+            None => Vec::new(),
+        };
+        let optional_companions = lookup(t, TERM_KEY_COMPANIONS_OPTIONAL)
+            .map(|b| ctx.boolean(b, &format!("{field}.{TERM_KEY_COMPANIONS_OPTIONAL}")))
+            .transpose()?
+            .unwrap_or(false);
+        TermKind::Leading {
+            leading,
+            companions,
+            optional_companions,
+        }
+    } else {
+        TermKind::Single(action_factor(ctx, t, v.span(), field, actions, false)?)
+    };
+    Ok(Term {
+        kind,
+        optional,
+        principal,
+    })
+}
+
+/// `{ Q = 1.5, W = "gamma_q" }`: several actions with their factors, in file order.
+fn factor_map(
+    ctx: &Ctx,
+    v: &Val,
+    field: &str,
+    actions: &[Action],
+) -> Result<Vec<ActionFactor>, FileError> {
+    let t = ctx.table(v, field)?;
+    ctx.entries(t)
+        .into_iter()
+        .map(|(k, fv)| {
+            let f = join(field, k.get_ref());
+            let action = symbol(ctx, k, &f, actions)?;
+            Ok(ActionFactor {
+                action,
+                factor: ctx.factor(fv, &f)?,
+                favourable: None,
+                reversible: false,
+            })
+        })
+        .collect()
+}
+
+fn symbol(
+    ctx: &Ctx,
+    k: &Spanned<std::borrow::Cow<str>>,
+    field: &str,
+    actions: &[Action],
+) -> Result<usize, FileError> {
+    actions
+        .iter()
+        .position(|a| a.symbol == k.get_ref().as_ref())
+        .ok_or_else(|| {
+            let known: Vec<&str> = actions.iter().map(|a| a.symbol.as_str()).collect();
+            ctx.err(
+                k.span(),
+                field,
+                format!("unknown action symbol `{}`", k.get_ref()),
+            )
+            .with_help(format!(
+                "declared symbols: {}; term keys: {}",
+                known.join(", "),
+                TERM_KEYS.join(", ")
+            ))
+        })
+}
+
+/// One action symbol key with its factor, plus `favourable` / `reversible`
+/// (and, outside one-of options, `optional` / `principal` handled by the caller).
+fn action_factor(
+    ctx: &Ctx,
+    t: &DeTable,
+    span: Range<usize>,
+    field: &str,
+    actions: &[Action],
+    in_one_of: bool,
+) -> Result<ActionFactor, FileError> {
+    let mut found: Option<(usize, Factor)> = None;
+    let mut favourable = None;
+    let mut reversible = false;
+    for (k, v) in ctx.entries(t) {
+        let key = k.get_ref().as_ref();
+        match key {
+            "favourable" => favourable = Some(ctx.factor(v, &join(field, key))?),
+            "reversible" => reversible = ctx.boolean(v, &join(field, key))?,
+            "optional" | "principal" if !in_one_of => {}
+            _ => {
+                let f = join(field, key);
+                if (TERM_KEYS.contains(&key) || key == TERM_KEY_COMPANIONS_OPTIONAL)
+                    && !actions.iter().any(|a| a.symbol == key)
+                {
+                    return Err(ctx.err(k.span(), &f, format!("`{key}` is not allowed here")));
+                }
+                let a = symbol(ctx, k, &f, actions)?;
+                if let Some((prev, _)) = &found {
+                    return Err(ctx
+                        .err(
+                            k.span(),
+                            &f,
+                            format!(
+                                "a term holds one action; `{}` is already given",
+                                actions[*prev].symbol
+                            ),
+                        )
+                        .with_help("write each action as its own term, or use one-of / leading"));
+                }
+                found = Some((a, ctx.factor(v, &f)?));
+            }
+        }
+    }
+    let (action, factor) = found.ok_or_else(|| {
+        ctx.err(span, field, "a term names no action")
+            .with_help("e.g. { D = 1.2 } or { one-of = [...] }")
+    })?;
+    Ok(ActionFactor {
+        action,
+        factor,
+        favourable,
+        reversible,
+    })
+}
