@@ -10,10 +10,18 @@
 //! Results assist a licensed engineer; local codes and the adopted edition of each
 //! standard govern.
 
+/// The caution every summary, report and listing of this crate carries.
+pub const CAUTION: &str = "Results assist a licensed engineer and do not replace one: final \
+design belongs to a licensed engineer under the local building code, and the adopted edition \
+of each standard governs.";
+
+pub mod app;
+pub mod check;
 pub mod combos;
 pub mod diag;
 pub mod input;
 pub mod model;
+pub mod report;
 pub mod solve;
 pub mod stories;
 pub mod units;

@@ -31,7 +31,11 @@ pub fn b1(c_m: f64, alpha: f64, p_r: f64, p_e1: f64) -> Option<f64> {
 /// RM, A-8-8: `RM = 1 − 0.15·(Pmf/Pstory)`; 0.85 for a story of moment-frame columns only,
 /// 1.0 for braced systems (no moment-frame columns).
 pub fn r_m(p_mf: f64, p_story: f64) -> f64 {
-    if p_story > 0.0 { 1.0 - 0.15 * (p_mf / p_story).clamp(0.0, 1.0) } else { 1.0 }
+    if p_story > 0.0 {
+        1.0 - 0.15 * (p_mf / p_story).clamp(0.0, 1.0)
+    } else {
+        1.0
+    }
 }
 
 /// Elastic critical buckling strength of the story, A-8-7: `Pe,story = RM·H·L/ΔH`, written
@@ -74,7 +78,11 @@ mod tests {
         // B1 = 1/(1 − 150/1227.0) = 1.1393.
         let pe1 = p_e1(29_000.0 * 484.0, 336.0);
         assert_relative_eq!(pe1, 1227.0, max_relative = 1e-3);
-        assert_relative_eq!(b1(1.0, 1.0, 150.0, pe1).unwrap(), 1.1393, max_relative = 1e-3);
+        assert_relative_eq!(
+            b1(1.0, 1.0, 150.0, pe1).unwrap(),
+            1.1393,
+            max_relative = 1e-3
+        );
         assert!(b1(1.0, 1.6, 800.0, pe1).is_none());
     }
 

@@ -14,7 +14,11 @@ pub const ALPHA_CR_AMPLIFIED_MIN: f64 = 3.0;
 /// Story criterion (5.2): `α_cr = (H_Ed/V_Ed)·(h/δ_H,Ed)`, written with the story's
 /// lateral stiffness `H_Ed/δ_H,Ed` (N/m).
 pub fn alpha_cr(story_stiffness: f64, h: f64, v_ed: f64) -> f64 {
-    if v_ed > 0.0 { story_stiffness * h / v_ed } else { f64::INFINITY }
+    if v_ed > 0.0 {
+        story_stiffness * h / v_ed
+    } else {
+        f64::INFINITY
+    }
 }
 
 /// Amplifier of sway effects, §5.2.2(5)B: `1/(1 − 1/α_cr)`; `None` below α_cr = 3.

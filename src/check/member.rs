@@ -88,9 +88,18 @@ fn end_moments(s: &Solution, m: usize) -> [f64; 2] {
     [-e.i[2], e.j[2]]
 }
 
-/// The larger-magnitude extreme `(x, M)`.
-fn dominant(e: &SpanExtremes) -> (f64, f64) {
-    if e.max.1.abs() >= e.min.1.abs() { e.max } else { e.min }
+/// The span moment to report `(x, M)`: the larger-magnitude extreme lying inside the span
+/// (a beam's sagging moment between hogging ends), else the larger-magnitude extreme at an
+/// end (a member without loads along it).
+fn span_moment(e: &SpanExtremes, l: f64) -> (f64, f64) {
+    let inside = |p: &(f64, f64)| p.0 > 1e-9 * l && p.0 < l * (1.0 - 1e-9);
+    let larger = |a: (f64, f64), b: (f64, f64)| if a.1.abs() >= b.1.abs() { a } else { b };
+    match (inside(&e.max), inside(&e.min)) {
+        (true, true) => larger(e.max, e.min),
+        (true, false) => e.max,
+        (false, true) => e.min,
+        (false, false) => larger(e.max, e.min),
+    }
 }
 
 /// Cm = 0.6 − 0.4·(M1/M2) for a member without transverse load between its ends, with
@@ -99,7 +108,11 @@ fn dominant(e: &SpanExtremes) -> (f64, f64) {
 /// one sign convention, single curvature means equal signs at the two ends, so
 /// `M1/M2 = −(small/large)` here.
 pub fn c_m(ends: [f64; 2]) -> f64 {
-    let (a, b) = if ends[0].abs() <= ends[1].abs() { (ends[0], ends[1]) } else { (ends[1], ends[0]) };
+    let (a, b) = if ends[0].abs() <= ends[1].abs() {
+        (ends[0], ends[1])
+    } else {
+        (ends[1], ends[0])
+    };
     if b == 0.0 {
         return 1.0;
     }
@@ -108,7 +121,9 @@ pub fn c_m(ends: [f64; 2]) -> f64 {
 
 /// Check every member.
 pub fn members(input: &MemberInput) -> Vec<MemberCheck> {
-    (0..input.model.members.len()).map(|m| member(input, m)).collect()
+    (0..input.model.members.len())
+        .map(|m| member(input, m))
+        .collect()
 }
 
 fn member(input: &MemberInput, m: usize) -> MemberCheck {
@@ -123,8 +138,10 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let n_i = -(ns_end.i[0] + sw_end.i[0]);
     let n_j = ns_end.j[0] + sw_end.j[0];
     let compression = (-n_i).max(-n_j).max(0.0);
-    let shear = (ns_end.i[1] + sw_end.i[1]).abs().max((ns_end.j[1] + sw_end.j[1]).abs());
-    let (xs, ms_ns) = dominant(&span_extremes(l, ns_end, loads));
+    let shear = (ns_end.i[1] + sw_end.i[1])
+        .abs()
+        .max((ns_end.j[1] + sw_end.j[1]).abs());
+    let (xs, ms_ns) = span_moment(&span_extremes(l, ns_end, loads), l);
     let ms_sw = sw[0] + (sw[1] - sw[0]) * xs / l;
 
     let mut notes = Vec::new();
@@ -134,14 +151,21 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let sway_amp = if in_stories.is_empty() {
         Some(1.0)
     } else {
-        in_stories.iter().map(|&k| input.figures[k].sway_amplifier).try_fold(1.0f64, |acc, a| a.map(|a| acc.max(a)))
+        in_stories
+            .iter()
+            .map(|&k| input.figures[k].sway_amplifier)
+            .try_fold(1.0f64, |acc, a| a.map(|a| acc.max(a)))
     };
     if sway_amp.is_none() {
         stable = false;
         notes.push("its story is unstable under this case".into());
     }
     let amp_s = sway_amp.unwrap_or(f64::NAN);
-    let cm = if has_transverse_load(loads) { 1.0 } else { c_m(ns) };
+    let cm = if has_transverse_load(loads) {
+        1.0
+    } else {
+        c_m(ns)
+    };
     let method = model.analysis.method;
 
     // Non-sway amplifier by method.
@@ -152,7 +176,10 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             let b1 = aisc::b1(cm, input.alpha, compression, pe1);
             if b1.is_none() {
                 stable = false;
-                notes.push("α·Pr ≥ Pe1: the member buckles in the plane of bending (AISC 360-16 A-8-3)".into());
+                notes.push(
+                    "α·Pr ≥ Pe1: the member buckles in the plane of bending (AISC 360-16 A-8-3)"
+                        .into(),
+                );
             }
             (Some(pe1), b1)
         }
@@ -161,7 +188,11 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             // non-sway members, from memory).
             let section = &model.sections[mem.section];
             let e = model.materials[mem.material].e;
-            let pc = aci::p_c(aci::ei_eff(e, section.inertia, model.analysis.beta_dns), 1.0, l);
+            let pc = aci::p_c(
+                aci::ei_eff(e, section.inertia, model.analysis.beta_dns),
+                1.0,
+                l,
+            );
             let delta = aci::delta_ns(cm, compression, pc);
             if delta.is_none() {
                 stable = false;
@@ -182,11 +213,14 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let (ends, span) = match (method, input.direct) {
         (SecondOrderMethod::Direct, Some((d, spans))) => {
             let dm = end_moments(d, m);
-            let (xd, md) = dominant(&spans[m]);
+            let (xd, md) = span_moment(&spans[m], l);
             let ns_x = crate::solve::beam::internal_forces(xd, ns_end, loads).m;
             let sw_x = sw[0] + (sw[1] - sw[0]) * xd / l;
             (
-                [section(0.0, ns[0], sw[0], dm[0]), section(l, ns[1], sw[1], dm[1])],
+                [
+                    section(0.0, ns[0], sw[0], dm[0]),
+                    section(l, ns[1], sw[1], dm[1]),
+                ],
                 section(xd, ns_x, sw_x, md),
             )
         }
@@ -194,7 +228,10 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             stable = false;
             notes.push("direct second-order analysis did not converge".into());
             (
-                [section(0.0, ns[0], sw[0], f64::NAN), section(l, ns[1], sw[1], f64::NAN)],
+                [
+                    section(0.0, ns[0], sw[0], f64::NAN),
+                    section(l, ns[1], sw[1], f64::NAN),
+                ],
                 section(xs, ms_ns, ms_sw, f64::NAN),
             )
         }
@@ -206,12 +243,19 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             let span = if compression > 0.0 {
                 // Mc = δ·M2 (6.6.4.5.1), M2 the larger magnified end moment and at least
                 // M2,min (6.6.4.5.4) where the section depth is known.
-                let k = if ends[0].design.abs() >= ends[1].design.abs() { 0 } else { 1 };
+                let k = if ends[0].design.abs() >= ends[1].design.abs() {
+                    0
+                } else {
+                    1
+                };
                 let mut m2 = ends[k].design;
                 if let Some(h) = model.sections[mem.section].depth {
                     let min = aci::m2_min(compression, h);
                     if m2.abs() < min {
-                        notes.push(format!("M2 raised to M2,min = {:.1} kN·m (ACI 318-19 6.6.4.5.4)", min / 1e3));
+                        notes.push(format!(
+                            "M2 raised to M2,min = {:.1} kN·m (ACI 318-19 6.6.4.5.4)",
+                            min / 1e3
+                        ));
                         m2 = min.copysign(if m2 == 0.0 { 1.0 } else { m2 });
                     }
                 }
@@ -220,7 +264,9 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                 section(xs, ms_ns, ms_sw, ms_ns + amp_s * ms_sw)
             };
             for e in &ends {
-                if e.design.abs() > aci::SECOND_ORDER_LIMIT * e.first_order.abs() + 1e-9 * e.design.abs().max(1.0) {
+                if e.design.abs()
+                    > aci::SECOND_ORDER_LIMIT * e.first_order.abs() + 1e-9 * e.design.abs().max(1.0)
+                {
                     notes.push(format!(
                         "second-order moment {:.1} kN·m exceeds 1.4 × first-order {:.1} kN·m (ACI 318-19 6.2.5.3)",
                         e.design / 1e3,
@@ -244,9 +290,21 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     }
     // Which part governs at the section with the largest design moment.
     let all = [ends[0], ends[1], span];
-    let g = all.iter().copied().max_by(|a, b| a.design.abs().total_cmp(&b.design.abs())).unwrap_or(span);
-    let amp_n = if method == SecondOrderMethod::Direct { 1.0 } else { b1 };
-    let governs = if (amp_s * g.sway).abs() > (amp_n * g.no_sway).abs() { Part::Sway } else { Part::NoSway };
+    let g = all
+        .iter()
+        .copied()
+        .max_by(|a, b| a.design.abs().total_cmp(&b.design.abs()))
+        .unwrap_or(span);
+    let amp_n = if method == SecondOrderMethod::Direct {
+        1.0
+    } else {
+        b1
+    };
+    let governs = if (amp_s * g.sway).abs() > (amp_n * g.no_sway).abs() {
+        Part::Sway
+    } else {
+        Part::NoSway
+    };
     MemberCheck {
         member: mem.id.clone(),
         role: mem.role,

@@ -36,10 +36,7 @@ use crate::stories::{Story, StoryError, stories};
 pub use member::{MemberCheck, MomentCheck, Part};
 pub use story::{Classification, StoryFigures};
 
-/// The caution every report of this crate carries.
-pub const CAUTION: &str = "Results assist a licensed engineer and do not replace one: final \
-design belongs to a licensed engineer under the local building code, and the adopted edition \
-of each standard governs.";
+pub use crate::CAUTION;
 
 /// Why `check` could not run.
 #[derive(Debug, thiserror::Error)]
@@ -82,13 +79,22 @@ pub struct CaseCheck {
     pub notional: Vec<f64>,
     /// Elastic critical load factor from the buckling analysis (None: nothing buckles).
     pub alpha_cr: Option<f64>,
-    /// Buckled shape `[ux, uy, θ]` per node, largest translation 1.
-    pub buckled_shape: Option<Vec<[f64; 3]>>,
+    /// Buckled shape, largest translation 1.
+    pub buckled_shape: Option<Vec<NodeShape>>,
     pub direct: DirectStatus,
     /// False when the case exceeds a critical load (story, member or frame).
     pub stable: bool,
     pub stories: Vec<StoryFigures>,
     pub members: Vec<MemberCheck>,
+}
+
+/// One node's displacement in a buckled shape (dimensionless, largest translation 1).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct NodeShape {
+    pub node: String,
+    pub ux: f64,
+    pub uy: f64,
+    pub rz: f64,
 }
 
 /// The whole result of `check`.
@@ -114,7 +120,13 @@ pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, Check
         .collect::<Result<_, _>>()?;
     let stiffness = member_stiffness(model);
     let second = SecondOrderModel::new(model, &stiffness, model.analysis.segments)?;
-    let ctx = Context { model, stories: &stories, split: &split, second: &second, stiffness: &stiffness };
+    let ctx = Context {
+        model,
+        stories: &stories,
+        split: &split,
+        second: &second,
+        stiffness: &stiffness,
+    };
     let mut out = Vec::new();
     for fc in cases {
         out.extend(ctx.case(fc, &parts)?);
@@ -129,7 +141,11 @@ pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, Check
                 number: s.number,
                 bottom: s.bottom,
                 top: s.top,
-                columns: s.columns.iter().map(|&m| model.members[m].id.clone()).collect(),
+                columns: s
+                    .columns
+                    .iter()
+                    .map(|&m| model.members[m].id.clone())
+                    .collect(),
             })
             .collect(),
         cases: out,
@@ -150,7 +166,8 @@ impl Context<'_> {
     /// Check one factored case: one result, or two for the two notional directions.
     fn case(&self, fc: &FactoredCase, parts: &[SwayParts]) -> Result<Vec<CaseCheck>, CheckError> {
         let model = self.model;
-        let refs: Vec<(f64, &SwayParts)> = fc.factors.iter().map(|&(k, f)| (f, &parts[k])).collect();
+        let refs: Vec<(f64, &SwayParts)> =
+            fc.factors.iter().map(|&(k, f)| (f, &parts[k])).collect();
         if refs.is_empty() {
             return Ok(Vec::new());
         }
@@ -174,7 +191,14 @@ impl Context<'_> {
         // Notional loads: which directions, and how large at each level.
         let base_sway: Solution = combined.sway.clone();
         let estimate = story::figures(
-            model, self.stories, self.split, &gravity, &combined.holding, &[], &base_sway, alpha,
+            model,
+            self.stories,
+            self.split,
+            &gravity,
+            &combined.holding,
+            &[],
+            &base_sway,
+            alpha,
         );
         let variants = notional_variants(
             model,
@@ -210,7 +234,12 @@ impl Context<'_> {
             }
             let direct = self.second.direct(model, &dl)?;
             let (direct_status, direct_solution) = match direct {
-                SecondOrderOutcome::Converged { solution, span, iterations, .. } => {
+                SecondOrderOutcome::Converged {
+                    solution,
+                    span,
+                    iterations,
+                    ..
+                } => {
                     let mut s = Solution::zero_like(&solution);
                     s.add_scaled(1.0 / alpha, &solution);
                     let span = span
@@ -221,12 +250,20 @@ impl Context<'_> {
                         })
                         .collect::<Vec<_>>();
                     (
-                        DirectStatus { converged: true, iterations, reason: None },
+                        DirectStatus {
+                            converged: true,
+                            iterations,
+                            reason: None,
+                        },
                         Some((s, span)),
                     )
                 }
                 SecondOrderOutcome::Unstable { reason } => (
-                    DirectStatus { converged: false, iterations: 0, reason: Some(reason) },
+                    DirectStatus {
+                        converged: false,
+                        iterations: 0,
+                        reason: Some(reason),
+                    },
                     None,
                 ),
             };
@@ -261,7 +298,9 @@ impl Context<'_> {
                 alpha,
             });
             let stable = direct_status.converged
-                && figures.iter().all(|f| f.classification != Classification::Unstable)
+                && figures
+                    .iter()
+                    .all(|f| f.classification != Classification::Unstable)
                 && members.iter().all(|m| m.stable)
                 && buckling.as_ref().is_none_or(|b| b.alpha_cr > 1.0);
             out.push(CaseCheck {
@@ -270,7 +309,19 @@ impl Context<'_> {
                 basis: fc.basis,
                 notional,
                 alpha_cr: buckling.as_ref().map(|b| b.alpha_cr),
-                buckled_shape: buckling.as_ref().map(|b| b.shape.clone()),
+                buckled_shape: buckling.as_ref().map(|b| {
+                    model
+                        .nodes
+                        .iter()
+                        .zip(&b.shape)
+                        .map(|(n, d)| NodeShape {
+                            node: n.id.clone(),
+                            ux: d[0],
+                            uy: d[1],
+                            rz: d[2],
+                        })
+                        .collect()
+                }),
                 direct: direct_status,
                 stable,
                 stories: figures,
@@ -329,12 +380,14 @@ fn notional_variants(
             if !gravity_only && ec3::imperfection_negligible(lateral, v_total) {
                 return none;
             }
-            let height = stories.last().map_or(0.0, |s| s.top) - stories.first().map_or(0.0, |s| s.bottom);
+            let height =
+                stories.last().map_or(0.0, |s| s.top) - stories.first().map_or(0.0, |s| s.bottom);
             let m = story::loaded_columns(model, &stories[0], total);
             ec3::sway_imperfection(height, m)
         }
     };
-    let level = |sign: f64| -> Vec<f64> { gravity.y.iter().map(|y| sign * coefficient * y).collect() };
+    let level =
+        |sign: f64| -> Vec<f64> { gravity.y.iter().map(|y| sign * coefficient * y).collect() };
     if gravity_only {
         vec![("/N+", level(1.0)), ("/N-", level(-1.0))]
     } else {

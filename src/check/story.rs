@@ -124,9 +124,17 @@ pub fn story_gravity(model: &Model, stories: &[Story], s: &Solution) -> Gravity 
 /// Columns of `story` carrying at least half the story's mean column load (m of
 /// EN 1993-1-1 (5.5)); at least 1.
 pub fn loaded_columns(model: &Model, story: &Story, s: &Solution) -> usize {
-    let loads: Vec<f64> = story.columns.iter().map(|&m| column_load(model, s, m)).collect();
+    let loads: Vec<f64> = story
+        .columns
+        .iter()
+        .map(|&m| column_load(model, s, m))
+        .collect();
     let mean = loads.iter().sum::<f64>() / loads.len().max(1) as f64;
-    loads.iter().filter(|&&p| p >= 0.5 * mean && p > 0.0).count().max(1)
+    loads
+        .iter()
+        .filter(|&&p| p >= 0.5 * mean && p > 0.0)
+        .count()
+        .max(1)
 }
 
 /// Interstory drift of story `st` in `s`: mean X translation of its top nodes less that of
@@ -151,8 +159,9 @@ pub fn figures(
 ) -> Vec<StoryFigures> {
     let nl = stories.len();
     // Lateral forces on the sway solution at each level: reversed holds plus notional.
-    let lateral: Vec<f64> =
-        (0..nl).map(|l| -holding[l] + notional.get(l).copied().unwrap_or(0.0)).collect();
+    let lateral: Vec<f64> = (0..nl)
+        .map(|l| -holding[l] + notional.get(l).copied().unwrap_or(0.0))
+        .collect();
     let pattern: Vec<f64> = if gravity.y.iter().any(|&y| y > 0.0) {
         gravity.y.clone()
     } else {
@@ -224,26 +233,52 @@ pub fn classify(
         let direct_failed = direct.is_none();
         // Sway amplification from the direct analysis where an approximate amplifier is
         // not permitted; 1.0 where the case has no first-order drift at all.
-        let from_direct = if direct_failed { None } else { Some(f.drift_amplification.unwrap_or(1.0)) };
+        let from_direct = if direct_failed {
+            None
+        } else {
+            Some(f.drift_amplification.unwrap_or(1.0))
+        };
         let (amp, class, criterion) = match model.analysis.method {
             SecondOrderMethod::AiscB1B2 => match f.b2 {
-                None => (None, Classification::Unstable, format!(
-                    "α·ΣP = {:.0} kN ≥ Pe,story = {:.0} kN (AISC 360-16 A-8-6)",
-                    alpha * f.sum_p / 1e3, f.p_e_story / 1e3)),
-                Some(b2) if b2 <= aisc::B2_NONSWAY => (Some(b2), Classification::NonSway, format!(
-                    "B2 = {b2:.3} ≤ {:.2} (AISC 360-16 App. 7.2.3(b), from memory)", aisc::B2_NONSWAY)),
-                Some(b2) => (Some(b2), Classification::Sway, format!(
-                    "B2 = {b2:.3} > {:.2} (AISC 360-16 App. 7.2.3(b), from memory)", aisc::B2_NONSWAY)),
+                None => (
+                    None,
+                    Classification::Unstable,
+                    format!(
+                        "α·ΣP = {:.0} kN ≥ Pe,story = {:.0} kN (AISC 360-16 A-8-6)",
+                        alpha * f.sum_p / 1e3,
+                        f.p_e_story / 1e3
+                    ),
+                ),
+                Some(b2) if b2 <= aisc::B2_NONSWAY => (
+                    Some(b2),
+                    Classification::NonSway,
+                    format!(
+                        "B2 = {b2:.3} ≤ {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                        aisc::B2_NONSWAY
+                    ),
+                ),
+                Some(b2) => (
+                    Some(b2),
+                    Classification::Sway,
+                    format!(
+                        "B2 = {b2:.3} > {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                        aisc::B2_NONSWAY
+                    ),
+                ),
             },
             SecondOrderMethod::AciMagnifier => {
-                let ds = f.delta_s_q.map(|d| (d, "Q method, 6.6.4.6.2(a)")).or_else(|| {
-                    from_direct.map(|d| (d, "second-order analysis, 6.6.4.6.2(c)"))
-                });
+                let ds = f
+                    .delta_s_q
+                    .map(|d| (d, "Q method, 6.6.4.6.2(a)"))
+                    .or_else(|| from_direct.map(|d| (d, "second-order analysis, 6.6.4.6.2(c)")));
                 match ds {
                     _ if f.q_index >= 1.0 || direct_failed && f.delta_s_q.is_none() => (
                         None,
                         Classification::Unstable,
-                        format!("Q = {:.3}: the story is unstable (ACI 318-19 6.6.4.4.1)", f.q_index),
+                        format!(
+                            "Q = {:.3}: the story is unstable (ACI 318-19 6.6.4.4.1)",
+                            f.q_index
+                        ),
                     ),
                     Some((d, how)) => {
                         let class = if f.q_index <= aci::Q_NONSWAY {
@@ -251,46 +286,104 @@ pub fn classify(
                         } else {
                             Classification::Sway
                         };
-                        let cmp = if class == Classification::NonSway { "≤" } else { ">" };
-                        (Some(d), class, format!(
-                            "Q = {:.3} {cmp} {:.2} (ACI 318-19 6.6.4.3(b)); δs = {d:.3} by the {how}",
-                            f.q_index, aci::Q_NONSWAY))
+                        let cmp = if class == Classification::NonSway {
+                            "≤"
+                        } else {
+                            ">"
+                        };
+                        (
+                            Some(d),
+                            class,
+                            format!(
+                                "Q = {:.3} {cmp} {:.2} (ACI 318-19 6.6.4.3(b)); δs = {d:.3} by the {how}",
+                                f.q_index,
+                                aci::Q_NONSWAY
+                            ),
+                        )
                     }
-                    None => (None, Classification::Unstable, "no sway magnifier available".into()),
+                    None => (
+                        None,
+                        Classification::Unstable,
+                        "no sway magnifier available".into(),
+                    ),
                 }
             }
             SecondOrderMethod::Ec3AlphaCr => {
                 let a = f.alpha_cr_story;
                 if a <= 1.0 || (a < ec3::ALPHA_CR_AMPLIFIED_MIN && direct_failed) {
-                    (None, Classification::Unstable, format!(
-                        "α_cr = {a:.2}: the story is unstable (EN 1993-1-1 (5.2))"))
+                    (
+                        None,
+                        Classification::Unstable,
+                        format!("α_cr = {a:.2}: the story is unstable (EN 1993-1-1 (5.2))"),
+                    )
                 } else if a >= ec3::ALPHA_CR_FIRST_ORDER {
-                    (Some(1.0), Classification::NonSway, format!(
-                        "α_cr = {a:.2} ≥ 10: first-order analysis suffices (EN 1993-1-1 5.2.1(3), (5.1))"))
+                    (
+                        Some(1.0),
+                        Classification::NonSway,
+                        format!(
+                            "α_cr = {a:.2} ≥ 10: first-order analysis suffices (EN 1993-1-1 5.2.1(3), (5.1))"
+                        ),
+                    )
                 } else if let Some(amp) = ec3::sway_amplifier(a) {
-                    (Some(amp), Classification::Sway, format!(
-                        "α_cr = {a:.2} < 10: sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"))
+                    (
+                        Some(amp),
+                        Classification::Sway,
+                        format!(
+                            "α_cr = {a:.2} < 10: sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"
+                        ),
+                    )
                 } else {
-                    (from_direct, Classification::Sway, format!(
-                        "α_cr = {a:.2} < 3: second-order analysis required (EN 1993-1-1 5.2.2(5)B); \
+                    (
+                        from_direct,
+                        Classification::Sway,
+                        format!(
+                            "α_cr = {a:.2} < 3: second-order analysis required (EN 1993-1-1 5.2.2(5)B); \
                          sway effects × Δ2nd/Δ1st = {:.3} from the direct analysis",
-                        from_direct.unwrap_or(f64::NAN)))
+                            from_direct.unwrap_or(f64::NAN)
+                        ),
+                    )
                 }
             }
             SecondOrderMethod::Direct => match from_direct {
-                None => (None, Classification::Unstable, "direct second-order analysis did not converge".into()),
+                None => (
+                    None,
+                    Classification::Unstable,
+                    "direct second-order analysis did not converge".into(),
+                ),
                 Some(r) if f.drift_amplification.is_some() => {
-                    let class = if r <= aisc::B2_NONSWAY { Classification::NonSway } else { Classification::Sway };
-                    let cmp = if class == Classification::NonSway { "≤" } else { ">" };
-                    (Some(r), class, format!(
-                        "Δ2nd/Δ1st = {r:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
-                        aisc::B2_NONSWAY))
+                    let class = if r <= aisc::B2_NONSWAY {
+                        Classification::NonSway
+                    } else {
+                        Classification::Sway
+                    };
+                    let cmp = if class == Classification::NonSway {
+                        "≤"
+                    } else {
+                        ">"
+                    };
+                    (
+                        Some(r),
+                        class,
+                        format!(
+                            "Δ2nd/Δ1st = {r:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                            aisc::B2_NONSWAY
+                        ),
+                    )
                 }
                 Some(r) => {
                     let a = f.alpha_cr_story;
-                    let class = if a >= ec3::ALPHA_CR_FIRST_ORDER { Classification::NonSway } else { Classification::Sway };
-                    (Some(r), class, format!(
-                        "no first-order drift; story α_cr = {a:.2} against 10 (EN 1993-1-1 (5.1))"))
+                    let class = if a >= ec3::ALPHA_CR_FIRST_ORDER {
+                        Classification::NonSway
+                    } else {
+                        Classification::Sway
+                    };
+                    (
+                        Some(r),
+                        class,
+                        format!(
+                            "no first-order drift; story α_cr = {a:.2} against 10 (EN 1993-1-1 (5.1))"
+                        ),
+                    )
                 }
             },
         };

@@ -740,6 +740,7 @@ fn analysis(
     };
     if let Some(n) = &a.notional {
         out.notional = match n.get_ref().as_str() {
+            "auto" => NotionalLoads::Auto,
             "none" => NotionalLoads::None,
             "aisc" => NotionalLoads::Aisc {
                 coefficient: coefficient.map_or(AISC_NOTIONAL_COEFFICIENT, |c| c.1),
@@ -749,7 +750,7 @@ fn analysis(
                 return Err(ctx.err(
                     n.span(),
                     "analysis.notional",
-                    format!("expected one of none, aisc, ec3-imperfection, got \"{other}\""),
+                    format!("expected one of auto, none, aisc, ec3-imperfection, got \"{other}\""),
                 ));
             }
         };

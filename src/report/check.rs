@@ -1,0 +1,305 @@
+//! Report of `plumbline check`: the stories, then for each factored case the story figures
+//! and the per-member moments (no-sway part, sway part, amplifiers, design value).
+
+use serde::Serialize;
+
+use super::{CAUTION, OutputFormat, num, opt, table_of};
+use crate::check::{CaseCheck, CheckReport};
+use crate::model::{Model, SecondOrderMethod};
+use crate::units::Dimension;
+
+/// What the report says about the method in use.
+pub fn method_title(m: SecondOrderMethod) -> &'static str {
+    match m {
+        SecondOrderMethod::AiscB1B2 => {
+            "amplified first-order analysis, AISC 360-16 Appendix 8 (B1 on no-sway, B2 on sway moments)"
+        }
+        SecondOrderMethod::AciMagnifier => {
+            "moment magnification, ACI 318-19 §6.6.4 (δ on no-sway, δs on sway moments)"
+        }
+        SecondOrderMethod::Ec3AlphaCr => {
+            "EN 1993-1-1 §5.2 story criterion α_cr, sway effects amplified by 1/(1 − 1/α_cr)"
+        }
+        SecondOrderMethod::Direct => {
+            "direct second-order elastic analysis (P-Δ and P-δ, members subdivided), iterated"
+        }
+    }
+}
+
+#[derive(Serialize)]
+struct JsonDoc<'a> {
+    title: &'a str,
+    /// Unit of every field: SI base units throughout.
+    units: JsonUnits,
+    combinations: &'a str,
+    method: SecondOrderMethod,
+    method_description: &'a str,
+    report: &'a CheckReport,
+    caution: &'a str,
+}
+
+#[derive(Serialize)]
+struct JsonUnits {
+    length: &'static str,
+    force: &'static str,
+    moment: &'static str,
+    stiffness: &'static str,
+    displacement: &'static str,
+}
+
+/// Render `report` for `model` (whose units the tables use). `table_title` names the
+/// combination table that produced the cases.
+pub fn render(
+    model: &Model,
+    report: &CheckReport,
+    table_title: &str,
+    format: OutputFormat,
+) -> String {
+    match format {
+        OutputFormat::Json => {
+            let doc = JsonDoc {
+                title: &model.title,
+                units: JsonUnits {
+                    length: "m",
+                    force: "N",
+                    moment: "N*m",
+                    stiffness: "N/m",
+                    displacement: "m",
+                },
+                combinations: table_title,
+                method: report.method,
+                method_description: method_title(report.method),
+                report,
+                caution: CAUTION,
+            };
+            serde_json::to_string_pretty(&doc).expect("a check report serializes") + "\n"
+        }
+        OutputFormat::Csv => csv(model, report),
+        OutputFormat::Table => text(model, report, table_title),
+    }
+}
+
+fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
+    let u = &model.units;
+    let mut out = String::new();
+    out.push_str(&format!("{}\n", model.title));
+    out.push_str(&format!("Combinations: {table_title}\n"));
+    out.push_str(&format!(
+        "Second-order method: {}\n",
+        method_title(report.method)
+    ));
+    out.push_str(&format!("Analysis stiffness: {}\n\n", report.stiffness));
+    let lu = u.label(Dimension::Length);
+    let rows = report
+        .stories
+        .iter()
+        .map(|s| {
+            vec![
+                s.number.to_string(),
+                num(u.from_si(s.bottom, Dimension::Length), 2),
+                num(u.from_si(s.top, Dimension::Length), 2),
+                s.columns.join(" "),
+            ]
+        })
+        .collect();
+    out.push_str("Stories\n");
+    out.push_str(&table_of(
+        &[
+            "story",
+            &format!("bottom ({lu})"),
+            &format!("top ({lu})"),
+            "columns",
+        ],
+        rows,
+    ));
+    out.push_str("\n\n");
+    for case in &report.cases {
+        out.push_str(&case_text(model, case));
+        out.push('\n');
+    }
+    let unstable: Vec<&str> = report
+        .cases
+        .iter()
+        .filter(|c| !c.stable)
+        .map(|c| c.id.as_str())
+        .collect();
+    if !unstable.is_empty() {
+        out.push_str(&format!(
+            "UNSTABLE cases (no design values): {}\n\n",
+            unstable.join(", ")
+        ));
+    }
+    out.push_str(
+        "Moments are internal bending moments, positive with the member's local −y face in \
+         tension (sagging for a beam drawn left to right); N is positive in tension.\n",
+    );
+    out.push_str(&format!("{CAUTION}\n"));
+    out
+}
+
+/// The text block of one case.
+pub fn case_text(model: &Model, c: &CaseCheck) -> String {
+    let u = &model.units;
+    let (lf, lm, ld, lu) = (
+        u.label(Dimension::Force),
+        u.label(Dimension::Moment),
+        u.label(Dimension::Displacement),
+        u.label(Dimension::Length),
+    );
+    let f = |v: f64| num(u.from_si(v, Dimension::Force), 1);
+    let m = |v: f64| num(u.from_si(v, Dimension::Moment), 1);
+    let mut out = format!("Case {}: {}  [{}]\n", c.id, c.expression, c.basis);
+    let buckling = c
+        .alpha_cr
+        .map_or("no member in compression".to_string(), |a| {
+            format!("α_cr = {}", num(a, 2))
+        });
+    let direct = if c.direct.converged {
+        format!("converged in {} iterations", c.direct.iterations)
+    } else {
+        format!(
+            "not converged: {}",
+            c.direct.reason.clone().unwrap_or_default()
+        )
+    };
+    out.push_str(&format!(
+        "  elastic buckling: {buckling}; direct second-order analysis: {direct}\n"
+    ));
+    if c.notional.iter().any(|&n| n != 0.0) {
+        let list: Vec<String> = c.notional.iter().map(|&n| f(n)).collect();
+        out.push_str(&format!(
+            "  notional loads at story tops ({lf}): {}\n",
+            list.join(", ")
+        ));
+    }
+    if !c.stable {
+        out.push_str("  UNSTABLE: the loads exceed a critical load; no design values are given\n");
+    }
+    let rows = c
+        .stories
+        .iter()
+        .map(|s| {
+            vec![
+                s.story.to_string(),
+                f(s.sum_p),
+                f(s.shear),
+                num(u.from_si(s.drift, Dimension::Displacement), 3),
+                if s.drift_ratio == 0.0 {
+                    "0".into()
+                } else {
+                    format!("1/{:.0}", 1.0 / s.drift_ratio.abs())
+                },
+                num(s.q_index, 3),
+                opt(s.b2, 3),
+                opt(s.delta_s_q, 3),
+                num(s.alpha_cr_story, 2),
+                opt(s.drift_amplification, 3),
+                opt(s.sway_amplifier, 3),
+                s.classification.to_string(),
+                s.criterion.clone(),
+            ]
+        })
+        .collect();
+    out.push_str(&indent(&table_of(
+        &[
+            "story".to_string(),
+            format!("ΣP ({lf})"),
+            format!("H ({lf})"),
+            format!("drift ({ld})"),
+            "drift/h".into(),
+            "Q".into(),
+            "B2".into(),
+            "δs".into(),
+            "α_cr".into(),
+            "Δ2/Δ1".into(),
+            "sway amp".into(),
+            "verdict".into(),
+            "decided by".into(),
+        ],
+        rows,
+    )));
+    out.push('\n');
+    let rows = c
+        .members
+        .iter()
+        .map(|mc| {
+            vec![
+                mc.member.clone(),
+                f(mc.axial),
+                f(mc.shear),
+                opt(mc.non_sway_amplifier, 3),
+                opt(mc.sway_amplifier, 3),
+                m(mc.ends[0].no_sway),
+                m(mc.ends[0].sway),
+                m(mc.ends[0].design),
+                m(mc.ends[1].no_sway),
+                m(mc.ends[1].sway),
+                m(mc.ends[1].design),
+                num(u.from_si(mc.span.x, Dimension::Length), 2),
+                m(mc.span.design),
+                mc.governs.to_string(),
+                mc.notes.join("; "),
+            ]
+        })
+        .collect();
+    out.push_str(&indent(&table_of(
+        &[
+            "member".to_string(),
+            format!("N ({lf})"),
+            format!("V ({lf})"),
+            "non-sway amp".into(),
+            "sway amp".into(),
+            format!("Mns i ({lm})"),
+            format!("Ms i ({lm})"),
+            format!("M i ({lm})"),
+            format!("Mns j ({lm})"),
+            format!("Ms j ({lm})"),
+            format!("M j ({lm})"),
+            format!("x span ({lu})"),
+            format!("M span ({lm})"),
+            "larger part".into(),
+            "notes".into(),
+        ],
+        rows,
+    )));
+    out.push('\n');
+    out
+}
+
+fn indent(s: &str) -> String {
+    s.lines().map(|l| format!("  {l}\n")).collect()
+}
+
+fn csv(model: &Model, report: &CheckReport) -> String {
+    let u = &model.units;
+    let (lf, lm) = (u.label(Dimension::Force), u.label(Dimension::Moment));
+    let mut out = format!(
+        "case,member,axial ({lf}),shear ({lf}),non_sway_amp,sway_amp,mns_i ({lm}),ms_i ({lm}),m_i ({lm}),mns_j ({lm}),ms_j ({lm}),m_j ({lm}),m_span ({lm}),larger_part,stable\n"
+    );
+    let f = |v: f64| num(u.from_si(v, Dimension::Force), 3);
+    let m = |v: f64| num(u.from_si(v, Dimension::Moment), 3);
+    for c in &report.cases {
+        for mc in &c.members {
+            let row = [
+                c.id.clone(),
+                mc.member.clone(),
+                f(mc.axial),
+                f(mc.shear),
+                opt(mc.non_sway_amplifier, 4),
+                opt(mc.sway_amplifier, 4),
+                m(mc.ends[0].no_sway),
+                m(mc.ends[0].sway),
+                m(mc.ends[0].design),
+                m(mc.ends[1].no_sway),
+                m(mc.ends[1].sway),
+                m(mc.ends[1].design),
+                m(mc.span.design),
+                mc.governs.to_string(),
+                (c.stable && mc.stable).to_string(),
+            ];
+            out.push_str(&row.join(","));
+            out.push('\n');
+        }
+    }
+    out
+}

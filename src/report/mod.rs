@@ -1,0 +1,65 @@
+//! Reports for people and programs: plain-text tables in the model's units, and JSON in SI
+//! base units with the unit of every field stated in the document.
+//!
+//! Every report carries [`CAUTION`].
+
+pub mod check;
+pub mod solve;
+
+use tabled::builder::Builder;
+use tabled::settings::Style;
+use tabled::settings::style::HorizontalLine;
+
+pub use crate::CAUTION;
+
+/// Output format of a report.
+#[derive(
+    Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, strum::Display, strum::EnumString,
+)]
+#[strum(serialize_all = "kebab-case")]
+pub enum OutputFormat {
+    /// Aligned plain-text tables in the model's units.
+    #[default]
+    Table,
+    /// JSON in SI base units, with stable keys.
+    Json,
+    /// Comma-separated values.
+    Csv,
+}
+
+/// A plain table of our own style: no frame, a dashed rule under the header row.
+pub fn table_of<S: AsRef<str>>(header: &[S], rows: Vec<Vec<String>>) -> String {
+    let mut b = Builder::default();
+    b.push_record(header.iter().map(|s| s.as_ref().to_string()));
+    for r in rows {
+        b.push_record(r);
+    }
+    let mut t = b.build();
+    t.with(Style::blank().horizontals([(1, HorizontalLine::new('-').intersection(' '))]));
+    t.to_string()
+}
+
+/// A number for a table: `digits` significant decimals, `-` for NaN, `∞` for infinity.
+pub fn num(v: f64, decimals: usize) -> String {
+    if v.is_nan() {
+        "-".into()
+    } else if v.is_infinite() {
+        if v > 0.0 { "∞".into() } else { "-∞".into() }
+    } else {
+        let s = format!("{v:.decimals$}");
+        // Avoid "-0.00".
+        if s.trim_start_matches('-')
+            .chars()
+            .all(|c| c == '0' || c == '.')
+        {
+            s.trim_start_matches('-').to_string()
+        } else {
+            s
+        }
+    }
+}
+
+/// An optional number, `-` when absent.
+pub fn opt(v: Option<f64>, decimals: usize) -> String {
+    v.map_or_else(|| "-".into(), |v| num(v, decimals))
+}
