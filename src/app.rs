@@ -21,7 +21,7 @@ pub enum AppError {
     /// An error located in an input file.
     #[error(transparent)]
     #[diagnostic(transparent)]
-    File(#[from] FileError),
+    File(Box<FileError>),
     /// The frame could not be analysed.
     #[error("{file}: {source}")]
     Analysis {
@@ -40,6 +40,12 @@ pub enum AppError {
         #[source]
         source: std::io::Error,
     },
+}
+
+impl From<FileError> for AppError {
+    fn from(e: FileError) -> Self {
+        AppError::File(Box::new(e))
+    }
 }
 
 fn analysis(path: &Path, e: impl Into<CheckError>) -> AppError {

@@ -10,6 +10,10 @@
 //! Results assist a licensed engineer; local codes and the adopted edition of each
 //! standard govern.
 
+// Input errors carry their file, span and source text for rendering; they are returned
+// once per run, so their size does not matter.
+#![allow(clippy::result_large_err)]
+
 /// The caution every summary, report and listing of this crate carries.
 pub const CAUTION: &str = "Results assist a licensed engineer and do not replace one: final \
 design belongs to a licensed engineer under the local building code, and the adopted edition \

@@ -6,7 +6,6 @@
 
 // FileError carries the source text and span for rendering; errors are rare and returned
 // once per file, so its size does not matter here.
-#![allow(clippy::result_large_err)]
 
 pub mod generate;
 pub mod raw;
