@@ -29,6 +29,7 @@ struct CombosArgs {
 }
 
 /// Run `plumbline combos`.
+#[allow(clippy::result_large_err)]
 fn run_combos(args: &CombosArgs) -> Result<String, FileError> {
     match &args.table {
         None => render_table_list(),
