@@ -785,3 +785,9 @@ fn error_unknown_table_name_lists_shipped_names() {
     let e = load_table("asce7-99", None).unwrap_err();
     assert!(e.help.unwrap().contains("asce7-16-strength"));
 }
+
+#[test]
+fn the_commented_template_is_a_valid_table() {
+    let t = parse_table(include_str!("../combos/TEMPLATE.toml"), "TEMPLATE.toml").unwrap();
+    assert_eq!(t.combinations.len(), 3);
+}
