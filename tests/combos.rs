@@ -791,3 +791,27 @@ fn the_commented_template_is_a_valid_table() {
     let t = parse_table(include_str!("../combos/TEMPLATE.toml"), "TEMPLATE.toml").unwrap();
     assert_eq!(t.combinations.len(), 3);
 }
+
+#[test]
+fn cases_report_lists_counts_merges_and_caution() {
+    use plumbline::combos::{OutputFormat, cases_report};
+    let cases = vec![
+        case("D", ActionCategory::Dead, None),
+        case("L", ActionCategory::Live, None),
+    ];
+    let t = load_table("asce7-16-strength", None).unwrap();
+    let text = cases_report(&cases, &t, &BTreeMap::new(), OutputFormat::Table).unwrap();
+    assert!(
+        text.contains("2 factored cases, 2 merged as identical"),
+        "{text}"
+    );
+    assert!(text.contains("licensed engineer"));
+    let csv = cases_report(&cases, &t, &BTreeMap::new(), OutputFormat::Csv).unwrap();
+    assert_eq!(
+        csv.lines().next().unwrap(),
+        "id,combination,basis,expression,D,L"
+    );
+    let json = cases_report(&cases, &t, &BTreeMap::new(), OutputFormat::Json).unwrap();
+    let v: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(v["count"], 2);
+}
