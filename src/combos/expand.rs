@@ -135,21 +135,8 @@ pub fn expand(
             } else {
                 comb.id.clone()
             };
-            // Evaluate the factors of the present parts; a zero factor drops the term.
-            let present = |p: &Part| by_cat.contains_key(&table.actions[p.action].category);
-            let mut live: Vec<(usize, f64)> = Vec::new();
-            let mut live_parts: Vec<bool> = Vec::with_capacity(parts.len());
-            for p in parts {
-                let x = if present(p) {
-                    p.sign * eval_factor(table, p.factor, &values, &comb.id)?
-                } else {
-                    0.0
-                };
-                live_parts.push(x != 0.0);
-                if x != 0.0 {
-                    live.push((p.action, x));
-                }
-            }
+            // Principal actions: flagged ones, else the variable ones. Checked on presence
+            // before any factor is evaluated (a parameter may only matter to skipped rows).
             let any_flagged = parts.iter().any(|p| p.principal);
             let is_principal = |p: &Part| {
                 if any_flagged {
@@ -161,8 +148,25 @@ pub fn expand(
             let principal: Vec<usize> = (0..parts.len())
                 .filter(|&i| is_principal(&parts[i]))
                 .collect();
+            let present: Vec<bool> = parts
+                .iter()
+                .map(|p| by_cat.contains_key(&table.actions[p.action].category))
+                .collect();
+            // Evaluate the factors of the present parts; a zero factor drops the term.
+            let mut live: Vec<(usize, f64)> = Vec::new();
+            let mut nonzero: Vec<bool> = vec![false; parts.len()];
+            let principal_present = principal.is_empty() || principal.iter().any(|&i| present[i]);
+            if principal_present {
+                for (i, p) in parts.iter().enumerate().filter(|(i, _)| present[*i]) {
+                    let x = p.sign * eval_factor(table, p.factor, &values, &comb.id)?;
+                    if x != 0.0 {
+                        nonzero[i] = true;
+                        live.push((p.action, x));
+                    }
+                }
+            }
             let lacking = live.is_empty()
-                || (!principal.is_empty() && principal.iter().all(|&i| !live_parts[i]));
+                || (!principal.is_empty() && principal.iter().all(|&i| !nonzero[i]));
             if lacking {
                 let set: Vec<usize> = if principal.is_empty() {
                     (0..parts.len()).collect()
@@ -171,7 +175,7 @@ pub fn expand(
                 };
                 let missing: BTreeSet<String> = set
                     .iter()
-                    .filter(|&&i| !live_parts[i])
+                    .filter(|&&i| !nonzero[i])
                     .map(|&i| table.actions[parts[i].action].symbol.clone())
                     .collect();
                 skipped_here.push(Skipped {
