@@ -12,7 +12,6 @@
 
 // `FileError` (crate::diag) is the crate's located error and is large by design; boxing it is
 // the integrator's call, the API signatures here return it as specified.
-#![allow(clippy::result_large_err)]
 
 mod expand;
 pub mod expr;
