@@ -138,7 +138,7 @@ pub fn cases(
     model_path: &Path,
     combos: Option<&str>,
     sets: &[String],
-    format: crate::combos::OutputFormat,
+    format: OutputFormat,
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let table = resolve_table(&model, model_path, combos)?;

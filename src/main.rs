@@ -69,7 +69,7 @@ struct CasesArgs {
     #[arg(long = "set", value_name = "PARAM=VALUE")]
     sets: Vec<String>,
     #[arg(long, value_enum, default_value_t)]
-    format: plumbline::combos::OutputFormat,
+    format: OutputFormat,
     #[command(flatten)]
     out: Output,
 }

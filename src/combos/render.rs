@@ -4,9 +4,6 @@
 use std::collections::BTreeMap;
 
 use serde::Serialize;
-use tabled::builder::Builder;
-use tabled::settings::Style;
-use tabled::settings::style::HorizontalLine;
 
 use super::expand::format_factor;
 use super::expr::{Expr, resolve};
@@ -17,39 +14,8 @@ use super::{
 use crate::diag::FileError;
 use crate::model::LoadCase;
 
-/// Output format of the `cases` listing.
-#[derive(
-    Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, strum::Display, strum::EnumString,
-)]
-#[strum(serialize_all = "kebab-case")]
-pub enum OutputFormat {
-    /// Aligned plain-text table.
-    #[default]
-    Table,
-    /// JSON object with cases, merges, skips and warnings.
-    Json,
-    /// Comma-separated values, one row per factored case and load case factor column.
-    Csv,
-}
-
-/// The line every user-facing output carries.
-pub const CAUTION: &str = "These results assist a licensed engineer; local codes and the adopted edition of each standard govern.";
-
-/// Plain style of our own: no frame, a dashed rule under the header row.
-fn plain(b: Builder) -> String {
-    let mut t = b.build();
-    t.with(Style::blank().horizontals([(1, HorizontalLine::new('-').intersection(' '))]));
-    t.to_string()
-}
-
-fn table_of(header: &[&str], rows: Vec<Vec<String>>) -> String {
-    let mut b = Builder::default();
-    b.push_record(header.iter().map(|s| s.to_string()));
-    for r in rows {
-        b.push_record(r);
-    }
-    plain(b)
-}
+pub use crate::report::OutputFormat;
+use crate::report::{CAUTION, table_of};
 
 /// `plumbline combos`: name, title and edition of every shipped table.
 pub fn render_table_list() -> Result<String, FileError> {
