@@ -252,10 +252,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                 if let Some(h) = model.sections[mem.section].depth {
                     let min = aci::m2_min(compression, h);
                     if m2.abs() < min {
-                        notes.push(format!(
-                            "M2 raised to M2,min = {:.1} kN·m (ACI 318-19 6.6.4.5.4)",
-                            min / 1e3
-                        ));
+                        notes.push("M2 raised to M2,min (ACI 318-19 6.6.4.5.4)".into());
                         m2 = min.copysign(if m2 == 0.0 { 1.0 } else { m2 });
                     }
                 }
@@ -268,9 +265,9 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                     > aci::SECOND_ORDER_LIMIT * e.first_order.abs() + 1e-9 * e.design.abs().max(1.0)
                 {
                     notes.push(format!(
-                        "second-order moment {:.1} kN·m exceeds 1.4 × first-order {:.1} kN·m (ACI 318-19 6.2.5.3)",
-                        e.design / 1e3,
-                        e.first_order / 1e3
+                        "second-order end moment is {:.2} × first-order, above the 1.4 limit \
+                         (ACI 318-19 6.2.5.3)",
+                        e.design.abs() / e.first_order.abs()
                     ));
                     break;
                 }

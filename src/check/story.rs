@@ -213,8 +213,22 @@ pub fn figures(
         .collect()
 }
 
+/// Non-sway when the criterion holds, with the comparison sign for the message.
+fn against(holds: bool) -> (Classification, &'static str) {
+    if holds {
+        (Classification::NonSway, "≤")
+    } else {
+        (Classification::Sway, ">")
+    }
+}
+
 /// Fill in the drift amplification from the direct analysis, the sway amplifier of the
 /// model's method and the classification with its criterion.
+///
+/// Where a method's approximate sway amplifier is not permitted (ACI δs > 1.5,
+/// EN 1993-1-1 α_cr < 3), the amplifier is Δ2nd/Δ1st of the direct second-order analysis
+/// (ACI 318-19 6.6.4.6.2(c); EN 1993-1-1 5.2.2(3)); where that did not converge, the
+/// story is unstable.
 pub fn classify(
     model: &Model,
     stories: &[Story],
@@ -230,160 +244,98 @@ pub fn classify(
             let second = story_drift(st, d);
             (first.abs() > 1e-12 * f.height).then(|| second / first)
         });
-        let direct_failed = direct.is_none();
-        // Sway amplification from the direct analysis where an approximate amplifier is
-        // not permitted; 1.0 where the case has no first-order drift at all.
-        let from_direct = if direct_failed {
-            None
-        } else {
-            Some(f.drift_amplification.unwrap_or(1.0))
-        };
+        // 1.0 where the case has no first-order drift at all; None if the direct analysis
+        // failed.
+        let from_direct = direct.map(|_| f.drift_amplification.unwrap_or(1.0));
+        let unstable = |why: String| (None, Classification::Unstable, why);
         let (amp, class, criterion) = match model.analysis.method {
             SecondOrderMethod::AiscB1B2 => match f.b2 {
-                None => (
-                    None,
-                    Classification::Unstable,
-                    format!(
-                        "α·ΣP = {:.0} kN ≥ Pe,story = {:.0} kN (AISC 360-16 A-8-6)",
-                        alpha * f.sum_p / 1e3,
-                        f.p_e_story / 1e3
-                    ),
-                ),
-                Some(b2) if b2 <= aisc::B2_NONSWAY => (
-                    Some(b2),
-                    Classification::NonSway,
-                    format!(
-                        "B2 = {b2:.3} ≤ {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                None => unstable(format!(
+                    "α·ΣP/Pe,story = {:.3} ≥ 1 (AISC 360-16 A-8-6)",
+                    alpha * f.sum_p / f.p_e_story
+                )),
+                Some(b2) => {
+                    let (class, cmp) = against(b2 <= aisc::B2_NONSWAY);
+                    let why = format!(
+                        "B2 = {b2:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
                         aisc::B2_NONSWAY
-                    ),
-                ),
-                Some(b2) => (
-                    Some(b2),
-                    Classification::Sway,
-                    format!(
-                        "B2 = {b2:.3} > {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
-                        aisc::B2_NONSWAY
-                    ),
-                ),
+                    );
+                    (Some(b2), class, why)
+                }
             },
             SecondOrderMethod::AciMagnifier => {
-                let ds = f
-                    .delta_s_q
-                    .map(|d| (d, "Q method, 6.6.4.6.2(a)"))
-                    .or_else(|| from_direct.map(|d| (d, "second-order analysis, 6.6.4.6.2(c)")));
+                let ds = match f.delta_s_q {
+                    Some(d) => Some((d, "Q method, 6.6.4.6.2(a)")),
+                    None => from_direct.map(|d| (d, "second-order analysis, 6.6.4.6.2(c)")),
+                };
                 match ds {
-                    _ if f.q_index >= 1.0 || direct_failed && f.delta_s_q.is_none() => (
-                        None,
-                        Classification::Unstable,
-                        format!(
-                            "Q = {:.3}: the story is unstable (ACI 318-19 6.6.4.4.1)",
-                            f.q_index
-                        ),
-                    ),
-                    Some((d, how)) => {
-                        let class = if f.q_index <= aci::Q_NONSWAY {
-                            Classification::NonSway
-                        } else {
-                            Classification::Sway
-                        };
-                        let cmp = if class == Classification::NonSway {
-                            "≤"
-                        } else {
-                            ">"
-                        };
-                        (
-                            Some(d),
-                            class,
-                            format!(
-                                "Q = {:.3} {cmp} {:.2} (ACI 318-19 6.6.4.3(b)); δs = {d:.3} by the {how}",
-                                f.q_index,
-                                aci::Q_NONSWAY
-                            ),
-                        )
+                    Some((d, how)) if f.q_index < 1.0 => {
+                        let (class, cmp) = against(f.q_index <= aci::Q_NONSWAY);
+                        let why = format!(
+                            "Q = {:.3} {cmp} {:.2} (ACI 318-19 6.6.4.3(b)); δs = {d:.3} by the {how}",
+                            f.q_index,
+                            aci::Q_NONSWAY
+                        );
+                        (Some(d), class, why)
                     }
-                    None => (
-                        None,
-                        Classification::Unstable,
-                        "no sway magnifier available".into(),
-                    ),
+                    _ => unstable(format!(
+                        "Q = {:.3}: the story is unstable (ACI 318-19 6.6.4.4.1, 6.6.4.6.2)",
+                        f.q_index
+                    )),
                 }
             }
             SecondOrderMethod::Ec3AlphaCr => {
                 let a = f.alpha_cr_story;
-                if a <= 1.0 || (a < ec3::ALPHA_CR_AMPLIFIED_MIN && direct_failed) {
-                    (
-                        None,
-                        Classification::Unstable,
-                        format!("α_cr = {a:.2}: the story is unstable (EN 1993-1-1 (5.2))"),
-                    )
-                } else if a >= ec3::ALPHA_CR_FIRST_ORDER {
-                    (
+                match (ec3::sway_amplifier(a), from_direct) {
+                    _ if a <= 1.0 => unstable(format!(
+                        "α_cr = {a:.2} ≤ 1: the story is unstable (EN 1993-1-1 (5.2))"
+                    )),
+                    _ if a >= ec3::ALPHA_CR_FIRST_ORDER => (
                         Some(1.0),
                         Classification::NonSway,
                         format!(
-                            "α_cr = {a:.2} ≥ 10: first-order analysis suffices (EN 1993-1-1 5.2.1(3), (5.1))"
+                            "α_cr = {a:.2} ≥ 10: first-order analysis suffices (EN 1993-1-1 (5.1))"
                         ),
-                    )
-                } else if let Some(amp) = ec3::sway_amplifier(a) {
-                    (
+                    ),
+                    (Some(amp), _) => (
                         Some(amp),
                         Classification::Sway,
                         format!(
-                            "α_cr = {a:.2} < 10: sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"
+                            "α_cr = {a:.2} < 10: sway effects × 1/(1 − 1/α_cr) = {amp:.3} \
+                             (EN 1993-1-1 5.2.2(5)B)"
                         ),
-                    )
-                } else {
-                    (
-                        from_direct,
+                    ),
+                    (None, Some(r)) => (
+                        Some(r),
                         Classification::Sway,
                         format!(
-                            "α_cr = {a:.2} < 3: second-order analysis required (EN 1993-1-1 5.2.2(5)B); \
-                         sway effects × Δ2nd/Δ1st = {:.3} from the direct analysis",
-                            from_direct.unwrap_or(f64::NAN)
+                            "α_cr = {a:.2} < 3: second-order analysis required (EN 1993-1-1 \
+                             5.2.2(5)B); sway effects × Δ2nd/Δ1st = {r:.3} from the direct analysis"
                         ),
-                    )
+                    ),
+                    (None, None) => unstable(format!(
+                        "α_cr = {a:.2} < 3 and the direct analysis did not converge"
+                    )),
                 }
             }
-            SecondOrderMethod::Direct => match from_direct {
-                None => (
-                    None,
-                    Classification::Unstable,
-                    "direct second-order analysis did not converge".into(),
-                ),
-                Some(r) if f.drift_amplification.is_some() => {
-                    let class = if r <= aisc::B2_NONSWAY {
-                        Classification::NonSway
-                    } else {
-                        Classification::Sway
-                    };
-                    let cmp = if class == Classification::NonSway {
-                        "≤"
-                    } else {
-                        ">"
-                    };
-                    (
-                        Some(r),
-                        class,
-                        format!(
-                            "Δ2nd/Δ1st = {r:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
-                            aisc::B2_NONSWAY
-                        ),
-                    )
+            SecondOrderMethod::Direct => match (from_direct, f.drift_amplification) {
+                (None, _) => unstable("direct second-order analysis did not converge".into()),
+                (Some(r), Some(_)) => {
+                    let (class, cmp) = against(r <= aisc::B2_NONSWAY);
+                    let why = format!(
+                        "Δ2nd/Δ1st = {r:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                        aisc::B2_NONSWAY
+                    );
+                    (Some(r), class, why)
                 }
-                Some(r) => {
+                (Some(r), None) => {
                     let a = f.alpha_cr_story;
-                    let class = if a >= ec3::ALPHA_CR_FIRST_ORDER {
-                        Classification::NonSway
-                    } else {
-                        Classification::Sway
-                    };
-                    (
-                        Some(r),
-                        class,
-                        format!(
-                            "no first-order drift; story α_cr = {a:.2} against 10 (EN 1993-1-1 (5.1))"
-                        ),
-                    )
+                    let (class, cmp) = against(a >= ec3::ALPHA_CR_FIRST_ORDER);
+                    let cmp = if cmp == "≤" { "≥" } else { "<" };
+                    let why = format!(
+                        "no first-order drift; story α_cr = {a:.2} {cmp} 10 (EN 1993-1-1 (5.1))"
+                    );
+                    (Some(r), class, why)
                 }
             },
         };

@@ -4,7 +4,7 @@
 use nalgebra::Vector6;
 use serde::Serialize;
 
-use super::beam::{fixed_end_forces, split_loads};
+use super::beam::{Side, fixed_end_forces, internal_forces_at, split_loads};
 use super::element::transformation;
 use super::forces::EndForces;
 use super::mesh::Mesh;
@@ -75,12 +75,9 @@ impl MeshLoads {
         for (ie, loads) in self.element.iter().enumerate() {
             let e = &mesh.elements[ie];
             let (xi, yi) = mesh.nodes[e.i];
-            for load in loads {
-                // Local resultant (px, py) acting at distance `at`, plus a couple.
-                let (px, py, at, m) = local_resultant(load);
-                let (gx, gy) = (e.c * px - e.s * py, e.s * px + e.c * py);
-                add_force(&mut r, xi + e.c * at, yi + e.s * at, gx, gy, m);
-            }
+            let (px, py, m) = element_resultant(e.length, loads);
+            let (gx, gy) = (e.c * px - e.s * py, e.s * px + e.c * py);
+            add_force(&mut r, xi, yi, gx, gy, m);
         }
         r
     }
@@ -92,34 +89,16 @@ fn add_force(r: &mut [f64; 3], x: f64, y: f64, fx: f64, fy: f64, m: f64) {
     r[2] += m + x * fy - y * fx;
 }
 
-/// Resultant of a local load: `(px, py, position, couple)`; the axial and transverse parts
-/// of a linear load act at their own centroids, so the transverse part's moment about the
-/// axial resultant's line is carried as the couple.
-fn local_resultant(load: &LocalLoad) -> (f64, f64, f64, f64) {
-    match *load {
-        LocalLoad::Linear {
-            a,
-            b,
-            qx_a,
-            qy_a,
-            qx_b,
-            qy_b,
-        } => {
-            let len = b - a;
-            // Resultant of a trapezoid and its centroid from a.
-            let res = |qa: f64, qb: f64| -> (f64, f64) {
-                let p = 0.5 * (qa + qb) * len;
-                let mom = len * len * (qa / 6.0 + qb / 3.0); // ∫ q(t)·t dt, t from a
-                (p, mom)
-            };
-            let (px, _) = res(qx_a, qx_b);
-            let (py, my) = res(qy_a, qy_b);
-            // Place the whole resultant at a; the transverse part's moment about a is my.
-            (px, py, a, my)
-        }
-        LocalLoad::Point { a, px, py } => (px, py, a, 0.0),
-        LocalLoad::Moment { a, m } => (0.0, 0.0, a, m),
+/// Resultant of an element's loads in its local axes: `(Σpx, Σpy, moment about end i)`,
+/// by the statics of [`internal_forces_at`] on the unsupported element, taken just past
+/// end j so that every load counts: `N(L⁺) = −Σpx`, `V(L⁺) = Σpy` and
+/// `M(L⁺) = Σpy·(L − a) − Σm`, so the moment about i is `V·L − M`.
+fn element_resultant(length: f64, loads: &[LocalLoad]) -> (f64, f64, f64) {
+    if loads.is_empty() {
+        return (0.0, 0.0, 0.0);
     }
+    let f = internal_forces_at(length, Side::Right, &EndForces::default(), loads);
+    (-f.n, f.v, f.v * length - f.m)
 }
 
 /// Equilibrium check of one solution.
@@ -254,13 +233,10 @@ pub fn respond(
         .flat_map(|p| p.iter())
         .chain(applied_r.iter().take(2))
         .map(|v| v.abs())
-        .chain(
-            loads
-                .element
-                .iter()
-                .flatten()
-                .map(|l| local_resultant(l).0.hypot(local_resultant(l).1)),
-        )
+        .chain(mesh.elements.iter().zip(&loads.element).map(|(e, l)| {
+            let (px, py, _) = element_resultant(e.length, l);
+            px.hypot(py)
+        }))
         .fold(0.0, f64::max);
     Ok(Response {
         displacements,
