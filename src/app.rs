@@ -156,7 +156,8 @@ pub struct CheckArgs {
     pub combos: Option<String>,
     pub sets: Vec<String>,
     pub method: Option<SecondOrderMethod>,
-    /// Only the factored cases whose id starts with this.
+    /// Only the factored cases whose id starts with this (notional-load variants such as
+    /// `2.3.1-2a/N+` included).
     pub case: Option<String>,
     pub format: OutputFormat,
 }
@@ -172,14 +173,18 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     let expansion = expand(&table, &model.load_cases, &overrides(&model, &args.sets)?)?;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
-        cases.retain(|c| c.id.starts_with(prefix.as_str()));
+        // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.
+        cases.retain(|c| c.id.starts_with(prefix.as_str()) || prefix.starts_with(c.id.as_str()));
         if cases.is_empty() {
             return Err(AppError::Usage(format!(
                 "no factored case id starts with \"{prefix}\""
             )));
         }
     }
-    let report = crate::check::check(&model, &cases).map_err(|e| analysis(model_path, e))?;
+    let mut report = crate::check::check(&model, &cases).map_err(|e| analysis(model_path, e))?;
+    if let Some(prefix) = &args.case {
+        report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
+    }
     let title = format!("{} ({}, {})", table.title, table.standard, table.edition);
     let body = crate::report::check::render(&model, &report, &title, args.format);
     Ok(match args.format {

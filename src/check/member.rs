@@ -9,7 +9,7 @@ use serde::Serialize;
 
 use super::story::StoryFigures;
 use super::{aci, aisc};
-use crate::model::{LocalLoad, Model, SecondOrderMethod};
+use crate::model::{LocalLoad, Model, Role, SecondOrderMethod};
 use crate::solve::Solution;
 use crate::solve::beam::{SpanExtremes, has_transverse_load, span_extremes};
 use crate::solve::mesh::MemberStiffness;
@@ -183,7 +183,9 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             }
             (Some(pe1), b1)
         }
-        SecondOrderMethod::AciMagnifier if compression > 0.0 => {
+        // ACI 318-19 §6.6.4 magnifies the moments of columns (compression members), not of
+        // beams that carry some axial force from frame action.
+        SecondOrderMethod::AciMagnifier if compression > 0.0 && mem.role != Role::Beam => {
             // 6.6.4.4.4(a) with the gross section and k = 1.0 (6.6.4.4.3 permits 1.0 for
             // non-sway members, from memory).
             let section = &model.sections[mem.section];
@@ -240,7 +242,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                 section(0.0, ns[0], sw[0], ns[0] + amp_s * sw[0]),
                 section(l, ns[1], sw[1], ns[1] + amp_s * sw[1]),
             ];
-            let span = if compression > 0.0 {
+            let span = if compression > 0.0 && mem.role != Role::Beam {
                 // Mc = δ·M2 (6.6.4.5.1), M2 the larger magnified end moment and at least
                 // M2,min (6.6.4.5.4) where the section depth is known.
                 let k = if ends[0].design.abs() >= ends[1].design.abs() {
