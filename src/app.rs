@@ -120,9 +120,7 @@ pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Stri
     })?;
     let solution =
         crate::solve::solve_case(&model, k).map_err(|e: SystemError| analysis(model_path, e))?;
-    Ok(crate::report::solve::render(
-        &model, case, &solution, format,
-    ))
+    Ok(crate::report::solve::render(&model, k, &solution, format))
 }
 
 /// `plumbline combos [NAME|PATH]`: the shipped tables, or one table's combinations.

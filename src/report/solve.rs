@@ -3,8 +3,10 @@
 use serde::Serialize;
 
 use super::{CAUTION, OutputFormat, num, table_of};
-use crate::model::{Model, Restraint};
+use crate::model::{LocalLoad, Model, Restraint};
 use crate::solve::Solution;
+use crate::solve::first_order::{combined_member_loads, member_diagram, member_extremes};
+use crate::solve::mesh::member_stiffness;
 use crate::units::Dimension;
 
 /// JSON document of a solution; every value in SI base units (see `units`).
@@ -65,7 +67,35 @@ struct MemberEnds<'a> {
     member: &'a str,
     i: End,
     j: End,
+    /// Extreme internal moments along the member, found exactly.
+    span: Span,
+    /// Internal forces and transverse deflection at stations along the member.
+    stations: Vec<StationDoc>,
 }
+
+#[derive(Debug, Serialize)]
+struct Extreme {
+    x: f64,
+    moment: f64,
+}
+
+#[derive(Debug, Serialize)]
+struct Span {
+    max: Extreme,
+    min: Extreme,
+}
+
+#[derive(Debug, Serialize)]
+struct StationDoc {
+    x: f64,
+    axial: f64,
+    shear: f64,
+    moment: f64,
+    deflection: f64,
+}
+
+/// Stations per member in the JSON diagrams (plus every load breakpoint).
+pub const STATIONS: usize = 11;
 
 #[derive(Debug, Serialize)]
 struct Residual {
@@ -89,18 +119,23 @@ fn supported(model: &Model) -> Vec<usize> {
     v
 }
 
-/// Render the first-order `solution` of load case `case` of `model`.
+/// Render the first-order `solution` of load case number `case` of `model`.
 ///
 /// Member-end values are the end actions in member-local axes (forces the nodes exert on
-/// the member: axial along i→j, shear along local y, moment counter-clockwise).
-pub fn render(model: &Model, case: &str, solution: &Solution, format: OutputFormat) -> String {
+/// the member: axial along i→j, shear along local y, moment counter-clockwise); span
+/// extremes and stations are internal forces (N tension positive, M positive with the
+/// local −y face in tension).
+pub fn render(model: &Model, case: usize, solution: &Solution, format: OutputFormat) -> String {
+    let loads = combined_member_loads(model, &[(case, 1.0)]);
+    let id = &model.load_cases[case].id;
     match format {
-        OutputFormat::Json => json(model, case, solution),
-        OutputFormat::Table | OutputFormat::Csv => text(model, case, solution, format),
+        OutputFormat::Json => json(model, id, solution, &loads),
+        OutputFormat::Table | OutputFormat::Csv => text(model, id, solution, &loads, format),
     }
 }
 
-fn json(model: &Model, case: &str, s: &Solution) -> String {
+fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> String {
+    let stiffness = member_stiffness(model);
     let doc = Doc {
         title: &model.title,
         case,
@@ -129,18 +164,42 @@ fn json(model: &Model, case: &str, s: &Solution) -> String {
             .members
             .iter()
             .zip(&s.end_forces)
-            .map(|(m, e)| MemberEnds {
-                member: &m.id,
-                i: End {
-                    axial: e.i[0],
-                    shear: e.i[1],
-                    moment: e.i[2],
-                },
-                j: End {
-                    axial: e.j[0],
-                    shear: e.j[1],
-                    moment: e.j[2],
-                },
+            .enumerate()
+            .map(|(k, (m, e))| {
+                let ext = member_extremes(model, s, k, &loads[k]);
+                MemberEnds {
+                    member: &m.id,
+                    i: End {
+                        axial: e.i[0],
+                        shear: e.i[1],
+                        moment: e.i[2],
+                    },
+                    j: End {
+                        axial: e.j[0],
+                        shear: e.j[1],
+                        moment: e.j[2],
+                    },
+                    span: Span {
+                        max: Extreme {
+                            x: ext.max.0,
+                            moment: ext.max.1,
+                        },
+                        min: Extreme {
+                            x: ext.min.0,
+                            moment: ext.min.1,
+                        },
+                    },
+                    stations: member_diagram(model, &stiffness, s, k, &loads[k], STATIONS)
+                        .into_iter()
+                        .map(|st| StationDoc {
+                            x: st.x,
+                            axial: st.n,
+                            shear: st.v,
+                            moment: st.m,
+                            deflection: st.deflection,
+                        })
+                        .collect(),
+                }
             })
             .collect(),
         residual: Residual {
@@ -155,7 +214,13 @@ fn json(model: &Model, case: &str, s: &Solution) -> String {
     serde_json::to_string_pretty(&doc).expect("a solution serializes") + "\n"
 }
 
-fn text(model: &Model, case: &str, s: &Solution, format: OutputFormat) -> String {
+fn text(
+    model: &Model,
+    case: &str,
+    s: &Solution,
+    loads: &[Vec<LocalLoad>],
+    format: OutputFormat,
+) -> String {
     let u = &model.units;
     let (ld, lf, lm) = (
         u.label(Dimension::Displacement),
@@ -242,6 +307,34 @@ fn text(model: &Model, case: &str, s: &Solution, format: OutputFormat) -> String
             format!("M j ({lm})"),
         ],
         end_rows,
+    ));
+    let span_rows = (0..model.members.len())
+        .map(|k| {
+            let e = member_extremes(model, s, k, &loads[k]);
+            let x = |v: f64| num(u.from_si(v, Dimension::Length), 3);
+            vec![
+                model.members[k].id.clone(),
+                m(e.max.1),
+                x(e.max.0),
+                m(e.min.1),
+                x(e.min.0),
+            ]
+        })
+        .collect();
+    let ll = u.label(Dimension::Length);
+    out.push_str(
+        "\n\nExtreme internal moments along each member (positive with the local −y face in \
+         tension; x from end i)\n",
+    );
+    out.push_str(&table_of(
+        &[
+            "member".to_string(),
+            format!("M max ({lm})"),
+            format!("at x ({ll})"),
+            format!("M min ({lm})"),
+            format!("at x ({ll})"),
+        ],
+        span_rows,
     ));
     out.push_str(&format!(
         "\n\nEquilibrium residual: {:.2e} of the largest applied load\n\n{CAUTION}\n",
