@@ -32,7 +32,10 @@ fn a_column_passing_a_mezzanine_level_is_rejected_with_its_id() {
         }
         other => panic!("expected ColumnSpansLevel, got {other:?}"),
     }
-    assert!(err.to_string().contains("declare the story levels"), "{err}");
+    assert!(
+        err.to_string().contains("declare the story levels"),
+        "{err}"
+    );
     // Declaring the levels as the roof only still finds the split column line.
     f.model.stories = Some(StoryDeclaration { levels: vec![6.0] });
     let s = stories(&f.model).unwrap();

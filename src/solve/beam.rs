@@ -209,62 +209,26 @@ pub fn fixed_end_forces(length: f64, loads: &[LocalLoad]) -> EndForces {
     EndForces::from_array(total)
 }
 
-/// Bending stiffness of the member for `(v_i, θ_i, v_j, θ_j)` with `EI = 1`.
-fn unit_bending_stiffness(length: f64) -> [[f64; 4]; 4] {
-    let l = length;
-    let (l2, l3) = (l * l, l * l * l);
-    [
-        [12.0 / l3, 6.0 / l2, -12.0 / l3, 6.0 / l2],
-        [6.0 / l2, 4.0 / l, -6.0 / l2, 2.0 / l],
-        [-12.0 / l3, -6.0 / l2, 12.0 / l3, -6.0 / l2],
-        [6.0 / l2, 2.0 / l, -6.0 / l2, 4.0 / l],
-    ]
-}
-
 /// Remove the end moment at a released end (hinge) from fixed-end forces by static
-/// condensation of the released rotation(s) with the 4×4 bending stiffness `K`.
+/// condensation of the released rotation(s), the same condensation the element stiffness
+/// undergoes ([`super::element::condense`]), so the end forces and the stiffness of a
+/// released member stay consistent.
 ///
 /// With `r` the released rotations and `c` the others, the free rotations are
 /// `θ_r = −K_rr⁻¹·F_r` and the condensed forces `F* = F + K_·r·θ_r`, which makes `F*_r = 0`
 /// exactly. `EI` cancels: `K_·r·K_rr⁻¹` is a ratio of stiffnesses that all carry the same
 /// factor `EI`, so the unit stiffness (`EI = 1`) gives the same result for any prismatic
-/// member. This is the same condensation the element stiffness undergoes, so the end forces
-/// and the stiffness of a released member stay consistent. Axial forces are untouched.
+/// member. Axial forces are untouched (the rotation columns have no axial terms).
 pub fn condense_end_forces(
     length: f64,
     fixed: &EndForces,
     release_i: bool,
     release_j: bool,
 ) -> EndForces {
-    let k = unit_bending_stiffness(length);
-    let f = fixed.to_array();
-    // Bending components in the order (v_i, θ_i, v_j, θ_j).
-    let fb = [f[1], f[2], f[4], f[5]];
-    let theta: [f64; 2] = match (release_i, release_j) {
-        (false, false) => return *fixed,
-        (true, false) => [-fb[1] / k[1][1], 0.0],
-        (false, true) => [0.0, -fb[3] / k[3][3]],
-        (true, true) => {
-            // Solve [[k11, k13], [k31, k33]]·θ = −[F_θi, F_θj].
-            let (a, b, c, d) = (k[1][1], k[1][3], k[3][1], k[3][3]);
-            let det = a * d - b * c;
-            [
-                (-fb[1] * d + fb[3] * b) / det,
-                (-fb[3] * a + fb[1] * c) / det,
-            ]
-        }
-    };
-    let mut out = fb;
-    for (row, value) in out.iter_mut().enumerate() {
-        *value += k[row][1] * theta[0] + k[row][3] * theta[1];
-    }
-    if release_i {
-        out[1] = 0.0;
-    }
-    if release_j {
-        out[3] = 0.0;
-    }
-    EndForces::from_array([f[0], out[0], out[1], f[3], out[2], out[3]])
+    let k = super::element::elastic_stiffness(1.0, 1.0, length);
+    let f = nalgebra::Vector6::from(fixed.to_array());
+    let (_, condensed) = super::element::condense(&k, &f, [release_i, release_j]);
+    EndForces::from_array(condensed.into())
 }
 
 /// End actions of a member with both ends restrained against translation and a moment
