@@ -5,7 +5,8 @@
 //! [`input`] (model file) → [`model`] (validated frame and load cases) → [`combos`]
 //! (factored cases from a combination table) → [`solve`] (first-order, no-sway/sway,
 //! second-order and buckling solutions) → [`check`] (amplification and story
-//! classification) → [`report`] (tables and JSON).
+//! classification) → [`envelope`] (governing moments over the cases) → [`report`]
+//! (tables, CSV and JSON) → [`app`] (the commands).
 //!
 //! Results assist a licensed engineer; local codes and the adopted edition of each
 //! standard govern.
@@ -23,6 +24,7 @@ pub mod app;
 pub mod check;
 pub mod combos;
 pub mod diag;
+pub mod envelope;
 pub mod input;
 pub mod model;
 pub mod report;

@@ -35,6 +35,8 @@ pub struct MomentCheck {
     pub first_order: f64,
     /// With second-order effects by the chosen method.
     pub design: f64,
+    /// Whether the amplified sway or no-sway part is the larger here.
+    pub governs: Part,
 }
 
 /// Results of one member under one factored case (SI units).
@@ -205,12 +207,23 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         _ => (None, Some(1.0)),
     };
     let b1 = amp_ns.unwrap_or(f64::NAN);
+    // The factor on the no-sway part at a section: B1 (AISC) or 1 (ACI ends, where δ acts
+    // on the column's Mc instead; EN 1993-1-1; the direct analysis).
+    let amp_n = match method {
+        SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Ec3AlphaCr => b1,
+        SecondOrderMethod::AciMagnifier | SecondOrderMethod::Direct => 1.0,
+    };
     let section = |x: f64, n: f64, s: f64, design: f64| MomentCheck {
         x,
         no_sway: n,
         sway: s,
         first_order: n + s,
         design,
+        governs: if (amp_s * s).abs() > (amp_n * n).abs() {
+            Part::Sway
+        } else {
+            Part::NoSway
+        },
     };
     let (ends, span) = match (method, input.direct) {
         (SecondOrderMethod::Direct, Some((d, spans))) => {
@@ -287,23 +300,11 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     if method == SecondOrderMethod::Ec3AlphaCr && compression > 0.0 {
         notes.push("member imperfections and P-δ are left to the member buckling checks (EN 1993-1-1 5.2.2(3)c, 6.3)".into());
     }
-    // Which part governs at the section with the largest design moment.
-    let all = [ends[0], ends[1], span];
-    let g = all
-        .iter()
-        .copied()
+    // The part that governs at the section with the largest design moment.
+    let governs = [ends[0], ends[1], span]
+        .into_iter()
         .max_by(|a, b| a.design.abs().total_cmp(&b.design.abs()))
-        .unwrap_or(span);
-    let amp_n = if method == SecondOrderMethod::Direct {
-        1.0
-    } else {
-        b1
-    };
-    let governs = if (amp_s * g.sway).abs() > (amp_n * g.no_sway).abs() {
-        Part::Sway
-    } else {
-        Part::NoSway
-    };
+        .map_or(Part::NoSway, |g| g.governs);
     MemberCheck {
         member: mem.id.clone(),
         role: mem.role,

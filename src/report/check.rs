@@ -5,6 +5,7 @@ use serde::Serialize;
 
 use super::{CAUTION, OutputFormat, num, opt, table_of};
 use crate::check::{CaseCheck, CheckReport};
+use crate::envelope::{GoverningMoment, governing};
 use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
 
@@ -35,6 +36,8 @@ struct JsonDoc<'a> {
     method: SecondOrderMethod,
     method_description: &'a str,
     report: &'a CheckReport,
+    /// The largest design moment of each member over the stable cases.
+    governing: Vec<GoverningMoment>,
     caution: &'a str,
 }
 
@@ -70,6 +73,7 @@ pub fn render(
                 method: report.method,
                 method_description: method_title(report.method),
                 report,
+                governing: governing(report),
                 caution: CAUTION,
             };
             serde_json::to_string_pretty(&doc).expect("a check report serializes") + "\n"
@@ -117,6 +121,7 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
         out.push_str(&case_text(model, case));
         out.push('\n');
     }
+    out.push_str(&governing_text(model, report));
     let unstable: Vec<&str> = report
         .cases
         .iter()
@@ -134,6 +139,54 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
          tension (sagging for a beam drawn left to right); N is positive in tension.\n",
     );
     out.push_str(&format!("{CAUTION}\n"));
+    out
+}
+
+/// The governing design moment of each member over the stable cases.
+pub fn governing_text(model: &Model, report: &CheckReport) -> String {
+    let u = &model.units;
+    let (lm, lf, lu) = (
+        u.label(Dimension::Moment),
+        u.label(Dimension::Force),
+        u.label(Dimension::Length),
+    );
+    let m = |v: f64| num(u.from_si(v, Dimension::Moment), 1);
+    let rows = governing(report)
+        .into_iter()
+        .map(|g| {
+            vec![
+                g.member,
+                m(g.moment),
+                g.location.to_string(),
+                num(u.from_si(g.x, Dimension::Length), 2),
+                g.case,
+                m(g.first_order),
+                if g.first_order.abs() > 0.0 {
+                    num(g.moment / g.first_order, 3)
+                } else {
+                    "-".into()
+                },
+                num(u.from_si(g.axial, Dimension::Force), 1),
+                g.governs.to_string(),
+            ]
+        })
+        .collect();
+    let mut out = String::from("Governing design moments over the stable cases\n");
+    out.push_str(&table_of(
+        &[
+            "member".to_string(),
+            format!("M design ({lm})"),
+            "at".into(),
+            format!("x ({lu})"),
+            "case".into(),
+            format!("M first-order ({lm})"),
+            "ratio".into(),
+            format!("N ({lf})"),
+            "larger part".into(),
+        ],
+        rows,
+    ));
+    out.push_str("\n\n");
     out
 }
 
