@@ -52,9 +52,13 @@ pub fn governing(report: &CheckReport) -> Vec<GoverningMoment> {
             ];
             let l = m.ends[1].x;
             for (location, s) in sections {
-                // A span extreme at an end repeats that end.
+                // A span extreme at an end that equals that end's value repeats it.
+                let repeats = |e: &MomentCheck| {
+                    (s.x - e.x).abs() <= 1e-9 * l
+                        && (s.design - e.design).abs() <= 1e-9 * s.design.abs()
+                };
                 let at_end =
-                    location == Location::Span && (s.x <= 1e-9 * l || s.x >= l * (1.0 - 1e-9));
+                    location == Location::Span && (repeats(&m.ends[0]) || repeats(&m.ends[1]));
                 if !s.design.is_finite() || at_end {
                     continue;
                 }
