@@ -144,24 +144,23 @@ fn symmetric_frame() -> (Frame, usize) {
     let (e, a) = (E_STEEL, 1e-2);
     let xs = [0.0, 6.0, 12.0];
     let ys = [0.0, 4.0, 7.5];
-    let mut grid = [[0usize; 3]; 3];
-    for (r, &y) in ys.iter().enumerate() {
-        for (c, &x) in xs.iter().enumerate() {
-            grid[r][c] = f.node(x, y);
-        }
-    }
-    for c in 0..3 {
-        f.fixed(grid[0][c]);
+    let grid: Vec<Vec<usize>> = ys
+        .iter()
+        .map(|&y| xs.iter().map(|&x| f.node(x, y)).collect())
+        .collect();
+    for &base in &grid[0] {
+        f.fixed(base);
     }
     let mut beams = Vec::new();
-    for r in 1..3 {
-        for c in 0..3 {
+    for pair in grid.windows(2) {
+        let (below, above) = (&pair[0], &pair[1]);
+        for (c, (&bottom, &top)) in below.iter().zip(above).enumerate() {
             // Interior columns stiffer than exterior ones, symmetric about the middle.
             let ic = if c == 1 { 3e-4 } else { 2e-4 };
-            f.member(grid[r - 1][c], grid[r][c], e, a, ic);
+            f.member(bottom, top, e, a, ic);
         }
-        for c in 0..2 {
-            beams.push(f.member(grid[r][c], grid[r][c + 1], e, a, 4e-4));
+        for span in above.windows(2) {
+            beams.push(f.member(span[0], span[1], e, a, 4e-4));
         }
     }
     let g = f.case("D", ActionCategory::Dead);
