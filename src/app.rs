@@ -183,7 +183,11 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     if let Some(prefix) = &args.case {
         report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
     }
-    let title = format!("{} ({}, {})", table.title, table.standard, table.edition);
+    let title = if table.standard.contains(table.edition.as_str()) {
+        format!("{} ({})", table.title, table.standard)
+    } else {
+        format!("{} ({}, {})", table.title, table.standard, table.edition)
+    };
     let body = crate::report::check::render(&model, &report, &title, args.format);
     Ok(match args.format {
         OutputFormat::Table => expansion_notes(&model, &expansion) + &body,
@@ -238,4 +242,18 @@ pub fn write_output(path: &Path, text: &str) -> Result<(), AppError> {
         let _ = std::fs::remove_file(&tmp);
         err(e)
     })
+}
+
+/// Print `text` on standard output. A reader that stops early (`plumbline check … | head`)
+/// is not an error.
+pub fn write_stdout(text: &str) -> Result<(), AppError> {
+    use std::io::Write;
+    let mut out = std::io::stdout().lock();
+    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(AppError::Write {
+            path: "standard output".into(),
+            source: e,
+        }),
+        _ => Ok(()),
+    }
 }

@@ -8,7 +8,7 @@ use std::sync::Arc;
 
 /// An error located in an input file: file, line, column (1-based) and the field concerned.
 #[derive(Debug, Clone, thiserror::Error)]
-#[error("{file}:{line}:{column}: {field}: {message}")]
+#[error("{}", self.headline())]
 pub struct FileError {
     pub file: String,
     pub line: usize,
@@ -26,6 +26,19 @@ pub struct FileError {
 }
 
 impl FileError {
+    /// `file:line:column: field: message`, without the position when there is none (a
+    /// table named on the command line that does not exist, an unreadable file).
+    pub fn headline(&self) -> String {
+        if self.line == 0 {
+            format!("{}: {}: {}", self.file, self.field, self.message)
+        } else {
+            format!(
+                "{}:{}:{}: {}: {}",
+                self.file, self.line, self.column, self.field, self.message
+            )
+        }
+    }
+
     /// A located error; `span` is a byte range in `text` (line and column are derived).
     pub fn at(
         file: &str,

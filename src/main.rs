@@ -65,7 +65,7 @@ struct CasesArgs {
     /// model's own choice.
     #[arg(long)]
     combos: Option<String>,
-    /// Override a table parameter, e.g. --set l_factor=0.5 (repeatable).
+    /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
     #[arg(long = "set", value_name = "PARAM=VALUE")]
     sets: Vec<String>,
     #[arg(long, value_enum, default_value_t)]
@@ -88,7 +88,7 @@ struct CheckCli {
     /// model's own choice.
     #[arg(long)]
     combos: Option<String>,
-    /// Override a table parameter, e.g. --set l_factor=0.5 (repeatable).
+    /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
     #[arg(long = "set", value_name = "PARAM=VALUE")]
     sets: Vec<String>,
     /// Second-order method: aisc-b1b2 (AISC 360-16 App. 8), aci-magnifier (ACI 318-19
@@ -132,10 +132,7 @@ fn main() -> ExitCode {
     let cli = Cli::parse();
     let result = run(cli).and_then(|(text, path)| match path {
         Some(p) => app::write_output(&p, &text),
-        None => {
-            print!("{text}");
-            Ok(())
-        }
+        None => app::write_stdout(&text),
     });
     match result {
         Ok(()) => ExitCode::SUCCESS,

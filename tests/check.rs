@@ -585,7 +585,6 @@ fn notional_loads_of_a_gravity_only_case() {
 }
 
 #[test]
-#[ignore = "notional load carries α twice on an allowable-stress basis (src/check/mod.rs)"]
 fn notional_loads_on_an_allowable_stress_basis() {
     // AISC 360-16 C2-1 and §C2.1 (notes §6, §9): on an ASD basis the analysis runs at
     // α = 1.6 × the ASD loads, and the notional load at that level is Ni = 0.002·α·Yi

@@ -25,8 +25,24 @@ impl Rng {
 }
 
 const REPLACEMENTS: &[&str] = &[
-    "0", "-1", "1e308", "-1e-300", "nan", "inf", "\"\"", "\"0 m\"", "\"1 kN\"", "\"-5 kN/m\"",
-    "[]", "{}", "\"N1.1\"", "\"*\"", "true", "\"both\"", "\"fixed\"", "3",
+    "0",
+    "-1",
+    "1e308",
+    "-1e-300",
+    "nan",
+    "inf",
+    "\"\"",
+    "\"0 m\"",
+    "\"1 kN\"",
+    "\"-5 kN/m\"",
+    "[]",
+    "{}",
+    "\"N1.1\"",
+    "\"*\"",
+    "true",
+    "\"both\"",
+    "\"fixed\"",
+    "3",
 ];
 
 /// One mutation of `text`: replace a value, delete a line, duplicate a line or swap two.
@@ -80,7 +96,10 @@ fn mutated_examples_never_panic() {
                     for case in &model.load_cases {
                         let _ = solve(&file, &case.id, OutputFormat::Json);
                     }
-                    let args = CheckArgs { sets: vec!["s_ds=0.5".into()], ..Default::default() };
+                    let args = CheckArgs {
+                        sets: vec!["s_ds=0.5".into()],
+                        ..Default::default()
+                    };
                     let _ = check(&file, &args);
                     true
                 } else {

@@ -51,10 +51,15 @@ pub fn b2(alpha: f64, p_story: f64, p_e_story: f64) -> Option<f64> {
     (d > 0.0).then(|| (1.0 / d).max(1.0))
 }
 
-/// Coefficient of the notional load, C2-1: `Ni = 0.002·α·Yi`; with τb = 1.0 taken for all
-/// members, §C2.3(c) adds `0.001·α·Yi` [C: reference notes §9].
-pub fn notional_coefficient(alpha: f64, tau_b_one: bool) -> f64 {
-    (0.002 + if tau_b_one { 0.001 } else { 0.0 }) * alpha
+/// Coefficient of the notional load at the level of the case's own loads.
+///
+/// C2-1 gives `Ni = 0.002·α·Yi` for an analysis run at α × the combination's loads (1.6 ×
+/// an ASD combination, §C2.1); per unit of the case's own loads that is `0.002·Yi`
+/// (`base`), and the analysis then scales loads and notional loads together by α. With
+/// τb = 1.0 taken for all members, §C2.3(c) adds `0.001·α·Yi` likewise
+/// [C: reference notes §9].
+pub fn notional_coefficient(base: f64, tau_b_one: bool) -> f64 {
+    base + if tau_b_one { 0.001 } else { 0.0 }
 }
 
 /// Classification threshold on B2 (or Δ2nd/Δ1st): at or below 1.1 the sway effects are

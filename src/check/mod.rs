@@ -203,7 +203,6 @@ impl Context<'_> {
         let variants = notional_variants(
             model,
             self.stories,
-            fc.basis,
             lateral,
             v_total,
             &gravity,
@@ -334,6 +333,9 @@ impl Context<'_> {
 
 /// The notional-load variants of one case: `(id suffix, force per story level)`.
 ///
+/// Forces are given at the level of the case's own loads; the direct analysis scales them
+/// by α with the loads.
+///
 /// * AISC 360-16 §C2.2b: `Ni = 0.002·α·Yi` (+0.001·α·Yi with τb = 1, §C2.3(c)); in
 ///   gravity-only cases in both directions; in cases with lateral load only when
 ///   Δ2nd/Δ1st (estimated by B2) exceeds 1.7, in the direction of the lateral load [C1].
@@ -345,7 +347,6 @@ impl Context<'_> {
 fn notional_variants(
     model: &Model,
     stories: &[Story],
-    basis: Basis,
     lateral: f64,
     v_total: f64,
     gravity: &story::Gravity,
@@ -353,7 +354,6 @@ fn notional_variants(
     estimate: &[StoryFigures],
 ) -> Vec<(&'static str, Vec<f64>)> {
     let none = vec![("", vec![0.0; stories.len()])];
-    let alpha = aisc::alpha(basis);
     let kind = match model.analysis.notional {
         NotionalLoads::Auto => match model.analysis.method {
             SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => {
@@ -369,7 +369,7 @@ fn notional_variants(
         NotionalLoads::None | NotionalLoads::Auto => return none,
         NotionalLoads::Aisc { coefficient } => {
             let tau_b_one = model.analysis.stiffness == StiffnessPreset::AiscDirect;
-            let c = (coefficient + if tau_b_one { 0.001 } else { 0.0 }) * alpha;
+            let c = aisc::notional_coefficient(coefficient, tau_b_one);
             let ratio = estimate.iter().filter_map(|f| f.b2).fold(1.0, f64::max);
             if !gravity_only && ratio <= aisc::NOTIONAL_GRAVITY_ONLY_LIMIT {
                 return none;
