@@ -7,7 +7,8 @@ use std::path::{Path, PathBuf};
 
 use crate::check::CheckError;
 use crate::combos::{
-    ComboTable, Expansion, cases_report, expand, load_table, render_table, render_table_list,
+    ComboTable, cases_report, expand, expansion_summary, load_table, render_table,
+    render_table_list,
 };
 use crate::diag::FileError;
 use crate::input::load_model;
@@ -190,39 +191,9 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     };
     let body = crate::report::check::render(&model, &report, &title, args.format);
     Ok(match args.format {
-        OutputFormat::Table => expansion_notes(&model, &expansion) + &body,
+        OutputFormat::Table => expansion_summary(&expansion) + "\n" + &body,
         _ => body,
     })
-}
-
-/// Lines about the expansion that a reader of `check` must see: merged and skipped
-/// combinations and load cases the table cannot place.
-fn expansion_notes(model: &Model, e: &Expansion) -> String {
-    let mut out = format!("{} factored cases", e.cases.len());
-    if !e.merged.is_empty() {
-        out.push_str(&format!(
-            ", {} merged as identical",
-            e.merged.iter().map(|m| m.dropped.len()).sum::<usize>()
-        ));
-    }
-    out.push('\n');
-    for s in &e.skipped {
-        out.push_str(&format!(
-            "not generated: {} (the model has no load case for {})\n",
-            s.combination,
-            s.missing.join(", ")
-        ));
-    }
-    for w in &e.warnings {
-        out.push_str(&format!(
-            "warning: the table places no {} loads; left out of every case: {}\n",
-            w.category,
-            w.cases.join(", ")
-        ));
-    }
-    let _ = model;
-    out.push('\n');
-    out
 }
 
 /// Write `text` to `path` whole or not at all: written to a temporary file beside it,

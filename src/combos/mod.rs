@@ -32,7 +32,8 @@ use crate::model::LoadCase;
 pub use expand::{Expansion, FactoredCase, Merged, Skipped, Unplaced, expand};
 pub use expr::Expr;
 pub use render::{
-    OutputFormat, cases_report, render_expansion, render_table, render_table_list, term_text,
+    OutputFormat, cases_report, expansion_summary, render_expansion, render_table,
+    render_table_list, term_text,
 };
 pub use table::parse_table;
 

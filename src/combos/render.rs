@@ -318,38 +318,45 @@ pub fn render_expansion(
             let mut s = header(table);
             s.push('\n');
             s.push_str(&table_of(&["id", "expression", "basis", "note"], rows));
-            s.push_str(&format!("\n\n{} factored cases", exp.cases.len()));
-            let nm: usize = exp.merged.iter().map(|m| m.dropped.len()).sum();
-            s.push_str(&format!(
-                ", {nm} merged as identical, {} skipped\n",
-                exp.skipped.len()
-            ));
-            for m in &exp.merged {
-                s.push_str(&format!(
-                    "merged: {} kept; identical: {}\n",
-                    m.kept,
-                    m.dropped.join(", ")
-                ));
-            }
-            for k in &exp.skipped {
-                s.push_str(&format!(
-                    "skipped: {} (the model has no load case for {})\n",
-                    k.combination,
-                    k.missing.join(", ")
-                ));
-            }
-            for w in &exp.warnings {
-                s.push_str(&format!(
-                    "warning: the table has no action for category {}; load cases left out: {}\n",
-                    w.category,
-                    w.cases.join(", ")
-                ));
-            }
+            s.push_str("\n\n");
+            s.push_str(&expansion_summary(exp));
             s.push_str(CAUTION);
             s.push('\n');
             s
         }
     }
+}
+
+/// Counts of an expansion and the lines a reader must see: merged, skipped and unplaced.
+pub fn expansion_summary(exp: &Expansion) -> String {
+    let nm: usize = exp.merged.iter().map(|m| m.dropped.len()).sum();
+    let mut s = format!(
+        "{} factored cases, {nm} merged as identical, {} skipped\n",
+        exp.cases.len(),
+        exp.skipped.len()
+    );
+    for m in &exp.merged {
+        s.push_str(&format!(
+            "merged: {} kept; identical: {}\n",
+            m.kept,
+            m.dropped.join(", ")
+        ));
+    }
+    for k in &exp.skipped {
+        s.push_str(&format!(
+            "skipped: {} (the model has no load case for {})\n",
+            k.combination,
+            k.missing.join(", ")
+        ));
+    }
+    for w in &exp.warnings {
+        s.push_str(&format!(
+            "warning: the table has no action for category {}; load cases left out: {}\n",
+            w.category,
+            w.cases.join(", ")
+        ));
+    }
+    s
 }
 
 fn csv_field(s: &str) -> String {
