@@ -4,7 +4,7 @@
 use serde::Serialize;
 
 use super::{CAUTION, OutputFormat, num, opt, table_of};
-use crate::check::{CaseCheck, CheckReport};
+use crate::check::{CaseCheck, CheckReport, MemberCheck};
 use crate::envelope::{GoverningMoment, governing};
 use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
@@ -193,14 +193,8 @@ pub fn governing_text(model: &Model, report: &CheckReport) -> String {
 /// The text block of one case.
 pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     let u = &model.units;
-    let (lf, lm, ld, lu) = (
-        u.label(Dimension::Force),
-        u.label(Dimension::Moment),
-        u.label(Dimension::Displacement),
-        u.label(Dimension::Length),
-    );
+    let (lf, ld) = (u.label(Dimension::Force), u.label(Dimension::Displacement));
     let f = |v: f64| num(u.from_si(v, Dimension::Force), 1);
-    let m = |v: f64| num(u.from_si(v, Dimension::Moment), 1);
     let mut out = format!("Case {}: {}  [{}]\n", c.id, c.expression, c.basis);
     let buckling = c
         .alpha_cr
@@ -276,45 +270,14 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
         .members
         .iter()
         .map(|mc| {
-            vec![
-                mc.member.clone(),
-                f(mc.axial),
-                f(mc.shear),
-                opt(mc.non_sway_amplifier, 3),
-                opt(mc.sway_amplifier, 3),
-                m(mc.ends[0].no_sway),
-                m(mc.ends[0].sway),
-                m(mc.ends[0].design),
-                m(mc.ends[1].no_sway),
-                m(mc.ends[1].sway),
-                m(mc.ends[1].design),
-                num(u.from_si(mc.span.x, Dimension::Length), 2),
-                m(mc.span.design),
-                mc.governs.to_string(),
-                mc.notes.join("; "),
-            ]
+            let mut row = member_row(model, mc, 1);
+            row.push(mc.notes.join("; "));
+            row
         })
         .collect();
-    out.push_str(&indent(&table_of(
-        &[
-            "member".to_string(),
-            format!("N ({lf})"),
-            format!("V ({lf})"),
-            "non-sway amp".into(),
-            "sway amp".into(),
-            format!("Mns i ({lm})"),
-            format!("Ms i ({lm})"),
-            format!("M i ({lm})"),
-            format!("Mns j ({lm})"),
-            format!("Ms j ({lm})"),
-            format!("M j ({lm})"),
-            format!("x span ({lu})"),
-            format!("M span ({lm})"),
-            "larger part".into(),
-            "notes".into(),
-        ],
-        rows,
-    )));
+    let mut header = member_header(model);
+    header.push("notes".into());
+    out.push_str(&indent(&table_of(&header, rows)));
     out.push('\n');
     out
 }
@@ -324,35 +287,67 @@ fn indent(s: &str) -> String {
 }
 
 fn csv(model: &Model, report: &CheckReport) -> String {
-    let u = &model.units;
-    let (lf, lm) = (u.label(Dimension::Force), u.label(Dimension::Moment));
-    let mut out = format!(
-        "case,member,axial ({lf}),shear ({lf}),non_sway_amp,sway_amp,mns_i ({lm}),ms_i ({lm}),m_i ({lm}),mns_j ({lm}),ms_j ({lm}),m_j ({lm}),m_span ({lm}),larger_part,stable\n"
-    );
-    let f = |v: f64| num(u.from_si(v, Dimension::Force), 3);
-    let m = |v: f64| num(u.from_si(v, Dimension::Moment), 3);
+    let mut header = vec!["case".to_string()];
+    header.extend(member_header(model));
+    header.push("stable".into());
+    let mut out = header.join(",") + "\n";
     for c in &report.cases {
         for mc in &c.members {
-            let row = [
-                c.id.clone(),
-                mc.member.clone(),
-                f(mc.axial),
-                f(mc.shear),
-                opt(mc.non_sway_amplifier, 4),
-                opt(mc.sway_amplifier, 4),
-                m(mc.ends[0].no_sway),
-                m(mc.ends[0].sway),
-                m(mc.ends[0].design),
-                m(mc.ends[1].no_sway),
-                m(mc.ends[1].sway),
-                m(mc.ends[1].design),
-                m(mc.span.design),
-                mc.governs.to_string(),
-                (c.stable && mc.stable).to_string(),
-            ];
+            let mut row = vec![c.id.clone()];
+            row.extend(member_row(model, mc, 3));
+            row.push((c.stable && mc.stable).to_string());
             out.push_str(&row.join(","));
             out.push('\n');
         }
     }
     out
+}
+
+/// Column heads of the per-member results, in the model's units.
+fn member_header(model: &Model) -> Vec<String> {
+    let u = &model.units;
+    let (lf, lm, lu) = (
+        u.label(Dimension::Force),
+        u.label(Dimension::Moment),
+        u.label(Dimension::Length),
+    );
+    vec![
+        "member".to_string(),
+        format!("N ({lf})"),
+        format!("V ({lf})"),
+        "non-sway amp".into(),
+        "sway amp".into(),
+        format!("Mns i ({lm})"),
+        format!("Ms i ({lm})"),
+        format!("M i ({lm})"),
+        format!("Mns j ({lm})"),
+        format!("Ms j ({lm})"),
+        format!("M j ({lm})"),
+        format!("x span ({lu})"),
+        format!("M span ({lm})"),
+        "larger part".into(),
+    ]
+}
+
+/// One member's results under [`member_header`], forces and moments to `decimals`.
+fn member_row(model: &Model, mc: &MemberCheck, decimals: usize) -> Vec<String> {
+    let u = &model.units;
+    let f = |v: f64| num(u.from_si(v, Dimension::Force), decimals);
+    let m = |v: f64| num(u.from_si(v, Dimension::Moment), decimals);
+    vec![
+        mc.member.clone(),
+        f(mc.axial),
+        f(mc.shear),
+        opt(mc.non_sway_amplifier, 3),
+        opt(mc.sway_amplifier, 3),
+        m(mc.ends[0].no_sway),
+        m(mc.ends[0].sway),
+        m(mc.ends[0].design),
+        m(mc.ends[1].no_sway),
+        m(mc.ends[1].sway),
+        m(mc.ends[1].design),
+        num(u.from_si(mc.span.x, Dimension::Length), 2),
+        m(mc.span.design),
+        mc.governs.to_string(),
+    ]
 }
