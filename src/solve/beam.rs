@@ -285,22 +285,7 @@ fn transverse_moment(x: f64, side: Side, loads: &[LocalLoad], n: u32) -> f64 {
     loads
         .iter()
         .map(|load| match *load {
-            LocalLoad::Linear {
-                a,
-                b,
-                qx_a,
-                qy_a,
-                qx_b,
-                qy_b,
-            } => {
-                let s = Span::new(a, b, qx_a, qy_a, qx_b, qy_b);
-                let hi = s.hi.min(x);
-                if hi <= s.lo {
-                    0.0
-                } else {
-                    gauss3(s.lo, hi, |t| s.at(t).1 * bracket(x, t, n))
-                }
-            }
+            LocalLoad::Linear { .. } => integrate_left(load, x, |q, t| q.1 * bracket(x, t, n)),
             LocalLoad::Point { a, py, .. } if acts_left_of(a, x, side) => py * bracket(x, a, n),
             LocalLoad::Moment { a, m } if n >= 1 && acts_left_of(a, x, side) => {
                 -m * bracket(x, a, n - 1)
@@ -310,27 +295,35 @@ fn transverse_moment(x: f64, side: Side, loads: &[LocalLoad], n: u32) -> f64 {
         .sum()
 }
 
+/// `∫ g((qx, qy)(t), t) dt` over the part of a distributed load left of `x` (exact for
+/// polynomial integrands up to degree 5); 0 for concentrated loads.
+fn integrate_left(load: &LocalLoad, x: f64, g: impl Fn((f64, f64), f64) -> f64) -> f64 {
+    let LocalLoad::Linear {
+        a,
+        b,
+        qx_a,
+        qy_a,
+        qx_b,
+        qy_b,
+    } = *load
+    else {
+        return 0.0;
+    };
+    let s = Span::new(a, b, qx_a, qy_a, qx_b, qy_b);
+    let hi = s.hi.min(x);
+    if hi <= s.lo {
+        0.0
+    } else {
+        gauss3(s.lo, hi, |t| g(s.at(t), t))
+    }
+}
+
 /// Σ of the axial loads on `0..x` (`Σ px + ∫ qx dt`).
 fn axial_resultant(x: f64, side: Side, loads: &[LocalLoad]) -> f64 {
     loads
         .iter()
         .map(|load| match *load {
-            LocalLoad::Linear {
-                a,
-                b,
-                qx_a,
-                qy_a,
-                qx_b,
-                qy_b,
-            } => {
-                let s = Span::new(a, b, qx_a, qy_a, qx_b, qy_b);
-                let hi = s.hi.min(x);
-                if hi <= s.lo {
-                    0.0
-                } else {
-                    gauss3(s.lo, hi, |t| s.at(t).0)
-                }
-            }
+            LocalLoad::Linear { .. } => integrate_left(load, x, |q, _| q.0),
             LocalLoad::Point { a, px, .. } if acts_left_of(a, x, side) => px,
             _ => 0.0,
         })
