@@ -18,7 +18,7 @@ struct Doc<'a> {
     displacements: Vec<NodeDisp<'a>>,
     reactions: Vec<NodeReaction<'a>>,
     members: Vec<MemberEnds<'a>>,
-    residual: Residual,
+    residual: Residual<'a>,
     caution: &'a str,
 }
 
@@ -98,12 +98,14 @@ struct StationDoc {
 pub const STATIONS: usize = 11;
 
 #[derive(Debug, Serialize)]
-struct Residual {
+struct Residual<'a> {
     force_x: f64,
     force_y: f64,
     moment: f64,
     max_nodal: f64,
     relative: f64,
+    /// Out-of-balance at each node: applied load + reaction − member end actions.
+    nodes: Vec<NodeReaction<'a>>,
 }
 
 /// Nodes with any support restraint or spring.
@@ -208,6 +210,17 @@ fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
             moment: s.residual.global[2],
             max_nodal: s.residual.max_nodal,
             relative: s.residual.relative(),
+            nodes: model
+                .nodes
+                .iter()
+                .zip(&s.residual.nodal)
+                .map(|(n, r)| NodeReaction {
+                    node: &n.id,
+                    fx: r[0],
+                    fy: r[1],
+                    mz: r[2],
+                })
+                .collect(),
         },
         caution: CAUTION,
     };

@@ -39,7 +39,10 @@ impl Solution {
             displacements: r.displacements[..nm].to_vec(),
             reactions: r.reactions[..nm].to_vec(),
             end_forces,
-            residual: r.residual,
+            residual: Residual {
+                nodal: r.residual.nodal[..nm].to_vec(),
+                ..r.residual.clone()
+            },
         }
     }
 
@@ -66,6 +69,10 @@ impl Solution {
         }
         let r = &mut self.residual;
         (0..3).for_each(|k| r.global[k] += f.abs() * other.residual.global[k].abs());
+        r.nodal.resize(other.residual.nodal.len(), [0.0; 3]);
+        for (a, b) in r.nodal.iter_mut().zip(&other.residual.nodal) {
+            (0..3).for_each(|k| a[k] += f.abs() * b[k].abs());
+        }
         r.max_nodal += f.abs() * other.residual.max_nodal;
         r.applied += f.abs() * other.residual.applied;
     }

@@ -102,10 +102,13 @@ fn element_resultant(length: f64, loads: &[LocalLoad]) -> (f64, f64, f64) {
 }
 
 /// Equilibrium check of one solution.
-#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
+#[derive(Debug, Clone, PartialEq, Default, Serialize)]
 pub struct Residual {
     /// Applied loads plus reactions, `[ΣFx (N), ΣFy (N), ΣMz about the origin (N·m)]`.
     pub global: [f64; 3],
+    /// Out-of-balance `[Fx (N), Fy (N), Mz (N·m)]` at each node: applied load plus
+    /// reaction less the member end actions on it.
+    pub nodal: Vec<[f64; 3]>,
     /// Largest out-of-balance force at any free node, N (moments divided by a unit length).
     pub max_nodal: f64,
     /// Largest applied load component, N, for relative comparison.
@@ -207,7 +210,7 @@ pub fn respond(
     }
     // Node balance: applied + reaction = Σ element end actions (global).
     let mut reactions = vec![[0.0; 3]; mesh.nodes.len()];
-    let mut max_nodal: f64 = 0.0;
+    let mut nodal = vec![[0.0; 3]; mesh.nodes.len()];
     for (node, d) in system.dofs.iter().enumerate() {
         for k in 0..3 {
             let out_of_balance = on_nodes[node][k] - loads.nodal[node][k];
@@ -215,9 +218,9 @@ pub fn respond(
                 Dof::Held => reactions[node][k] = out_of_balance,
                 Dof::Spring(q, ks) => {
                     reactions[node][k] = -ks * u[q];
-                    max_nodal = max_nodal.max((out_of_balance - reactions[node][k]).abs());
+                    nodal[node][k] = reactions[node][k] - out_of_balance;
                 }
-                Dof::Free(_) | Dof::Idle => max_nodal = max_nodal.max(out_of_balance.abs()),
+                Dof::Free(_) | Dof::Idle => nodal[node][k] = -out_of_balance,
             }
         }
     }
@@ -244,7 +247,8 @@ pub fn respond(
         reactions,
         residual: Residual {
             global,
-            max_nodal,
+            max_nodal: nodal.iter().flatten().fold(0.0, |m, v| m.max(v.abs())),
+            nodal,
             applied,
         },
     })
