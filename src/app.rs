@@ -184,11 +184,10 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     if let Some(prefix) = &args.case {
         report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
     }
-    let title = if table.standard.contains(table.edition.as_str()) {
-        format!("{} ({})", table.title, table.standard)
-    } else {
-        format!("{} ({}, {})", table.title, table.standard, table.edition)
-    };
+    let title = format!(
+        "{}; {}; edition {}",
+        table.title, table.standard, table.edition
+    );
     let body = crate::report::check::render(&model, &report, &title, args.format);
     Ok(match args.format {
         OutputFormat::Table => expansion_summary(&expansion) + "\n" + &body,

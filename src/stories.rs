@@ -137,20 +137,28 @@ pub fn stories(model: &Model) -> Result<Vec<Story>, StoryError> {
 }
 
 /// The stories a member belongs to for sway amplification: those whose height range it
-/// overlaps, or, for a member lying at a level, the stories below and above that level.
+/// overlaps; for a member that overlaps none (a beam at a level, a rafter above the top
+/// level), the stories that meet at the level of its lower end (below it, and above it
+/// unless that level is the base).
 pub fn member_stories(model: &Model, stories: &[Story], m: usize) -> Vec<usize> {
     let mem = &model.members[m];
     let (a, b) = (model.nodes[mem.i].y, model.nodes[mem.j].y);
     let (lo, hi) = (a.min(b), a.max(b));
+    let overlapping: Vec<usize> = stories
+        .iter()
+        .enumerate()
+        .filter(|(_, s)| hi.min(s.top) - lo.max(s.bottom) > LEVEL_TOLERANCE)
+        .map(|(k, _)| k)
+        .collect();
+    if !overlapping.is_empty() {
+        return overlapping;
+    }
     stories
         .iter()
         .enumerate()
         .filter(|(_, s)| {
-            let overlap = hi.min(s.top) - lo.max(s.bottom);
-            overlap > LEVEL_TOLERANCE
-                || (hi - lo < LEVEL_TOLERANCE
-                    && ((lo - s.top).abs() < LEVEL_TOLERANCE
-                        || (lo - s.bottom).abs() < LEVEL_TOLERANCE && s.number > 1))
+            (lo - s.top).abs() < LEVEL_TOLERANCE
+                || ((lo - s.bottom).abs() < LEVEL_TOLERANCE && s.number > 1)
         })
         .map(|(k, _)| k)
         .collect()
