@@ -52,6 +52,10 @@ fn gable_frame_has_one_story_topped_by_the_eaves() {
     assert!(!s[0].top_nodes.contains(&ridge));
     assert_eq!(s[0].top_nodes.len(), 2);
     assert_eq!(s[0].columns.len(), 2);
+    // The rafters stand on the eaves level: they take story 1's sway amplifier.
+    for id in ["rafter-L", "rafter-R"] {
+        assert_eq!(member_stories(&model, &s, model.member_index(id).unwrap()), vec![0]);
+    }
 }
 
 #[test]
