@@ -54,7 +54,10 @@ fn gable_frame_has_one_story_topped_by_the_eaves() {
     assert_eq!(s[0].columns.len(), 2);
     // The rafters stand on the eaves level: they take story 1's sway amplifier.
     for id in ["rafter-L", "rafter-R"] {
-        assert_eq!(member_stories(&model, &s, model.member_index(id).unwrap()), vec![0]);
+        assert_eq!(
+            member_stories(&model, &s, model.member_index(id).unwrap()),
+            vec![0]
+        );
     }
 }
 

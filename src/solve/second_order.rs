@@ -16,11 +16,13 @@
 use serde::Serialize;
 
 use super::beam::{SpanExtremes, span_extremes};
+use super::element::transformation;
 use super::first_order::Solution;
 use super::linear::{MeshLoads, Response, respond};
 use super::mesh::{MemberStiffness, Mesh};
-use super::system::{Restraints, System, SystemError};
+use super::system::{Restraints, System, SystemError, element_equations, element_matrices};
 use crate::model::Model;
+use nalgebra::{Matrix6, Vector6};
 
 /// Largest number of P-Δ iterations before a case is declared not converged.
 pub const MAX_ITERATIONS: usize = 50;
@@ -137,11 +139,13 @@ impl SecondOrderModel {
     /// element is in compression or the frame does not buckle below [`ALPHA_CR_CEILING`]
     /// times the load.
     ///
-    /// α_cr is the smallest λ at which `K + λ·K_G(N)` stops being positive definite, found
-    /// by bisection on the factorization (a failed Cholesky pivot marks λ ≥ α_cr, Sylvester's
-    /// law of inertia). Releases are condensed from `K + λ·K_G` at each λ, so hinged members
-    /// are treated exactly rather than by a linearised geometric stiffness. The shape is the
-    /// near-null vector of `K + 0.999·α_cr·K_G` by inverse iteration.
+    /// α_cr is the smallest λ at which `K + λ·K_G(N)` stops being positive definite
+    /// (Sylvester's law of inertia: a failed Cholesky pivot marks λ ≥ α_cr). It is first
+    /// estimated by shifted inverse iteration ([`Self::estimate_alpha_cr`]) and then
+    /// confirmed by factorizing just below and just above the estimate; when that fails
+    /// (releases make the condensed problem non-linear in λ) the bracket is searched and
+    /// bisected. Releases are condensed from `K + λ·K_G` at each λ tried, so hinged members
+    /// are treated exactly rather than by a linearised geometric stiffness.
     pub fn critical_factor(
         &self,
         model: &Model,
@@ -160,8 +164,26 @@ impl SecondOrderModel {
                 Err(e) => Err(e),
             }
         };
-        // Bracket α_cr in (lo, hi].
-        let (mut lo, mut hi) = (0.0, 1.0);
+        let estimate = self.estimate_alpha_cr(&axial, &stable)?;
+        let tol = ALPHA_CR_TOLERANCE;
+        if let Some((est, shape)) = &estimate {
+            let (below, above) = (est * (1.0 - tol), est * (1.0 + tol));
+            if stable(below)?.is_some() && stable(above)?.is_none() {
+                return Ok(Some(Buckling {
+                    alpha_cr: *est,
+                    shape: shape.clone(),
+                }));
+            }
+        }
+        // Search for a bracket (lo stable, hi not), from the estimate if there is one.
+        let (mut lo, mut hi) = match &estimate {
+            Some((est, _)) => (est / 1.25, est * 1.25),
+            None => (0.0, 1.0),
+        };
+        while lo > 0.0 && stable(lo)?.is_none() {
+            hi = lo;
+            lo = if lo < 1e-9 { 0.0 } else { lo / 1.25 };
+        }
         while stable(hi)?.is_some() {
             lo = hi;
             hi *= 4.0;
@@ -169,7 +191,7 @@ impl SecondOrderModel {
                 return Ok(None);
             }
         }
-        while hi - lo > 1e-7 * hi {
+        while hi - lo > tol * hi {
             let mid = 0.5 * (lo + hi);
             if stable(mid)?.is_some() {
                 lo = mid
@@ -185,18 +207,112 @@ impl SecondOrderModel {
         Ok(Some(Buckling { alpha_cr, shape }))
     }
 
-    /// Inverse iteration on a nearly singular system: its near-null vector, per model node.
-    fn mode_shape(&self, system: &System) -> Vec<[f64; 3]> {
-        let n = system.n;
-        let mut x: Vec<f64> = (0..n).map(|k| 1.0 + (k % 7) as f64 * 0.01).collect();
-        for _ in 0..8 {
-            x = system.solve(&x);
-            let norm = x.iter().map(|v| v * v).sum::<f64>().sqrt();
+    /// Estimate α_cr and its mode by inverse iteration on the pencil `K·φ = λ·G·φ`
+    /// (G = −K_G, the geometric stiffness of the element axial forces at λ = 1).
+    ///
+    /// A few steps with the factored elastic `K` give a rough λ; then the iteration is
+    /// shifted to σ = 0.95·λ (`K − σ·G` factorized once, positive definite below α_cr), so
+    /// it converges at the rate (α_cr − σ)/(λ₂ − σ); the Rayleigh quotient
+    /// `λ = xᵀKx / xᵀGx` gives the estimate (Bathe, *Finite Element Procedures*, 1996,
+    /// §11.2, from memory). Released element ends enter through their condensed matrices
+    /// at λ = 1, so the caller confirms the estimate by factorization. `None` when the
+    /// iteration finds no positive λ.
+    fn estimate_alpha_cr(
+        &self,
+        axial: &[f64],
+        stable: &dyn Fn(f64) -> Result<Option<System>, SystemError>,
+    ) -> Result<Option<(f64, Vec<[f64; 3]>)>, SystemError> {
+        let sys = &self.elastic;
+        let n = sys.n;
+        // Element geometric matrices in global axes, with their equations.
+        let parts: Vec<([Option<usize>; 6], Matrix6<f64>)> = self
+            .mesh
+            .elements
+            .iter()
+            .zip(axial)
+            .map(|(e, &na)| {
+                let zero = Vector6::zeros();
+                let (with_g, _) = element_matrices(e, Some(na), &zero);
+                let (without, _) = element_matrices(e, None, &zero);
+                let t = transformation(e.c, e.s);
+                (
+                    element_equations(&sys.dofs, e),
+                    t.transpose() * (with_g - without) * t,
+                )
+            })
+            .collect();
+        // y = G·x = −K_G·x
+        let g = |x: &[f64]| -> Vec<f64> {
+            let mut y = vec![0.0; n];
+            for (eqs, kg) in &parts {
+                for (r, er) in eqs.iter().enumerate() {
+                    let Some(er) = *er else { continue };
+                    let mut acc = 0.0;
+                    for (c, ec) in eqs.iter().enumerate() {
+                        if let Some(ec) = *ec {
+                            acc += kg[(r, c)] * x[ec];
+                        }
+                    }
+                    y[er] -= acc;
+                }
+            }
+            y
+        };
+        let dot = |a: &[f64], b: &[f64]| a.iter().zip(b).map(|(p, q)| p * q).sum::<f64>();
+        let rayleigh = |x: &[f64]| dot(x, &sys.matrix.mul_vec(x)) / dot(x, &g(x));
+        let normalise = |x: &mut Vec<f64>| -> bool {
+            let norm = x.iter().fold(0.0f64, |m, v| m.max(v.abs()));
             if norm == 0.0 || !norm.is_finite() {
-                break;
+                return false;
             }
             x.iter_mut().for_each(|v| *v /= norm);
+            true
+        };
+        // Rough estimate with K alone.
+        let mut x: Vec<f64> = (0..n).map(|k| 1.0 + (k % 5) as f64 * 0.1).collect();
+        for _ in 0..8 {
+            x = sys.solve(&g(&x));
+            if !normalise(&mut x) {
+                return Ok(None);
+            }
         }
+        let rough = rayleigh(&x);
+        if !(rough > 0.0 && rough.is_finite()) {
+            return Ok(None);
+        }
+        // Shift below it, lowering the shift until K − σ·G is positive definite.
+        let mut sigma = 0.95 * rough;
+        let shifted = loop {
+            if let Some(s) = stable(sigma)? {
+                break s;
+            }
+            sigma /= 1.25;
+            if sigma < 1e-6 * rough {
+                return Ok(None);
+            }
+        };
+        let mut last = f64::NAN;
+        for _ in 0..50 {
+            x = shifted.solve(&g(&x));
+            if !normalise(&mut x) {
+                return Ok(None);
+            }
+            let lambda = rayleigh(&x);
+            if (lambda - last).abs() <= 1e-12 * lambda.abs() {
+                break;
+            }
+            last = lambda;
+        }
+        let lambda = rayleigh(&x);
+        if !(lambda > 0.0 && lambda.is_finite()) {
+            return Ok(None);
+        }
+        Ok(Some((lambda, self.node_shape(&shifted, &x))))
+    }
+
+    /// Per model node `[ux, uy, θ]` of an equation vector, scaled so that the largest
+    /// translation is 1 (positive).
+    fn node_shape(&self, system: &System, x: &[f64]) -> Vec<[f64; 3]> {
         let mut shape: Vec<[f64; 3]> = system.dofs[..self.mesh.model_nodes]
             .iter()
             .map(|d| {
@@ -215,10 +331,29 @@ impl SecondOrderModel {
         }
         shape
     }
+
+    /// Inverse iteration on a nearly singular system: its near-null vector, per model node.
+    fn mode_shape(&self, system: &System) -> Vec<[f64; 3]> {
+        let n = system.n;
+        let mut x: Vec<f64> = (0..n).map(|k| 1.0 + (k % 7) as f64 * 0.01).collect();
+        for _ in 0..8 {
+            x = system.solve(&x);
+            let norm = x.iter().map(|v| v * v).sum::<f64>().sqrt();
+            if norm == 0.0 || !norm.is_finite() {
+                break;
+            }
+            x.iter_mut().for_each(|v| *v /= norm);
+        }
+        self.node_shape(system, &x)
+    }
 }
 
 /// Above this load factor a frame is reported as not buckling under the load.
 pub const ALPHA_CR_CEILING: f64 = 1.0e6;
+
+/// Relative precision of α_cr: the frame is stable at α_cr·(1 − tol) and not at
+/// α_cr·(1 + tol).
+pub const ALPHA_CR_TOLERANCE: f64 = 1e-6;
 
 /// Elastic buckling of one load: the critical load factor and the mode shape.
 #[derive(Debug, Clone, PartialEq, Serialize)]
