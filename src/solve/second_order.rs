@@ -177,7 +177,7 @@ impl SecondOrderModel {
         }
         // Search for a bracket (lo stable, hi not), from the estimate if there is one.
         let (mut lo, mut hi) = match &estimate {
-            Some((est, _)) => (est / 1.25, est * 1.25),
+            Some(b) => (b.alpha_cr / 1.25, b.alpha_cr * 1.25),
             None => (0.0, 1.0),
         };
         while lo > 0.0 && stable(lo)?.is_none() {
@@ -221,7 +221,7 @@ impl SecondOrderModel {
         &self,
         axial: &[f64],
         stable: &dyn Fn(f64) -> Result<Option<System>, SystemError>,
-    ) -> Result<Option<(f64, Vec<[f64; 3]>)>, SystemError> {
+    ) -> Result<Option<Buckling>, SystemError> {
         let sys = &self.elastic;
         let n = sys.n;
         // Element geometric matrices in global axes, with their equations.
@@ -307,7 +307,10 @@ impl SecondOrderModel {
         if !(lambda > 0.0 && lambda.is_finite()) {
             return Ok(None);
         }
-        Ok(Some((lambda, self.node_shape(&shifted, &x))))
+        Ok(Some(Buckling {
+            alpha_cr: lambda,
+            shape: self.node_shape(&shifted, &x),
+        }))
     }
 
     /// Per model node `[ux, uy, θ]` of an equation vector, scaled so that the largest
