@@ -166,13 +166,10 @@ impl SecondOrderModel {
         };
         let estimate = self.estimate_alpha_cr(&axial, &stable)?;
         let tol = ALPHA_CR_TOLERANCE;
-        if let Some((est, shape)) = &estimate {
-            let (below, above) = (est * (1.0 - tol), est * (1.0 + tol));
+        if let Some(b) = &estimate {
+            let (below, above) = (b.alpha_cr * (1.0 - tol), b.alpha_cr * (1.0 + tol));
             if stable(below)?.is_some() && stable(above)?.is_none() {
-                return Ok(Some(Buckling {
-                    alpha_cr: *est,
-                    shape: shape.clone(),
-                }));
+                return Ok(estimate);
             }
         }
         // Search for a bracket (lo stable, hi not), from the estimate if there is one.
