@@ -227,3 +227,20 @@ fn an_overloaded_frame_is_reported_unstable() {
         SecondOrderOutcome::Unstable { .. }
     ));
 }
+
+#[test]
+fn released_column_bases_buckle_like_pinned_supports() {
+    // Alignment chart, sway case, pinned bases, GB = 1: Pcr = 1.821 EIc/h² per column
+    // (reference notes §10.2 [C + X]). Here the bases are fixed supports and the columns
+    // carry moment releases at their feet instead, which must give the same frame; this
+    // exercises the condensed (released) elements in the buckling analysis.
+    let (h, ic) = (4.0, 1e-4);
+    let (mut f, [_, n1, n2, _, c1, _, c2]) = portal(h, h, ic, ic, true);
+    f.release(c1, true, false);
+    f.release(c2, true, false);
+    let c = f.case("P", ActionCategory::Dead);
+    f.nodal(c, n1, 0.0, -1000.0, 0.0);
+    f.nodal(c, n2, 0.0, -1000.0, 0.0);
+    let p_cr = 1.821 * 200e9 * ic / (h * h);
+    assert_relative_eq!(alpha_cr(&f, c) * 1000.0, p_cr, max_relative = BENCHMARK);
+}
