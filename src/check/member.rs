@@ -80,7 +80,7 @@ pub struct MemberInput<'a> {
     pub figures: &'a [StoryFigures],
     /// The direct second-order solution (scaled back to the case's loads) and its span
     /// extremes, when it converged.
-    pub direct: Option<&'a (Solution, Vec<SpanExtremes>)>,
+    pub direct: Option<&'a super::DirectSolution>,
     pub alpha: f64,
 }
 

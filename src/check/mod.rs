@@ -25,6 +25,7 @@ use serde::Serialize;
 
 use crate::combos::{Basis, FactoredCase};
 use crate::model::{Model, NotionalLoads, SecondOrderMethod, StiffnessPreset};
+use crate::solve::beam::SpanExtremes;
 use crate::solve::first_order::combined_member_loads;
 use crate::solve::linear::MeshLoads;
 use crate::solve::mesh::member_stiffness;
@@ -66,6 +67,10 @@ pub struct DirectStatus {
     pub iterations: usize,
     pub reason: Option<String>,
 }
+
+/// A converged direct second-order solution at the case's load level and the extreme
+/// moments along each member.
+pub type DirectSolution = (Solution, Vec<SpanExtremes>);
 
 /// Everything `check` found for one factored case (one notional-load direction).
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -177,19 +182,15 @@ impl Context<'_> {
         let gravity = story::story_gravity(model, self.stories, &total);
         let alpha = aisc::alpha(fc.basis);
 
-        // Applied loads of the case on the segmented mesh, for the direct and buckling
-        // analyses, and the net applied lateral load.
-        let mut loads = MeshLoads::zero(&self.second.mesh);
-        for &(k, f) in &fc.factors {
-            loads.add_case(model, &self.second.mesh, k, f);
-        }
+        // Applied loads of the case on the segmented mesh, for the buckling analysis, and
+        // the net applied lateral load.
+        let loads = self.case_loads(fc, 1.0);
         let lateral = loads.resultant(&self.second.mesh)[0];
         let v_total = gravity.sum_p.first().copied().unwrap_or(0.0).max(0.0);
 
         let buckling = self.second.critical_factor(model, &loads)?;
 
         // Notional loads: which directions, and how large at each level.
-        let base_sway: Solution = combined.sway.clone();
         let estimate = story::figures(
             model,
             self.stories,
@@ -197,7 +198,7 @@ impl Context<'_> {
             &gravity,
             &combined.holding,
             &[],
-            &base_sway,
+            &combined.sway,
             alpha,
         );
         let variants = notional_variants(
@@ -219,53 +220,7 @@ impl Context<'_> {
             } else {
                 combined.sway.clone()
             };
-            // Direct analysis at α × loads (AISC 360-16 §C2.1: ASD combinations are
-            // analysed at 1.6 × the ASD loads and the results divided by 1.6, from memory).
-            let mut dl = MeshLoads::zero(&self.second.mesh);
-            for &(k, f) in &fc.factors {
-                dl.add_case(model, &self.second.mesh, k, alpha * f);
-            }
-            for (s, &n) in self.stories.iter().zip(&notional) {
-                let nodes = &self.split.level_nodes[s.number - 1];
-                for &node in nodes {
-                    dl.add_nodal(node, [alpha * n / nodes.len() as f64, 0.0, 0.0]);
-                }
-            }
-            let direct = self.second.direct(model, &dl)?;
-            let (direct_status, direct_solution) = match direct {
-                SecondOrderOutcome::Converged {
-                    solution,
-                    span,
-                    iterations,
-                    ..
-                } => {
-                    let mut s = Solution::zero_like(&solution);
-                    s.add_scaled(1.0 / alpha, &solution);
-                    let span = span
-                        .into_iter()
-                        .map(|e| crate::solve::beam::SpanExtremes {
-                            max: (e.max.0, e.max.1 / alpha),
-                            min: (e.min.0, e.min.1 / alpha),
-                        })
-                        .collect::<Vec<_>>();
-                    (
-                        DirectStatus {
-                            converged: true,
-                            iterations,
-                            reason: None,
-                        },
-                        Some((s, span)),
-                    )
-                }
-                SecondOrderOutcome::Unstable { reason } => (
-                    DirectStatus {
-                        converged: false,
-                        iterations: 0,
-                        reason: Some(reason),
-                    },
-                    None,
-                ),
-            };
+            let (direct_status, direct_solution) = self.direct(fc, &notional, alpha)?;
             let figures = story::figures(
                 model,
                 self.stories,
@@ -328,6 +283,66 @@ impl Context<'_> {
             });
         }
         Ok(out)
+    }
+}
+
+impl Context<'_> {
+    /// Loads of factored case `fc` times `scale` on the segmented mesh.
+    fn case_loads(&self, fc: &FactoredCase, scale: f64) -> MeshLoads {
+        let mut loads = MeshLoads::zero(&self.second.mesh);
+        for &(k, f) in &fc.factors {
+            loads.add_case(self.model, &self.second.mesh, k, scale * f);
+        }
+        loads
+    }
+
+    /// Direct second-order analysis of `fc` with `notional` forces at the story levels,
+    /// run at α × the loads and scaled back by 1/α (AISC 360-16 §C2.1: ASD combinations
+    /// are analysed at 1.6 × the ASD loads and the results divided by 1.6, from memory).
+    fn direct(
+        &self,
+        fc: &FactoredCase,
+        notional: &[f64],
+        alpha: f64,
+    ) -> Result<(DirectStatus, Option<DirectSolution>), CheckError> {
+        let mut loads = self.case_loads(fc, alpha);
+        for (nodes, &n) in self.split.level_nodes.iter().zip(notional) {
+            for &node in nodes {
+                loads.add_nodal(node, [alpha * n / nodes.len() as f64, 0.0, 0.0]);
+            }
+        }
+        Ok(match self.second.direct(self.model, &loads)? {
+            SecondOrderOutcome::Converged {
+                solution,
+                span,
+                iterations,
+                ..
+            } => {
+                let mut s = Solution::zero_like(&solution);
+                s.add_scaled(1.0 / alpha, &solution);
+                let span = span
+                    .into_iter()
+                    .map(|e| SpanExtremes {
+                        max: (e.max.0, e.max.1 / alpha),
+                        min: (e.min.0, e.min.1 / alpha),
+                    })
+                    .collect();
+                let status = DirectStatus {
+                    converged: true,
+                    iterations,
+                    reason: None,
+                };
+                (status, Some((s, span)))
+            }
+            SecondOrderOutcome::Unstable { reason } => {
+                let status = DirectStatus {
+                    converged: false,
+                    iterations: 0,
+                    reason: Some(reason),
+                };
+                (status, None)
+            }
+        })
     }
 }
 
