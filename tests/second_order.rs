@@ -103,6 +103,11 @@ fn aisc_benchmark_case_1_simply_supported_beam_column() {
         assert_relative_eq!(m_exact / (KIP * INCH), m_tab, max_relative = 1e-3);
         assert_relative_eq!(d_exact / INCH, d_tab, max_relative = 2e-3);
         let (_, span, mesh_u) = direct(&f, c);
+        eprintln!(
+            "case 1, P = {p_kips} kips: M {:.2} vs {:.2} kip-in",
+            span[m].max.1 / (KIP * INCH),
+            m_exact / (KIP * INCH)
+        );
         // Sagging maximum at midspan.
         assert_relative_eq!(span[m].max.1, m_exact, max_relative = BENCHMARK);
         let mid = mesh_u.iter().map(|d| d[1].abs()).fold(0.0, f64::max);
@@ -137,6 +142,13 @@ fn aisc_benchmark_case_2_cantilever_beam_column() {
         assert_relative_eq!(m_exact / (KIP * INCH), m_tab, max_relative = 1e-3);
         assert_relative_eq!(d_exact / INCH, d_tab, max_relative = 1e-3);
         let (s, _, _) = direct(&f, c);
+        eprintln!(
+            "case 2, P = {p_kips} kips: M {:.2} vs {:.2} kip-in, Δ {:.4} vs {:.4} in",
+            s.reactions[n0][2].abs() / (KIP * INCH),
+            m_exact / (KIP * INCH),
+            s.displacements[n1][0] / INCH,
+            d_exact / INCH
+        );
         assert_relative_eq!(s.reactions[n0][2].abs(), m_exact, max_relative = BENCHMARK);
         assert_relative_eq!(s.displacements[n1][0], d_exact, max_relative = BENCHMARK);
     }
