@@ -77,6 +77,21 @@ struct Span {
 }
 
 impl Span {
+    /// The span of a distributed load; `None` for a concentrated one.
+    fn of(load: &LocalLoad) -> Option<Span> {
+        match *load {
+            LocalLoad::Linear {
+                a,
+                b,
+                qx_a,
+                qy_a,
+                qx_b,
+                qy_b,
+            } => Some(Span::new(a, b, qx_a, qy_a, qx_b, qy_b)),
+            LocalLoad::Point { .. } | LocalLoad::Moment { .. } => None,
+        }
+    }
+
     /// A linear load from its fields, ordered so that `lo ≤ hi`.
     fn new(a: f64, b: f64, qx_a: f64, qy_a: f64, qx_b: f64, qy_b: f64) -> Span {
         if a <= b {
@@ -149,15 +164,8 @@ fn axial_shape(x: f64, length: f64) -> [f64; 2] {
 fn consistent_nodal_loads(length: f64, load: &LocalLoad) -> [f64; 6] {
     let mut f = [0.0; 6];
     match *load {
-        LocalLoad::Linear {
-            a,
-            b,
-            qx_a,
-            qy_a,
-            qx_b,
-            qy_b,
-        } => {
-            let s = Span::new(a, b, qx_a, qy_a, qx_b, qy_b);
+        LocalLoad::Linear { .. } => {
+            let Some(s) = Span::of(load) else { return f };
             if s.hi <= s.lo {
                 return f;
             }
@@ -298,18 +306,9 @@ fn transverse_moment(x: f64, side: Side, loads: &[LocalLoad], n: u32) -> f64 {
 /// `∫ g((qx, qy)(t), t) dt` over the part of a distributed load left of `x` (exact for
 /// polynomial integrands up to degree 5); 0 for concentrated loads.
 fn integrate_left(load: &LocalLoad, x: f64, g: impl Fn((f64, f64), f64) -> f64) -> f64 {
-    let LocalLoad::Linear {
-        a,
-        b,
-        qx_a,
-        qy_a,
-        qx_b,
-        qy_b,
-    } = *load
-    else {
+    let Some(s) = Span::of(load) else {
         return 0.0;
     };
-    let s = Span::new(a, b, qx_a, qy_a, qx_b, qy_b);
     let hi = s.hi.min(x);
     if hi <= s.lo {
         0.0
@@ -621,15 +620,8 @@ pub fn deflection_extremes(
 fn restrict_to(load: &LocalLoad, x0: f64, x1: f64, closed: bool) -> Option<LocalLoad> {
     let inside = |a: f64| x0 <= a && (a < x1 || (closed && a == x1));
     match *load {
-        LocalLoad::Linear {
-            a,
-            b,
-            qx_a,
-            qy_a,
-            qx_b,
-            qy_b,
-        } => {
-            let s = Span::new(a, b, qx_a, qy_a, qx_b, qy_b);
+        LocalLoad::Linear { .. } => {
+            let s = Span::of(load)?;
             let (lo, hi) = (s.lo.max(x0), s.hi.min(x1));
             if hi <= lo {
                 return None;

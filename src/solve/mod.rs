@@ -16,6 +16,8 @@ pub mod second_order;
 pub mod skyline;
 pub mod sway;
 pub mod system;
+#[cfg(test)]
+mod test_rng;
 
 pub use first_order::{FirstOrder, Solution, solve_case};
 pub use forces::{EndForces, InternalForces};

@@ -227,31 +227,7 @@ fn pseudo_peripheral_node(
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    /// 64-bit LCG (Knuth's MMIX constants, from memory); enough for shuffles in tests.
-    struct Lcg(u64);
-
-    impl Lcg {
-        fn next_u64(&mut self) -> u64 {
-            self.0 = self
-                .0
-                .wrapping_mul(6364136223846793005)
-                .wrapping_add(1442695040888963407);
-            self.0 >> 11
-        }
-        fn below(&mut self, m: usize) -> usize {
-            (self.next_u64() % m as u64) as usize
-        }
-        /// Fisher–Yates shuffle of 0..n.
-        fn permutation(&mut self, n: usize) -> Vec<usize> {
-            let mut p: Vec<usize> = (0..n).collect();
-            for i in (1..n).rev() {
-                let j: usize = self.below(i + 1);
-                p.swap(i, j);
-            }
-            p
-        }
-    }
+    use crate::solve::test_rng::Lcg;
 
     /// Adjacency of a `width`×`height` grid (frame: beams along x, columns along y), with node
     /// (x, y) given the label `label[y·width + x]`.

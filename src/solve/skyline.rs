@@ -342,26 +342,7 @@ impl SkylineFactor {
 #[cfg(test)]
 mod tests {
     use super::*;
-
-    /// 64-bit LCG (Knuth's MMIX constants, from memory); a seeded source for test matrices.
-    struct Lcg(u64);
-
-    impl Lcg {
-        fn next_u64(&mut self) -> u64 {
-            self.0 = self
-                .0
-                .wrapping_mul(6364136223846793005)
-                .wrapping_add(1442695040888963407);
-            self.0 >> 11
-        }
-        fn below(&mut self, m: usize) -> usize {
-            (self.next_u64() % m as u64) as usize
-        }
-        /// Uniform in [−1, 1).
-        fn symmetric(&mut self) -> f64 {
-            (self.next_u64() as f64 / (1u64 << 53) as f64) * 2.0 - 1.0
-        }
-    }
+    use crate::solve::test_rng::Lcg;
 
     /// Allowance c in the residual test ‖K·x − b‖∞ ≤ c·ε·n·‖K‖∞·‖x‖∞. A backward-stable
     /// Cholesky/LDLᵀ solve satisfies (K + ΔK)·x = b with |ΔK| ≤ γ_{3n+1}·|Lᵀ|·|D|·|L|
