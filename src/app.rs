@@ -195,8 +195,42 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     })
 }
 
-/// Write `text` to `path` whole or not at all: written to a temporary file beside it,
-/// then renamed over it.
+/// Refuse an output file that is one of the input files (the model or a table file named
+/// by path), so that `-o` can never overwrite what was read. Paths are compared after
+/// resolving links, and on Unix also by device and inode (hard links).
+pub fn check_output_path(output: &Path, inputs: &[&Path]) -> Result<(), AppError> {
+    for input in inputs {
+        if same_file(output, input) {
+            return Err(AppError::Usage(format!(
+                "the output file {} is the input file {}: refusing to overwrite an input",
+                output.display(),
+                input.display()
+            )));
+        }
+    }
+    Ok(())
+}
+
+/// Whether two paths name the same existing file.
+fn same_file(a: &Path, b: &Path) -> bool {
+    match (std::fs::canonicalize(a), std::fs::canonicalize(b)) {
+        (Ok(x), Ok(y)) if x == y => return true,
+        (Ok(_), Ok(_)) => {}
+        _ => return false,
+    }
+    #[cfg(unix)]
+    {
+        use std::os::unix::fs::MetadataExt;
+        if let (Ok(x), Ok(y)) = (std::fs::metadata(a), std::fs::metadata(b)) {
+            return x.dev() == y.dev() && x.ino() == y.ino();
+        }
+    }
+    false
+}
+
+/// Write `text` to `path` whole or not at all: written to a temporary file beside it
+/// (named after the process, so that two runs do not share it), flushed to disk, then
+/// renamed over it.
 pub fn write_output(path: &Path, text: &str) -> Result<(), AppError> {
     let err = |source| AppError::Write {
         path: path.display().to_string(),
@@ -206,8 +240,16 @@ pub fn write_output(path: &Path, text: &str) -> Result<(), AppError> {
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
         .unwrap_or_default();
-    let tmp = path.with_file_name(format!(".{name}.partial"));
-    std::fs::write(&tmp, text).map_err(err)?;
+    let tmp = path.with_file_name(format!(".{name}.{}.partial", std::process::id()));
+    let written = std::fs::File::create(&tmp).and_then(|mut f| {
+        use std::io::Write;
+        f.write_all(text.as_bytes())?;
+        f.sync_all()
+    });
+    if let Err(e) = written {
+        let _ = std::fs::remove_file(&tmp);
+        return Err(err(e));
+    }
     std::fs::rename(&tmp, path).map_err(|e| {
         let _ = std::fs::remove_file(&tmp);
         err(e)

@@ -25,7 +25,10 @@ pub mod check;
 pub mod combos;
 pub mod diag;
 pub mod envelope;
+#[doc(hidden)]
+pub mod fuzzing;
 pub mod input;
+pub mod limits;
 pub mod model;
 pub mod report;
 pub mod solve;

@@ -1,6 +1,6 @@
 //! plumbline command line: argument parsing only; the work is done by `plumbline::app`.
 
-use std::path::PathBuf;
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
 use clap::{Args, Parser, Subcommand};
@@ -107,7 +107,26 @@ struct CheckCli {
     out: Output,
 }
 
+impl Command {
+    /// The `-o` file and the input files it must not be, for commands that write one.
+    fn output_and_inputs(&self) -> Option<(&Path, Vec<&Path>)> {
+        let (out, model, combos) = match self {
+            Command::Solve(a) => (&a.out, &a.model, None),
+            Command::Cases(a) => (&a.out, &a.model, a.combos.as_deref()),
+            Command::Check(a) => (&a.out, &a.model, a.combos.as_deref()),
+            Command::Combos(_) => return None,
+        };
+        let inputs = std::iter::once(model.as_path())
+            .chain(combos.map(Path::new))
+            .collect();
+        Some((out.output.as_deref()?, inputs))
+    }
+}
+
 fn run(cli: Cli) -> Result<(String, Option<PathBuf>), AppError> {
+    if let Some((output, inputs)) = cli.command.output_and_inputs() {
+        app::check_output_path(output, &inputs)?;
+    }
     Ok(match cli.command {
         Command::Solve(a) => (app::solve(&a.model, &a.case, a.format)?, a.out.output),
         Command::Cases(a) => (

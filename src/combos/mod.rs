@@ -233,8 +233,11 @@ pub fn load_table(name_or_path: &str, base_dir: Option<&Path>) -> Result<ComboTa
         _ => p.to_path_buf(),
     };
     let looks_like_path = name_or_path.contains(['/', '\\']) || name_or_path.ends_with(".toml");
-    match std::fs::read_to_string(&path) {
-        Ok(text) => parse_table(&text, &path.display().to_string()),
+    match std::fs::metadata(&path) {
+        Ok(_) => parse_table(
+            &crate::diag::read_input(&path, "combination table")?,
+            &path.display().to_string(),
+        ),
         Err(e) => {
             let names: Vec<&str> = SHIPPED.iter().map(|t| t.name).collect();
             let message = if looks_like_path {

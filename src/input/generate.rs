@@ -9,6 +9,7 @@
 //!
 //! Members are listed story by story (columns of the story, then the beams on top of it).
 
+use crate::limits::{MAX_MEMBERS, MAX_NODES, exceeded};
 use super::raw::{RawFrame, S};
 use super::validate::{Ctx, MemberDef, NodeDef, Ref, SupportDef};
 use crate::diag::FileError;
@@ -91,6 +92,17 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
     let bays = lengths(ctx, &f.bays, "frame.bays")?;
     let stories = lengths(ctx, &f.stories, "frame.stories")?;
     let ns = stories.len();
+    let counts = [
+        ("nodes", (bays.len() + 1) * (ns + 1), MAX_NODES, "MAX_NODES"),
+        ("members", ns * (2 * bays.len() + 1), MAX_MEMBERS, "MAX_MEMBERS"),
+    ];
+    for (what, count, limit, name) in counts {
+        if let Some(m) = exceeded(what, count, limit, name) {
+            return Err(ctx
+                .err(frame.span(), "frame", format!("the frame makes {m}"))
+                .with_help("the limits are listed in docs/model-file.md"));
+        }
+    }
     check_per_story(ctx, &f.columns, "frame.columns", ns)?;
     check_per_story(ctx, &f.beams, "frame.beams", ns)?;
     let base = match f.base.get_ref().as_str() {

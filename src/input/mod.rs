@@ -25,20 +25,17 @@ pub fn parse_model(text: &str, file: &str) -> Result<Model, FileError> {
     validate::build(raw, file, shared)
 }
 
-/// Read and validate a model file from disk.
+/// Read and validate a model file from disk (at most
+/// [`MAX_FILE_BYTES`](crate::limits::MAX_FILE_BYTES), UTF-8).
 pub fn load_model(path: &Path) -> Result<Model, FileError> {
-    let file = path.display().to_string();
-    let text = std::fs::read_to_string(path).map_err(|e| FileError {
-        file: file.clone(),
-        line: 0,
-        column: 0,
-        field: "(file)".to_string(),
-        message: format!("cannot read the model file: {e}"),
-        help: Some("expected a readable UTF-8 TOML file".to_string()),
-        span: None,
-        source_text: None,
-    })?;
-    parse_model(&text, &file)
+    let text = crate::diag::read_input(path, "model file")?;
+    parse_model(&text, &path.display().to_string())
+}
+
+/// Decode and validate the bytes of a model file, as [`load_model`] does after reading.
+pub fn parse_model_bytes(bytes: &[u8], file: &str) -> Result<Model, FileError> {
+    let text = crate::diag::decode_utf8(bytes.to_vec(), file)?;
+    parse_model(&text, file)
 }
 
 /// A TOML syntax or type error as a located [`FileError`]; the field is the key (or table

@@ -2,6 +2,7 @@
 //! loads checked. Every problem is a [`FileError`] that names the file, line, column and
 //! field, and says what was expected.
 
+use crate::limits::{MAX_LOAD_CASES, MAX_MEMBERS, MAX_NODES, exceeded};
 use std::collections::{BTreeMap, HashMap};
 use std::ops::Range;
 use std::str::FromStr;
@@ -299,6 +300,9 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
             y: ctx.quantity(&n.y, Dimension::Length, &field("y"))?,
         });
     }
+    if let Some(m) = exceeded("nodes", node_defs.len(), MAX_NODES, "MAX_NODES") {
+        return Err(too_many(&ctx, &node_defs[MAX_NODES].at, m));
+    }
     let mut node_index = HashMap::new();
     for n in &node_defs {
         register(&ctx, &mut node_index, &n.at, "node")?;
@@ -333,6 +337,9 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
             material: reference(&m.material, field("material")),
             release,
         });
+    }
+    if let Some(m) = exceeded("members", member_defs.len(), MAX_MEMBERS, "MAX_MEMBERS") {
+        return Err(too_many(&ctx, &member_defs[MAX_MEMBERS].at, m));
     }
     let nodes: Vec<Node> = node_defs
         .iter()
@@ -419,8 +426,20 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
     let (analysis, stories) = analysis(&ctx, raw.analysis.as_ref())?;
     model.analysis = analysis;
     model.stories = stories;
+    if let Some(m) = exceeded("load cases", raw.case.len(), MAX_LOAD_CASES, "MAX_LOAD_CASES") {
+        let case = &raw.case[MAX_LOAD_CASES];
+        return Err(ctx
+            .err(case.span(), &format!("case[{}]", MAX_LOAD_CASES + 1), format!("the model has {m}"))
+            .with_help("the limits are listed in docs/model-file.md"));
+    }
     model.load_cases = load_cases(&ctx, &raw.case, &model)?;
     Ok(model)
+}
+
+/// The error for a model with more items than a limit allows, at the first one too many.
+fn too_many(ctx: &Ctx, first_over: &Ref, m: String) -> FileError {
+    ctx.err(first_over.span.clone(), &first_over.field, format!("the model has {m}"))
+        .with_help("the limits are listed in docs/model-file.md")
 }
 
 /// Role of a member without a section hint: column within 45° of vertical, else beam.
