@@ -336,7 +336,7 @@ arrange = true
 }
 
 const BEAM_LOAD: &str =
-    "[[case.member_load]]\nmembers = \"B*\"\nkind = \"uniform\"\ndirection = \"gravity\"\nw = 10\n";
+    "[[case.member_load]]\nmembers = \"B*\"\nkind = \"uniform\"\ndirection = \"down\"\nw = 10\n";
 
 #[test]
 fn checkerboard_across_floors_on_a_generated_frame() {

@@ -200,7 +200,9 @@ pub struct RawMemberLoad {
     /// `uniform`, `linear`, `point` or `moment`.
     pub kind: S<String>,
     pub direction: Option<S<String>>,
-    /// `along-member` (default) or `projected`.
+    /// `member` (default) or `projection`.
+    pub spread_over: Option<S<String>>,
+    /// The former name of `spread_over`: read only to say what to write instead.
     pub measure: Option<S<String>>,
     pub w: Option<S<Num>>,
     pub w_from: Option<S<Num>>,

@@ -29,7 +29,7 @@ pub const STIFFNESS_NAMES: [&str; 3] = ["gross", "aci-cracked", "aisc-direct"];
 /// Names accepted for [`Role`].
 pub const ROLE_NAMES: [&str; 3] = ["column", "beam", "brace"];
 /// Names accepted for [`LoadDirection`].
-pub const DIRECTION_NAMES: [&str; 5] = ["local-x", "local-y", "global-x", "global-y", "gravity"];
+pub const DIRECTION_NAMES: [&str; 5] = ["local-x", "local-y", "global-x", "global-y", "down"];
 /// AISC 360-16 §C2.2b(1): notional load Ni = 0.002·α·Yi; the default coefficient.
 pub const AISC_NOTIONAL_COEFFICIENT: f64 = 0.002;
 
@@ -1056,8 +1056,8 @@ fn member_loads(
     let f = |name: &str| format!("{prefix}.{name}");
     let kind = raw.kind.get_ref().as_str();
     let allowed: &[&str] = match kind {
-        "uniform" => &["w", "from", "to", "direction", "measure"],
-        "linear" => &["w_from", "w_to", "from", "to", "direction", "measure"],
+        "uniform" => &["w", "from", "to", "direction", "spread_over"],
+        "linear" => &["w_from", "w_to", "from", "to", "direction", "spread_over"],
         "point" => &["p", "at", "direction"],
         "moment" => &["m", "at"],
         other => {
@@ -1068,6 +1068,28 @@ fn member_loads(
             ));
         }
     };
+    if let Some(old) = &raw.measure {
+        return Err(ctx.err(
+            old.span(),
+            &f("measure"),
+            "`measure` was renamed: write spread_over = \"member\" (intensity per length of \
+             member, the default) or spread_over = \"projection\" (per length of projection, \
+             as for snow on a rafter)",
+        ));
+    }
+    if let Some(d) = &raw.direction
+        && d.get_ref() == "gravity"
+    {
+        return Err(ctx.err(
+            d.span(),
+            &f("direction"),
+            format!(
+                "direction \"gravity\" was renamed: write direction = \"down\" (positive downward); \
+                 expected one of {}",
+                DIRECTION_NAMES.join(", ")
+            ),
+        ));
+    }
     let given: [(&str, Option<Range<usize>>); 10] = [
         ("w", raw.w.as_ref().map(|v| v.span())),
         ("w_from", raw.w_from.as_ref().map(|v| v.span())),
@@ -1078,7 +1100,7 @@ fn member_loads(
         ("to", raw.to.as_ref().map(|v| v.span())),
         ("at", raw.at.as_ref().map(|v| v.span())),
         ("direction", raw.direction.as_ref().map(|v| v.span())),
-        ("measure", raw.measure.as_ref().map(|v| v.span())),
+        ("spread_over", raw.spread_over.as_ref().map(|v| v.span())),
     ];
     for (name, span) in &given {
         if let Some(span) = span
@@ -1121,23 +1143,23 @@ fn member_loads(
             ));
         }
     };
-    let measure = match &raw.measure {
+    let measure = match &raw.spread_over {
         None => Measure::AlongMember,
         Some(m) => match m.get_ref().as_str() {
-            "along-member" => Measure::AlongMember,
-            "projected" if matches!(direction, LoadDirection::LocalX | LoadDirection::LocalY) => {
+            "member" => Measure::AlongMember,
+            "projection" if matches!(direction, LoadDirection::LocalX | LoadDirection::LocalY) => {
                 return Err(ctx.err(
                     m.span(),
-                    &f("measure"),
-                    "a projected load needs a global direction (global-x, global-y or gravity)",
+                    &f("spread_over"),
+                    "a load spread over the projection needs a global direction (global-x, global-y or down)",
                 ));
             }
-            "projected" => Measure::Projected,
+            "projection" => Measure::Projected,
             other => {
                 return Err(ctx.err(
                     m.span(),
-                    &f("measure"),
-                    format!("expected along-member or projected, got \"{other}\""),
+                    &f("spread_over"),
+                    format!("expected one of member, projection, got \"{other}\""),
                 ));
             }
         },
