@@ -135,7 +135,7 @@ impl StoryFlexibility {
 pub fn same_signed(f: &[f64]) -> Option<f64> {
     let total: f64 = f.iter().map(|x| x.abs()).sum();
     let net: f64 = f.iter().sum();
-    if !(total > 0.0) || !total.is_finite() {
+    if total <= 0.0 || !total.is_finite() {
         return None;
     }
     let s = net.signum();
@@ -164,6 +164,9 @@ fn under_pattern(
     })
 }
 
+/// The sign of a same-signed pattern and its story `(shear, drift)`s.
+type PatternResponse = (f64, Vec<(f64, f64)>);
+
 /// The lateral stiffness H/Δ of every story.
 ///
 /// `level_forces` are the case's own net lateral forces at the levels, N (reversed holding
@@ -185,7 +188,7 @@ pub fn story_stiffness(
         (y, StiffnessSource::GravityPattern),
         (&uniform, StiffnessSource::UniformPattern),
     ];
-    let responses: Vec<Option<(f64, Vec<(f64, f64)>)>> = patterns
+    let responses: Vec<Option<PatternResponse>> = patterns
         .iter()
         .map(|(f, _)| same_signed(f).map(|s| (s, flex.response(f))))
         .collect();
