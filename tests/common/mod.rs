@@ -112,6 +112,7 @@ impl Frame {
             description: String::new(),
             category,
             alternative_group: None,
+            arrange: false,
             nodal: vec![],
             member: vec![],
         });
