@@ -108,10 +108,10 @@ impl RandomFrame {
         let mut beams_at: Vec<Vec<usize>> = Vec::new();
         for s in 0..stories {
             let scale = 1.0 + (stories - s) as f64 / stories as f64;
-            for line in 0..=bays {
+            for (&lo, &hi) in nodes[s].iter().zip(&nodes[s + 1]) {
                 let a = r.range(60e-4, 100e-4) * scale;
                 let i = r.range(8_000e-8, 30_000e-8) * scale;
-                f.member(nodes[s][line], nodes[s + 1][line], e, a, i);
+                f.member(lo, hi, e, a, i);
             }
             let mut level = Vec::new();
             for bay in 0..bays {
