@@ -233,7 +233,10 @@ impl SourceCode for FileError {
         context_lines_before: usize,
         context_lines_after: usize,
     ) -> Result<Box<dyn SpanContents<'a> + 'a>, MietteError> {
-        let text: &'a str = self.source_text.as_deref().ok_or(MietteError::OutOfBounds)?;
+        let text: &'a str = self
+            .source_text
+            .as_deref()
+            .ok_or(MietteError::OutOfBounds)?;
         let (start, end) = (span.offset(), span.offset() + span.len());
         if end > text.len() {
             return Err(MietteError::OutOfBounds);
@@ -308,9 +311,16 @@ mod tests {
         let at = 6 + 7 + 500_000;
         let e = FileError::at("m.toml", &text, Some(at..at + 3), "key", "bad value");
         let out = rendered(&e);
-        assert!(out.len() < 4 * (2 * SNIPPET_WINDOW + 200), "{} bytes", out.len());
+        assert!(
+            out.len() < 4 * (2 * SNIPPET_WINDOW + 200),
+            "{} bytes",
+            out.len()
+        );
         assert!(out.contains("m.toml:2:"), "{out}");
-        assert!(out.contains(" 2 │"), "the window keeps the file's line number:\n{out}");
+        assert!(
+            out.contains(" 2 │"),
+            "the window keeps the file's line number:\n{out}"
+        );
     }
 
     #[test]
@@ -335,7 +345,11 @@ mod tests {
         let bytes = b"a = 1\nb = \"caf\xE9\"\n".to_vec();
         let e = decode_utf8(bytes, "m.toml").unwrap_err();
         assert_eq!(e.line, 2);
-        assert!(e.message.contains("line 2, byte 9 of the line"), "{}", e.message);
+        assert!(
+            e.message.contains("line 2, byte 9 of the line"),
+            "{}",
+            e.message
+        );
         assert!(e.message.contains("byte 15 of the file"), "{}", e.message);
         assert!(rendered(&e).contains("caf"));
     }

@@ -66,9 +66,12 @@ fn check_model(model: &Model) {
     };
     let mut params = BTreeMap::from([("s_ds".to_string(), 0.5)]);
     params.extend(model.combos.params.clone());
+    let arranged = crate::arrange::arrange(model);
     let Ok(expansion) = combos::expand(&table, &model.load_cases, &params) else {
         return;
     };
+    let expansion = arranged.apply(expansion);
+    let model = &arranged.model;
     let cases = &expansion.cases[..expansion.cases.len().min(ANALYSE_CASES)];
     if let Ok(report) = crate::check::check(model, cases) {
         crate::report::check::render(model, &report, &table.title, OutputFormat::Json);
@@ -87,6 +90,7 @@ fn sample_cases() -> Vec<LoadCase> {
             alternative_group: None,
             nodal: Vec::new(),
             member: Vec::new(),
+            arrange: false,
         })
         .collect();
     for side in ["W-left", "W-right"] {
@@ -97,6 +101,7 @@ fn sample_cases() -> Vec<LoadCase> {
             alternative_group: Some("wind".to_string()),
             nodal: Vec::new(),
             member: Vec::new(),
+            arrange: false,
         });
     }
     cases

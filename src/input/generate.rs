@@ -9,10 +9,10 @@
 //!
 //! Members are listed story by story (columns of the story, then the beams on top of it).
 
-use crate::limits::{MAX_MEMBERS, MAX_NODES, exceeded};
 use super::raw::{RawFrame, S};
 use super::validate::{Ctx, MemberDef, NodeDef, Ref, SupportDef};
 use crate::diag::FileError;
+use crate::limits::{MAX_MEMBERS, MAX_NODES, exceeded};
 use crate::model::Restraint;
 use crate::units::Dimension;
 
@@ -94,7 +94,12 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
     let ns = stories.len();
     let counts = [
         ("nodes", (bays.len() + 1) * (ns + 1), MAX_NODES, "MAX_NODES"),
-        ("members", ns * (2 * bays.len() + 1), MAX_MEMBERS, "MAX_MEMBERS"),
+        (
+            "members",
+            ns * (2 * bays.len() + 1),
+            MAX_MEMBERS,
+            "MAX_MEMBERS",
+        ),
     ];
     for (what, count, limit, name) in counts {
         if let Some(m) = exceeded(what, count, limit, name) {

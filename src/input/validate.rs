@@ -426,10 +426,19 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
     let (analysis, stories) = analysis(&ctx, raw.analysis.as_ref())?;
     model.analysis = analysis;
     model.stories = stories;
-    if let Some(m) = exceeded("load cases", raw.case.len(), MAX_LOAD_CASES, "MAX_LOAD_CASES") {
+    if let Some(m) = exceeded(
+        "load cases",
+        raw.case.len(),
+        MAX_LOAD_CASES,
+        "MAX_LOAD_CASES",
+    ) {
         let case = &raw.case[MAX_LOAD_CASES];
         return Err(ctx
-            .err(case.span(), &format!("case[{}]", MAX_LOAD_CASES + 1), format!("the model has {m}"))
+            .err(
+                case.span(),
+                &format!("case[{}]", MAX_LOAD_CASES + 1),
+                format!("the model has {m}"),
+            )
             .with_help("the limits are listed in docs/model-file.md"));
     }
     model.load_cases = load_cases(&ctx, &raw.case, &model)?;
@@ -438,8 +447,12 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
 
 /// The error for a model with more items than a limit allows, at the first one too many.
 fn too_many(ctx: &Ctx, first_over: &Ref, m: String) -> FileError {
-    ctx.err(first_over.span.clone(), &first_over.field, format!("the model has {m}"))
-        .with_help("the limits are listed in docs/model-file.md")
+    ctx.err(
+        first_over.span.clone(),
+        &first_over.field,
+        format!("the model has {m}"),
+    )
+    .with_help("the limits are listed in docs/model-file.md")
 }
 
 /// Role of a member without a section hint: column within 45° of vertical, else beam.
