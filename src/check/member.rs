@@ -305,7 +305,9 @@ fn aci_column(d: &Diagram, p_u: f64, depth: Option<f64>, e_min: f64) -> AciColum
         } else {
             m2
         },
-        c_m,
+        // 6.6.4.5.4: where M2,min exceeds M2, Cm = 1.0 (or from the end moments; 1.0 is
+        // taken, the end moments being then small or zero).
+        c_m: if raised_to_min { 1.0 } else { c_m },
         raised_to_min,
     }
 }
