@@ -7,7 +7,7 @@ use std::path::{Path, PathBuf};
 
 use crate::check::CheckError;
 use crate::combos::{
-    ComboTable, cases_report, expand, expansion_summary, load_table, render_table,
+    ComboTable, expand, expansion_summary, load_table, render_expansion, render_table,
     render_table_list,
 };
 use crate::diag::FileError;
@@ -141,12 +141,18 @@ pub fn cases(
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let table = resolve_table(&model, model_path, combos)?;
-    Ok(cases_report(
-        &model.load_cases,
+    let arranged = crate::arrange::arrange(&model);
+    let expansion = arranged.apply(expand(
         &table,
+        &model.load_cases,
         &overrides(&model, sets)?,
+    )?);
+    Ok(render_expansion(
+        &table,
+        &expansion,
+        &arranged.model.load_cases,
         format,
-    )?)
+    ))
 }
 
 /// Options of [`check`].
@@ -169,7 +175,14 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
         model.analysis.method = m;
     }
     let table = resolve_table(&model, model_path, args.combos.as_deref())?;
-    let expansion = expand(&table, &model.load_cases, &overrides(&model, &args.sets)?)?;
+    // Arranged live load: pieces appended to the model, arrangements as alternatives.
+    let arranged = crate::arrange::arrange(&model);
+    let expansion = arranged.apply(expand(
+        &table,
+        &model.load_cases,
+        &overrides(&model, &args.sets)?,
+    )?);
+    let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
         // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.

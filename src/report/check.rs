@@ -4,6 +4,7 @@
 use serde::Serialize;
 
 use super::{CAUTION, OutputFormat, num, opt, table_of};
+use crate::check::story::StiffnessSource;
 use crate::check::{CaseCheck, CheckReport, MemberCheck};
 use crate::envelope::{GoverningMoment, governing};
 use crate::model::{Model, SecondOrderMethod};
@@ -134,6 +135,8 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
             unstable.join(", ")
         ));
     }
+    out.push_str(PATTERN_LEGEND);
+    out.push('\n');
     out.push_str(
         "Moments are internal bending moments, positive with the member's local −y face in \
          tension (sagging for a beam drawn left to right); N is positive in tension.\n",
@@ -242,6 +245,7 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
                 num(s.alpha_cr_story, 2),
                 opt(s.drift_amplification, 3),
                 opt(s.sway_amplifier, 3),
+                pattern_label(s.stiffness_source).into(),
                 s.classification.to_string(),
                 s.criterion.clone(),
             ]
@@ -260,6 +264,7 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
             "α_cr".into(),
             "Δ2/Δ1".into(),
             "sway amp".into(),
+            "H/Δ from".into(),
             "verdict".into(),
             "decided by".into(),
         ],
@@ -281,6 +286,23 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     out.push('\n');
     out
 }
+
+/// Short label of the lateral pattern a story stiffness came from (legend in
+/// [`PATTERN_LEGEND`]).
+fn pattern_label(s: StiffnessSource) -> &'static str {
+    match s {
+        StiffnessSource::CaseSway => "case",
+        StiffnessSource::GravityPattern => "gravity",
+        StiffnessSource::UniformPattern => "uniform",
+        StiffnessSource::Support => "support",
+    }
+}
+
+/// What the "H/Δ from" column means.
+pub const PATTERN_LEGEND: &str = "H/Δ from: the lateral pattern of each story's stiffness — case: \
+the case's own level forces (they push every story the same way); gravity: level forces ∝ \
+the level gravity loads Yi; uniform: equal level forces; support: the level is held. AISC \
+360-16 App. 8 lets H and ΔH come from any lateral load (from memory).";
 
 fn indent(s: &str) -> String {
     s.lines().map(|l| format!("  {l}\n")).collect()

@@ -110,6 +110,7 @@ impl Frame {
             description: String::new(),
             category,
             alternative_group: None,
+            arrange: false,
             nodal: vec![],
             member: vec![],
         });
