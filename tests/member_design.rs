@@ -381,6 +381,8 @@ fn aci_second_order_limit_on_mc_of_a_braced_slender_column() {
         "{:?}",
         mc.notes
     );
+    assert!(!mc.within_limits);
+    assert!(mc.stable);
 }
 
 #[test]

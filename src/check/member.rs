@@ -85,7 +85,15 @@ pub struct MemberCheck {
     /// story), 1/(1 − 1/α_cr) or Δ2nd/Δ1st.
     pub sway_amplifier: Option<f64>,
     pub governs: Part,
+    /// False when the member (or its story) is unstable under the case: AISC α·Pr ≥ Pe1
+    /// (A-8-3), an unstable story, a direct analysis that did not converge. The case is
+    /// then unstable.
     pub stable: bool,
+    /// False when a limit of the standard rules out this member's design as sized under
+    /// the case, without the frame being unstable: ACI 318-19 Pu ≥ 0.75·Pc (6.6.4.5.2, no
+    /// δ exists; Mc is then not given) or a second-order moment above 1.4 × first-order
+    /// (6.2.5.3, from memory). The notes say which; the case's other results stand.
+    pub within_limits: bool,
     pub notes: Vec<String>,
 }
 
@@ -340,6 +348,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
 
     let mut notes = Vec::new();
     let mut stable = true;
+    let mut within_limits = true;
     // Sway amplifier: the largest of the stories the member belongs to.
     let in_stories = member_stories(model, input.stories, m);
     let story_amp = if in_stories.is_empty() {
@@ -409,8 +418,11 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             );
             let delta = aci::delta_ns(col.c_m, compression, pc);
             if delta.is_none() {
-                stable = false;
-                notes.push("Pu ≥ 0.75·Pc: the member is unstable (ACI 318-19 6.6.4.5.2)".into());
+                within_limits = false;
+                notes.push(
+                    "Pu ≥ 0.75·Pc: ACI 318-19 6.6.4.5.2 gives no δ and does not permit this                      column as sized; Mc is not given (the frame's stability is judged by                      the story and buckling figures)"
+                        .into(),
+                );
             }
             (Some(col.c_m), Some(pc), delta)
         }
@@ -498,6 +510,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                 s.first_order.abs()
             };
             if let Some(r) = above_aci_limit(mc, reference) {
+                within_limits = false;
                 notes.push(format!(
                     "Mc = δ·M2 is {r:.2} × the first-order moment, above the 1.4 limit of \
                      ACI 318-19 6.2.5.3 (from memory): that clause does not permit this design"
@@ -512,6 +525,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             .iter()
             .find_map(|e| above_aci_limit(e.design, e.first_order))
         {
+            within_limits = false;
             notes.push(format!(
                 "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
                  (ACI 318-19 6.2.5.3, from memory)"
@@ -550,6 +564,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         sway_amplifier: sway_amp,
         governs,
         stable,
+        within_limits,
         notes,
     }
 }
