@@ -7,7 +7,8 @@ use std::path::{Path, PathBuf};
 
 use crate::check::{CheckError, CheckReport};
 use crate::combos::{
-    ComboTable, FactoredCase, cases_report, expand, expansion_summary, load_table, render_table,
+    ComboTable, FactoredCase, expand, expansion_summary, load_table, render_expansion,
+    render_table,
     render_table_list,
 };
 use crate::diag::FileError;
@@ -143,12 +144,18 @@ pub fn cases(
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let table = resolve_table(&model, model_path, combos)?;
-    Ok(cases_report(
-        &model.load_cases,
+    let arranged = crate::arrange::arrange(&model);
+    let expansion = arranged.apply(expand(
         &table,
+        &model.load_cases,
         &overrides(&model, sets)?,
+    )?);
+    Ok(render_expansion(
+        &table,
+        &expansion,
+        &arranged.model.load_cases,
         format,
-    )?)
+    ))
 }
 
 /// Options of [`check`].
@@ -361,7 +368,14 @@ pub fn run_check(
     }
     let table = resolve_table(&model, model_path, args.combos.as_deref())?;
     let cli_params = parse_sets(&args.sets)?;
-    let expansion = expand(&table, &model.load_cases, &overrides(&model, &args.sets)?)?;
+    // Arranged live load: pieces appended to the model, arrangements as alternatives.
+    let arranged = crate::arrange::arrange(&model);
+    let expansion = arranged.apply(expand(
+        &table,
+        &model.load_cases,
+        &overrides(&model, &args.sets)?,
+    )?);
+    let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
         // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.

@@ -48,6 +48,12 @@ pub enum CheckError {
     System(#[from] SystemError),
     #[error("no factored cases to check")]
     NoCases,
+    #[error("factored case {case}: {source}")]
+    StoryStiffness {
+        case: String,
+        #[source]
+        source: story::StoryStiffnessError,
+    },
 }
 
 /// A story as the report lists it.
@@ -137,12 +143,14 @@ pub fn check_with_progress(
     let parts: Vec<SwayParts> = (0..model.load_cases.len())
         .map(|k| split.split_case(model, k))
         .collect::<Result<_, _>>()?;
+    let flexibility = story::StoryFlexibility::new(&stories, &split);
     let stiffness = member_stiffness(model);
     let second = SecondOrderModel::new(model, &stiffness, model.analysis.segments)?;
     let ctx = Context {
         model,
         stories: &stories,
         split: &split,
+        flexibility: &flexibility,
         second: &second,
         stiffness: &stiffness,
     };
@@ -178,6 +186,8 @@ struct Context<'a> {
     model: &'a Model,
     stories: &'a [Story],
     split: &'a SwaySplit,
+    /// Story drifts under unit level forces, for every story stiffness H/Δ.
+    flexibility: &'a story::StoryFlexibility,
     second: &'a SecondOrderModel,
     stiffness: &'a [crate::solve::mesh::MemberStiffness],
 }
@@ -206,13 +216,12 @@ impl Context<'_> {
         let buckling = self.second.critical_factor(model, &loads)?;
 
         // Notional loads: which directions, and how large at each level.
+        let own: Vec<f64> = combined.holding.iter().map(|h| -h).collect();
         let estimate = story::figures(
-            model,
             self.stories,
-            self.split,
+            &self.story_stiffness(fc, &own, &gravity)?,
             &gravity,
-            &combined.holding,
-            &[],
+            &own,
             &combined.sway,
             alpha,
         );
@@ -236,13 +245,12 @@ impl Context<'_> {
                 combined.sway.clone()
             };
             let (direct_status, direct_solution) = self.direct(fc, &notional, alpha)?;
+            let level_forces: Vec<f64> = own.iter().zip(&notional).map(|(h, n)| h + n).collect();
             let figures = story::figures(
-                model,
                 self.stories,
-                self.split,
+                &self.story_stiffness(fc, &level_forces, &gravity)?,
                 &gravity,
-                &combined.holding,
-                &notional,
+                &level_forces,
                 &sway,
                 alpha,
             );
@@ -254,6 +262,7 @@ impl Context<'_> {
                 &combined.no_sway,
                 &sway,
                 alpha,
+                buckling.as_ref().map(|b| b.alpha_cr),
             );
             let members = member::members(&member::MemberInput {
                 model,
@@ -304,6 +313,21 @@ impl Context<'_> {
 }
 
 impl Context<'_> {
+    /// Each story's H/Δ for a case with net level forces `level_forces`.
+    fn story_stiffness(
+        &self,
+        fc: &FactoredCase,
+        level_forces: &[f64],
+        gravity: &story::Gravity,
+    ) -> Result<Vec<story::StoryStiffness>, CheckError> {
+        story::story_stiffness(self.stories, self.flexibility, level_forces, &gravity.y).map_err(
+            |source| CheckError::StoryStiffness {
+                case: fc.id.clone(),
+                source,
+            },
+        )
+    }
+
     /// Loads of factored case `fc` times `scale` on the segmented mesh.
     fn case_loads(&self, fc: &FactoredCase, scale: f64) -> MeshLoads {
         let mut loads = MeshLoads::zero(&self.second.mesh);

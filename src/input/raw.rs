@@ -174,6 +174,8 @@ pub struct RawCase {
     pub category: S<String>,
     pub alternative: Option<S<String>>,
     pub self_weight: Option<S<bool>>,
+    /// Place this live load in the arrangements of alternate and adjacent spans.
+    pub arrange: Option<S<bool>>,
     #[serde(default)]
     pub node_load: Vec<S<RawNodeLoad>>,
     #[serde(default)]

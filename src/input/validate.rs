@@ -895,6 +895,7 @@ fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCa
                 .unwrap_or_default(),
             category,
             alternative_group: c.alternative.as_ref().map(|g| g.get_ref().clone()),
+            arrange: c.arrange.as_ref().is_some_and(|a| *a.get_ref()),
             nodal: Vec::new(),
             member: Vec::new(),
         };
@@ -936,9 +937,60 @@ fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCa
             case.member
                 .extend(self_weight(ctx, sw, &field("self_weight"), model)?);
         }
+        if let Some(a) = c.arrange.as_ref().filter(|a| *a.get_ref()) {
+            arrangeable(ctx, a, &field("arrange"), &case, model)?;
+        }
         out.push(case);
     }
     Ok(out)
+}
+
+/// An arranged load case must be live load with some of it on beams, and the frame's
+/// arrangements must stay within [`crate::arrange::MAX_ARRANGEMENTS`].
+fn arrangeable(
+    ctx: &Ctx,
+    at: &S<bool>,
+    field: &str,
+    case: &LoadCase,
+    model: &Model,
+) -> Result<(), FileError> {
+    use crate::arrange::{MAX_ARRANGEMENTS, may_arrange, patterns, spans};
+    if !may_arrange(case.category) {
+        return Err(ctx.err(
+            at.span(),
+            field,
+            format!(
+                "only live load is arranged over spans (ACI 318-19 §6.4.3, EN 1992-1-1 §5.1.3): expected category = \"live\", got {}",
+                case.category
+            ),
+        ));
+    }
+    let all = spans(model);
+    let loaded: std::collections::BTreeSet<usize> = (0..all.len())
+        .filter(|&s| {
+            case.member
+                .iter()
+                .any(|ml| all[s].members.contains(&ml.member))
+        })
+        .collect();
+    if loaded.is_empty() {
+        return Err(ctx.err(
+            at.span(),
+            field,
+            "nothing to arrange: expected member loads on beams in this case",
+        ));
+    }
+    let count = patterns(model, &all, &(0..all.len()).collect()).len();
+    if count > MAX_ARRANGEMENTS {
+        return Err(ctx.err(
+            at.span(),
+            field,
+            format!(
+                "the frame's beams give {count} live-load arrangements: expected at most {MAX_ARRANGEMENTS}; arrange the live load of fewer floors, or write the arrangements as alternative load cases"
+            ),
+        ));
+    }
+    Ok(())
 }
 
 /// Self-weight as a gravity load γ·A along every member.

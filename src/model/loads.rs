@@ -133,6 +133,9 @@ pub struct LoadCase {
     /// alternatives (wind from the left or from the right); each factored case is generated
     /// once per alternative. Cases without a group add up with every alternative.
     pub alternative_group: Option<String>,
+    /// Live load on beams placed in the arrangements of [`crate::arrange`] (ACI 318-19
+    /// §6.4.3, EN 1992-1-1 §5.1.3) instead of on every span at once.
+    pub arrange: bool,
     pub nodal: Vec<NodalLoad>,
     /// Member loads, including self-weight already expanded into gravity loads.
     pub member: Vec<MemberLoad>,

@@ -3,6 +3,7 @@
 
 use super::summary::Table;
 use super::{num, opt, table_of};
+use crate::check::story::StiffnessSource;
 use crate::check::{CaseCheck, CheckReport, MemberCheck, StoryFigures};
 use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
@@ -56,6 +57,8 @@ pub fn detail_text(model: &Model, report: &CheckReport) -> String {
         out.push_str(&case_text(model, case));
         out.push('\n');
     }
+    out.push_str(PATTERN_LEGEND);
+    out.push_str("\n\n");
     out
 }
 
@@ -169,10 +172,28 @@ fn story_header(model: &Model) -> Vec<String> {
         "α_cr".into(),
         "Δ2/Δ1".into(),
         "sway amp".into(),
+        "H/Δ from".into(),
         "verdict".into(),
         "decided by".into(),
     ]
 }
+
+/// Short label of the lateral pattern a story stiffness came from (legend in
+/// [`PATTERN_LEGEND`]).
+fn pattern_label(s: StiffnessSource) -> &'static str {
+    match s {
+        StiffnessSource::CaseSway => "case",
+        StiffnessSource::GravityPattern => "gravity",
+        StiffnessSource::UniformPattern => "uniform",
+        StiffnessSource::Support => "support",
+    }
+}
+
+/// What the "H/Δ from" column means.
+pub const PATTERN_LEGEND: &str = "H/Δ from: the lateral pattern of each story's stiffness — case: \
+the case's own level forces (they push every story the same way); gravity: level forces ∝ \
+the level gravity loads Yi; uniform: equal level forces; support: the level is held. AISC \
+360-16 App. 8 lets H and ΔH come from any lateral load (from memory).";
 
 /// One story's results under [`story_header`], forces to `decimals`.
 fn story_row(model: &Model, s: &StoryFigures, decimals: usize) -> Vec<String> {
@@ -194,6 +215,7 @@ fn story_row(model: &Model, s: &StoryFigures, decimals: usize) -> Vec<String> {
         num(s.alpha_cr_story, 2),
         opt(s.drift_amplification, 3),
         opt(s.sway_amplifier, 3),
+        pattern_label(s.stiffness_source).into(),
         s.classification.to_string(),
         s.criterion.clone(),
     ]
