@@ -264,6 +264,15 @@ impl Context<'_> {
                 alpha,
                 buckling.as_ref().map(|b| b.alpha_cr),
             );
+            // EN 1993-1-1 judges the structure by one α_cr, not story by story.
+            let mut figures = figures;
+            if model.analysis.method == SecondOrderMethod::Ec3AlphaCr {
+                ec3::judge_structure(
+                    &mut figures,
+                    buckling.as_ref().map(|b| b.alpha_cr),
+                    direct_status.converged,
+                );
+            }
             let members = member::members(&member::MemberInput {
                 model,
                 stories: self.stories,
