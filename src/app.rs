@@ -8,8 +8,7 @@ use std::path::{Path, PathBuf};
 use crate::check::{CheckError, CheckReport};
 use crate::combos::{
     ComboTable, FactoredCase, expand, expansion_summary, load_table, render_expansion,
-    render_table,
-    render_table_list,
+    render_table, render_table_list,
 };
 use crate::diag::FileError;
 use crate::envelope::Envelope;
