@@ -74,8 +74,8 @@ fn check_model(model: &Model) {
     let model = &arranged.model;
     let cases = &expansion.cases[..expansion.cases.len().min(ANALYSE_CASES)];
     if let Ok(report) = crate::check::check(model, cases) {
-        crate::report::check::render(model, &report, &table.title, OutputFormat::Json);
-        crate::report::check::render(model, &report, &table.title, OutputFormat::Table);
+        crate::report::check::detail_text(model, &report);
+        crate::envelope::envelope(&report);
     }
 }
 
