@@ -161,6 +161,12 @@ pub struct CheckArgs {
     pub combos: Option<String>,
     pub sets: Vec<String>,
     pub method: Option<SecondOrderMethod>,
+    /// `--stiffness`: `gross`, `aci-cracked`, `aisc-direct`, or `auto` (the method's
+    /// default); overrides the model.
+    pub stiffness: Option<String>,
+    /// `--notional`: `auto`, `none`, `aisc`, `ec3-imperfection`, or a number (the AISC
+    /// coefficient); overrides the model.
+    pub notional: Option<String>,
     /// Only the factored cases whose id starts with this (notional-load variants such as
     /// `2.3.1-2a/N+` included).
     pub case: Option<String>,
@@ -170,10 +176,92 @@ pub struct CheckArgs {
 /// `plumbline check MODEL`: every factored case with and without sway, amplified for
 /// second-order effects, stories classified.
 pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
+    Ok(check_run(model_path, args)?.text)
+}
+
+/// What `check` produced: the report and whether every case was stable.
+#[derive(Debug, Clone)]
+pub struct CheckOutcome {
+    pub text: String,
+    /// Some factored case is unstable (its design values are withheld).
+    pub unstable: bool,
+}
+
+/// Exit status of the program (documented in the README, "Exit status").
+pub mod exit {
+    /// The command ran and every factored case is stable.
+    pub const OK: u8 = 0;
+    /// The command failed: bad input (file, line and field named), an analysis that could
+    /// not run, or an output that could not be written. Nothing was written.
+    pub const FAILED: u8 = 1;
+    /// The command line itself is wrong (unknown option, missing argument).
+    pub const USAGE: u8 = 2;
+    /// `check` ran and wrote its report, but at least one factored case is unstable.
+    pub const UNSTABLE: u8 = 3;
+}
+
+/// Apply the command line's `--stiffness` and `--notional` to `model`'s analysis options.
+pub fn apply_settings(
+    model: &mut Model,
+    stiffness: Option<&str>,
+    notional: Option<&str>,
+) -> Result<(), AppError> {
+    use crate::model::{NotionalLoads, SettingOrigin, StiffnessPreset};
+    use std::str::FromStr;
+    let a = &mut model.analysis;
+    if let Some(s) = stiffness {
+        if s == "auto" {
+            a.origin.stiffness = SettingOrigin::MethodDefault;
+        } else {
+            a.stiffness = StiffnessPreset::from_str(s).map_err(|_| {
+                AppError::Usage(format!(
+                    "--stiffness: expected gross, aci-cracked, aisc-direct or auto, got \"{s}\""
+                ))
+            })?;
+            a.origin.stiffness = SettingOrigin::CommandLine;
+        }
+    }
+    if let Some(n) = notional {
+        a.notional = match n {
+            "auto" => NotionalLoads::Auto,
+            "none" => NotionalLoads::None,
+            "aisc" => NotionalLoads::Aisc {
+                coefficient: crate::check::aisc::NOTIONAL_COEFFICIENT,
+            },
+            "ec3-imperfection" => NotionalLoads::Ec3Imperfection,
+            other => match other.parse::<f64>() {
+                Ok(c) if c.is_finite() && c > 0.0 && c < 0.1 => {
+                    NotionalLoads::Aisc { coefficient: c }
+                }
+                _ => {
+                    return Err(AppError::Usage(format!(
+                        "--notional: expected auto, none, aisc, ec3-imperfection or an AISC \
+                         coefficient between 0 and 0.1 (e.g. 0.003), got \"{other}\""
+                    )));
+                }
+            },
+        };
+        a.origin.notional = if n == "auto" {
+            SettingOrigin::MethodDefault
+        } else {
+            SettingOrigin::CommandLine
+        };
+    }
+    a.apply_method_defaults();
+    Ok(())
+}
+
+/// [`check`], also telling whether some case is unstable (for the exit status).
+pub fn check_run(model_path: &Path, args: &CheckArgs) -> Result<CheckOutcome, AppError> {
     let mut model = load_model(model_path)?;
     if let Some(m) = args.method {
         model.analysis.method = m;
     }
+    apply_settings(
+        &mut model,
+        args.stiffness.as_deref(),
+        args.notional.as_deref(),
+    )?;
     let table = resolve_table(&model, model_path, args.combos.as_deref())?;
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
     let arranged = crate::arrange::arrange(&model);
@@ -202,9 +290,13 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
         table.title, table.standard, table.edition
     );
     let body = crate::report::check::render(&model, &report, &title, args.format);
-    Ok(match args.format {
+    let text = match args.format {
         OutputFormat::Table => expansion_summary(&expansion) + "\n" + &body,
         _ => body,
+    };
+    Ok(CheckOutcome {
+        text,
+        unstable: report.cases.iter().any(|c| !c.stable),
     })
 }
 

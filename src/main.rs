@@ -96,6 +96,15 @@ struct CheckCli {
     /// model's [analysis] method.
     #[arg(long = "second-order", value_name = "METHOD")]
     method: Option<SecondOrderMethod>,
+    /// Analysis stiffness: gross, aci-cracked, aisc-direct, or auto (what the method calls
+    /// for: AISC 360-16 §C2.3 for aisc-b1b2 and direct, ACI 318-19 Table 6.6.3.1.1(a) for
+    /// aci-magnifier, gross for ec3-alpha-cr); overrides the model.
+    #[arg(long, value_name = "PRESET")]
+    stiffness: Option<String>,
+    /// Notional loads: auto (what the method calls for), none, aisc, ec3-imperfection, or an
+    /// AISC coefficient such as 0.003; overrides the model.
+    #[arg(long, value_name = "KIND")]
+    notional: Option<String>,
     /// Only the factored cases whose id starts with this.
     #[arg(long)]
     case: Option<String>,
@@ -107,8 +116,11 @@ struct CheckCli {
     out: Output,
 }
 
-fn run(cli: Cli) -> Result<(String, Option<PathBuf>), AppError> {
-    Ok(match cli.command {
+/// The text to print, where to write it, and whether some case is unstable.
+type Outcome = (String, Option<PathBuf>, bool);
+
+fn run(cli: Cli) -> Result<Outcome, AppError> {
+    let (text, path) = match cli.command {
         Command::Solve(a) => (app::solve(&a.model, &a.case, a.format)?, a.out.output),
         Command::Cases(a) => (
             app::cases(&a.model, a.combos.as_deref(), &a.sets, a.format)?,
@@ -120,25 +132,37 @@ fn run(cli: Cli) -> Result<(String, Option<PathBuf>), AppError> {
                 combos: a.combos,
                 sets: a.sets,
                 method: a.method,
+                stiffness: a.stiffness,
+                notional: a.notional,
                 case: a.case,
                 format: a.format,
             };
-            (app::check(&a.model, &args)?, a.out.output)
+            let outcome = app::check_run(&a.model, &args)?;
+            return Ok((outcome.text, a.out.output, outcome.unstable));
         }
-    })
+    };
+    Ok((text, path, false))
 }
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
-    let result = run(cli).and_then(|(text, path)| match path {
-        Some(p) => app::write_output(&p, &text),
-        None => app::write_stdout(&text),
-    });
-    match result {
-        Ok(()) => ExitCode::SUCCESS,
-        Err(e) => {
-            eprintln!("{:?}", miette::Report::new(e));
-            ExitCode::FAILURE
+    let result = run(cli).and_then(|(text, path, unstable)| {
+        match path {
+            Some(p) => app::write_output(&p, &text),
+            None => app::write_stdout(&text),
         }
-    }
+        .map(|()| unstable)
+    });
+    ExitCode::from(match result {
+        Ok(false) => app::exit::OK,
+        Ok(true) => app::exit::UNSTABLE,
+        Err(e) => {
+            let code = match e {
+                AppError::Usage(_) => app::exit::USAGE,
+                _ => app::exit::FAILED,
+            };
+            eprintln!("{:?}", miette::Report::new(e));
+            code
+        }
+    })
 }

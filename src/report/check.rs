@@ -7,7 +7,7 @@ use super::{CAUTION, OutputFormat, num, opt, table_of};
 use crate::check::story::StiffnessSource;
 use crate::check::{CaseCheck, CheckReport, MemberCheck};
 use crate::envelope::{GoverningMoment, governing};
-use crate::model::{Model, SecondOrderMethod};
+use crate::model::{Model, NotionalLoads, SecondOrderMethod, SettingOrigin, StiffnessPreset};
 use crate::units::Dimension;
 
 /// What the report says about the method in use.
@@ -93,7 +93,8 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
         "Second-order method: {}\n",
         method_title(report.method)
     ));
-    out.push_str(&format!("Analysis stiffness: {}\n\n", report.stiffness));
+    out.push_str(&settings_text(report));
+    out.push('\n');
     let lu = u.label(Dimension::Length);
     let rows = report
         .stories
@@ -143,6 +144,54 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
     );
     out.push_str(&format!("{CAUTION}\n"));
     out
+}
+
+/// Plain words for where a setting came from.
+fn origin_words(o: SettingOrigin, method: SecondOrderMethod) -> String {
+    match o {
+        SettingOrigin::Model => "from the model".into(),
+        SettingOrigin::MethodDefault => format!("default of the {method} method"),
+        SettingOrigin::CommandLine => "from the command line".into(),
+    }
+}
+
+/// The heading lines on the analysis stiffness and the notional loads, each with where it
+/// came from (issue 7 item 8).
+pub fn settings_text(report: &CheckReport) -> String {
+    let stiffness = match report.stiffness {
+        StiffnessPreset::Gross => "gross section properties",
+        StiffnessPreset::AciCracked => {
+            "ACI 318-19 Table 6.6.3.1.1(a): 0.70 Ig columns, 0.35 Ig beams, 1.0 Ag"
+        }
+        StiffnessPreset::AiscDirect => {
+            "AISC 360-16 §C2.3 direct-analysis rules: 0.8·τb·EI with τb = 1.0, 0.8·EA"
+        }
+    };
+    let notional = match report.notional {
+        NotionalLoads::Auto => match report.method {
+            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => {
+                "AISC 360-16 §C2.2b, 0.002·Yi (+0.001·Yi per §C2.3(c) with τb = 1.0)".to_string()
+            }
+            SecondOrderMethod::Ec3AlphaCr => "EN 1993-1-1 §5.3.2 sway imperfection φ·N".into(),
+            SecondOrderMethod::AciMagnifier => "none".into(),
+        },
+        NotionalLoads::None => "none".into(),
+        NotionalLoads::Aisc { coefficient } => format!(
+            "AISC 360-16 §C2.2b, {coefficient}·Yi{}",
+            if report.stiffness == StiffnessPreset::AiscDirect {
+                " (+0.001·Yi per §C2.3(c) with τb = 1.0, shown as its own term)"
+            } else {
+                ""
+            }
+        ),
+        NotionalLoads::Ec3Imperfection => "EN 1993-1-1 §5.3.2 sway imperfection φ·N".into(),
+    };
+    format!(
+        "Analysis stiffness: {} — {stiffness} ({})\nNotional loads: {notional} ({})\n",
+        report.stiffness,
+        origin_words(report.origin.stiffness, report.method),
+        origin_words(report.origin.notional, report.method),
+    )
 }
 
 /// The governing design moment of each member over the stable cases.
@@ -216,11 +265,18 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
         "  elastic buckling: {buckling}; direct second-order analysis: {direct}\n"
     ));
     if c.notional.iter().any(|&n| n != 0.0) {
-        let list: Vec<String> = c.notional.iter().map(|&n| f(n)).collect();
+        let list = |v: &[f64]| v.iter().map(|&n| f(n)).collect::<Vec<String>>().join(", ");
         out.push_str(&format!(
             "  notional loads at story tops ({lf}): {}\n",
-            list.join(", ")
+            list(&c.notional)
         ));
+        if c.notional_terms.len() > 1 {
+            for t in &c.notional_terms {
+                out.push_str(&format!("    of which {}: {}\n", t.rule, list(&t.forces)));
+            }
+        } else if let Some(t) = c.notional_terms.first() {
+            out.push_str(&format!("    rule: {}\n", t.rule));
+        }
     }
     if !c.stable {
         out.push_str("  UNSTABLE: the loads exceed a critical load; no design values are given\n");
