@@ -52,12 +52,27 @@ fn direct_method_defaults_to_the_chapter_c_rules() {
     assert_eq!(r["stiffness"], "aisc-direct");
     assert_eq!(r["origin"]["stiffness"], "method-default");
     assert_eq!(r["origin"]["notional"], "method-default");
-    let o = run(&["check", PORTAL, "--second-order", "direct"]);
+    let o = run(&["check", PORTAL, "--second-order", "direct", "--detail"]);
     let text = String::from_utf8_lossy(&o.stdout);
+    // The settings table of the summary: the setting name, then a wide gap.
+    let line = |key: &str| -> String {
+        text.lines()
+            .find(|l| l.trim_start().starts_with(&format!("{key}   ")))
+            .unwrap_or_else(|| panic!("no {key} line in\n{text}"))
+            .to_string()
+    };
+    let stiffness = line("analysis stiffness");
     assert!(
-        text.contains("Analysis stiffness: aisc-direct — AISC 360-16 §C2.3")
-            && text.contains("(default of the direct method)"),
-        "{text}"
+        stiffness.contains("aisc-direct: AISC 360-16 §C2.3")
+            && stiffness.contains("method default (direct)"),
+        "{stiffness}"
+    );
+    let notional = line("notional loads");
+    assert!(
+        notional.contains("0.0020·α·Yi (AISC 360-16 §C2.2b)")
+            && notional.contains("0.001·α·Yi of §C2.3(c)")
+            && notional.contains("method default (direct)"),
+        "{notional}"
     );
     // The gravity-only cases carry notional loads as two terms: 0.002·Yi (§C2.2b) and the
     // 0.001·Yi of §C2.3(c), in the ratio 2 : 1 at every level (closed form: both are

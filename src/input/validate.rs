@@ -717,12 +717,9 @@ fn analysis(
     if let Some(m) = &a.method {
         out.method = ctx.choice::<SecondOrderMethod>(m, "analysis.method", &METHOD_NAMES)?;
     }
-    if let Some(s) = &a.stiffness {
-        if s.get_ref() != "auto" {
-            out.stiffness =
-                ctx.choice::<StiffnessPreset>(s, "analysis.stiffness", &STIFFNESS_NAMES)?;
-            out.origin.stiffness = SettingOrigin::Model;
-        }
+    if let Some(s) = a.stiffness.as_ref().filter(|s| s.get_ref() != "auto") {
+        out.stiffness = ctx.choice::<StiffnessPreset>(s, "analysis.stiffness", &STIFFNESS_NAMES)?;
+        out.origin.stiffness = SettingOrigin::Model;
     }
     for (role, v) in &a.inertia_factor {
         let field = format!("analysis.inertia_factor.{role}");
