@@ -165,11 +165,18 @@ pub struct CheckArgs {
     /// `2.3.1-2a/N+` included).
     pub case: Option<String>,
     pub format: OutputFormat,
+    /// Add the approximate check (hand methods beside the stiffness solution).
+    pub approximate: bool,
 }
 
 /// `plumbline check MODEL`: every factored case with and without sway, amplified for
 /// second-order effects, stories classified.
 pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
+    if args.approximate && args.format == OutputFormat::Csv {
+        return Err(AppError::Usage(
+            "--approximate gives a table or JSON: use --format table or --format json".into(),
+        ));
+    }
     let mut model = load_model(model_path)?;
     if let Some(m) = args.method {
         model.analysis.method = m;
@@ -202,9 +209,40 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
         table.title, table.standard, table.edition
     );
     let body = crate::report::check::render(&model, &report, &title, args.format);
+    let body = if args.approximate {
+        with_approximate(&model, &cases, args, body).map_err(|e| analysis(model_path, e))?
+    } else {
+        body
+    };
     Ok(match args.format {
         OutputFormat::Table => expansion_summary(&expansion) + "\n" + &body,
         _ => body,
+    })
+}
+
+/// The check report with the approximate check of the same cases: a text section after
+/// it, or an `approximate` key in the JSON document. CSV has no room for it.
+fn with_approximate(
+    model: &Model,
+    cases: &[crate::combos::FactoredCase],
+    args: &CheckArgs,
+    body: String,
+) -> Result<String, CheckError> {
+    use crate::approx::{ApproxError, Thresholds, approximate_check};
+    let r = approximate_check(model, cases, &Thresholds::default()).map_err(|e| match e {
+        ApproxError::Stories(s) => CheckError::Stories(s),
+        ApproxError::System(s) => CheckError::System(s),
+    })?;
+    Ok(match args.format {
+        OutputFormat::Table => body + "\n" + &crate::report::approx::render_text(model, &r),
+        OutputFormat::Json => match serde_json::from_str::<serde_json::Value>(&body) {
+            Ok(serde_json::Value::Object(mut doc)) => {
+                doc.insert("approximate".into(), crate::report::approx::to_json(&r));
+                serde_json::to_string_pretty(&doc).unwrap_or(body) + "\n"
+            }
+            _ => body,
+        },
+        OutputFormat::Csv => body, // refused in `check`
     })
 }
 

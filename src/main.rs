@@ -103,6 +103,11 @@ struct CheckCli {
     /// csv: one row per case and member.
     #[arg(long, value_enum, default_value_t)]
     format: OutputFormat,
+    /// Also estimate every member's first-order moments by the hand methods (beams with
+    /// inflection points at 0.1 L, columns by joint unbalance, portal method for lateral
+    /// load) beside the computed ones, and flag members far off (table or json).
+    #[arg(long)]
+    approximate: bool,
     #[command(flatten)]
     out: Output,
 }
@@ -122,6 +127,7 @@ fn run(cli: Cli) -> Result<(String, Option<PathBuf>), AppError> {
                 method: a.method,
                 case: a.case,
                 format: a.format,
+                approximate: a.approximate,
             };
             (app::check(&a.model, &args)?, a.out.output)
         }
