@@ -181,14 +181,14 @@ fn regular(bays: usize, n_stories: usize) -> (Frame, usize, Vec<Vec<usize>>) {
             columns[s][g] = f.member(line[s], line[s + 1], 200e9, 0.02, 2e-4);
         }
     }
-    for k in 1..=n_stories {
-        for b in 0..bays {
-            f.member(nodes[b][k], nodes[b + 1][k], 200e9, 0.02, 4e-4);
+    for pair in nodes.windows(2) {
+        for (&a, &b) in pair[0].iter().zip(&pair[1]).skip(1) {
+            f.member(a, b, 200e9, 0.02, 4e-4);
         }
     }
     let h = f.case("H", ActionCategory::Wind);
-    for k in 1..=n_stories {
-        f.nodal(h, nodes[0][k], 50e3, 0.0, 0.0);
+    for &n in nodes[0].iter().skip(1) {
+        f.nodal(h, n, 50e3, 0.0, 0.0);
     }
     (f, h, columns)
 }
@@ -348,4 +348,91 @@ fn a_wrong_sign_on_one_load_is_flagged() {
         "{:?}",
         flags[0]
     );
+}
+
+#[test]
+fn random_frames_keep_statics_and_raise_few_flags() {
+    use common::random_frame::RandomFrame;
+    let (mut judged, mut flagged) = (0usize, 0usize);
+    for seed in 0..100 {
+        let rf = RandomFrame::new(seed);
+        let st = stories(&rf.model).expect("regular stories");
+        let r =
+            approximate_check(&rf.model, &rf.cases, &Thresholds::default()).expect("check runs");
+        for (fc, c) in rf.cases.iter().zip(&r.cases) {
+            // Statics (closed form): the portal shears of a story add up to the story shear,
+            // the lateral loads applied at and above its top (the random frames load the
+            // left node of each level).
+            for s in &st {
+                let v_story: f64 = fc
+                    .factors
+                    .iter()
+                    .flat_map(|&(k, f)| {
+                        rf.model.load_cases[k]
+                            .nodal
+                            .iter()
+                            .filter(|nl| rf.model.nodes[nl.node].y >= s.top - 1e-3)
+                            .map(move |nl| f * nl.fx)
+                    })
+                    .sum();
+                let sum: f64 = s
+                    .columns
+                    .iter()
+                    .map(|&m| c.members[m].portal_shear.expect("column"))
+                    .sum();
+                assert!((sum - v_story).abs() <= 1e-9 * v_story.abs().max(1.0));
+            }
+            for e in c.members.iter().filter(|e| e.estimated) {
+                judged += 1;
+                flagged += usize::from(!e.flags.is_empty());
+                if !e.flags.is_empty() && std::env::var("APPROX_DEBUG").is_ok() {
+                    println!("{seed} {} {} {:?} {:?}", c.id, e.member, e.role, e.flags);
+                }
+            }
+        }
+    }
+    // Correct frames: the hand methods agree with the stiffness solution within the
+    // thresholds for nearly every judged member result. Measured: 80 of 7125 (1.1 %) with
+    // the default thresholds; the bound of 3 % is the tool's own acceptance figure
+    // (common practice, no source). The flags left come from short spans between long ones
+    // and point loads near a support, where the hand methods are known to be poor.
+    let rate = flagged as f64 / judged as f64;
+    println!(
+        "approximate check on 100 random frames: {flagged} of {judged} member results flagged ({:.2} %)",
+        100.0 * rate
+    );
+    assert!(rate < 0.03, "{flagged} of {judged}");
+}
+
+#[test]
+fn check_option_prints_the_side_by_side_table_in_every_format() {
+    // Command-line contract (project requirement, no external source): the table, the
+    // JSON key and the CSV file, each with the caution.
+    let run = |format: &str| {
+        let o = std::process::Command::new(env!("CARGO_BIN_EXE_plumbline"))
+            .args([
+                "check",
+                "examples/office-3story.toml",
+                "--approximate",
+                "--format",
+                format,
+            ])
+            .current_dir(env!("CARGO_MANIFEST_DIR"))
+            .output()
+            .expect("runs");
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8_lossy(&o.stdout).into_owned()
+    };
+    let text = run("table");
+    assert!(text.contains("Approximate check"));
+    assert!(text.contains("M computed") && text.contains("M approx"));
+    assert!(text.trim_end().ends_with(plumbline::CAUTION));
+    let json: serde_json::Value = serde_json::from_str(&run("json")).expect("JSON");
+    assert!(
+        json["approximate"]["cases"]
+            .as_array()
+            .is_some_and(|c| !c.is_empty())
+    );
+    let csv = run("csv");
+    assert!(csv.contains("# approximate.csv"));
 }

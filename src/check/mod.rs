@@ -97,6 +97,11 @@ pub struct CaseCheck {
     pub stable: bool,
     pub stories: Vec<StoryFigures>,
     pub members: Vec<MemberCheck>,
+    /// Largest out-of-balance force at a node of the case's first-order solution, N
+    /// (moments divided by a unit length; a combination sums |factor| × each part's).
+    pub residual: f64,
+    /// `residual` relative to the largest applied load component.
+    pub residual_relative: f64,
 }
 
 /// One node's displacement in a buckled shape (dimensionless, largest translation 1).
@@ -121,6 +126,15 @@ pub struct CheckReport {
 
 /// Run the check of `model` for `cases` with the model's analysis options.
 pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, CheckError> {
+    check_with_progress(model, cases, &mut |_, _| {})
+}
+
+/// [`check`], calling `progress(done, total)` after each factored case.
+pub fn check_with_progress(
+    model: &Model,
+    cases: &[FactoredCase],
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<CheckReport, CheckError> {
     if cases.is_empty() {
         return Err(CheckError::NoCases);
     }
@@ -141,8 +155,9 @@ pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, Check
         stiffness: &stiffness,
     };
     let mut out = Vec::new();
-    for fc in cases {
+    for (k, fc) in cases.iter().enumerate() {
         out.extend(ctx.case(fc, &parts)?);
+        progress(k + 1, cases.len());
     }
     Ok(CheckReport {
         title: model.title.clone(),
@@ -249,6 +264,15 @@ impl Context<'_> {
                 alpha,
                 buckling.as_ref().map(|b| b.alpha_cr),
             );
+            // EN 1993-1-1 judges the structure by one α_cr, not story by story.
+            let mut figures = figures;
+            if model.analysis.method == SecondOrderMethod::Ec3AlphaCr {
+                ec3::judge_structure(
+                    &mut figures,
+                    buckling.as_ref().map(|b| b.alpha_cr),
+                    direct_status.converged,
+                );
+            }
             let members = member::members(&member::MemberInput {
                 model,
                 stories: self.stories,
@@ -289,6 +313,8 @@ impl Context<'_> {
                 stable,
                 stories: figures,
                 members,
+                residual: total.residual.max_nodal,
+                residual_relative: total.residual.relative(),
             });
         }
         Ok(out)
