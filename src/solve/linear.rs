@@ -8,9 +8,7 @@ use super::beam::{Side, fixed_end_forces, internal_forces_at, split_loads};
 use super::element::transformation;
 use super::forces::EndForces;
 use super::mesh::Mesh;
-use super::system::{
-    Direction, Dof, FreeDirection, System, SystemError, element_matrices,
-};
+use super::system::{Direction, Dof, FreeDirection, System, SystemError, element_matrices};
 use crate::model::{LocalLoad, Model};
 
 /// Loads applied to a mesh: nodal forces (global axes) and element loads (local axes).

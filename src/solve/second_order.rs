@@ -236,7 +236,11 @@ impl Condensed {
             let k_star = k_ee - Matrix6::from_fn(|r, c| k_ie.column(r).dot(&w.column(c)));
             condensed.push(t.transpose() * k_star * t);
             blocks.push(Some(MemberBlock {
-                interior: range.clone().skip(1).map(|ie| mesh.elements[ie].i).collect(),
+                interior: range
+                    .clone()
+                    .skip(1)
+                    .map(|ie| mesh.elements[ie].i)
+                    .collect(),
                 k_ii,
                 w,
             }));
@@ -731,7 +735,12 @@ pub fn member_span_extremes(
             for ie in range.clone() {
                 let e = &mesh.elements[ie];
                 let p = element_p_delta(mesh, r, loads, axial, ie);
-                let s = moment_extremes(e.length, &r.element_forces[ie], &loads.element[ie], Some(&p));
+                let s = moment_extremes(
+                    e.length,
+                    &r.element_forces[ie],
+                    &loads.element[ie],
+                    Some(&p),
+                );
                 let shifted = SpanExtremes {
                     max: (s.max.0 + e.x0, s.max.1),
                     min: (s.min.0 + e.x0, s.min.1),
