@@ -95,7 +95,7 @@ fx = -10
 }
 
 /// The member-load direction key for gravity loads (renamed by issue 10 item 6).
-const DOWN: &str = "gravity";
+const DOWN: &str = "down";
 
 /// The model and its factored cases under the shipped ASCE/SEI 7-16 strength table.
 fn frame(bays: usize, stories: usize) -> (Model, Vec<FactoredCase>) {

@@ -19,6 +19,7 @@ fn case(id: &str, category: ActionCategory, group: Option<&str>) -> LoadCase {
         description: String::new(),
         category,
         alternative_group: group.map(str::to_string),
+        arrange: false,
         nodal: Vec::new(),
         member: Vec::new(),
     }

@@ -61,19 +61,25 @@ pub enum LoadDirection {
     GlobalX,
     /// Global Y (positive upward).
     GlobalY,
-    /// Global −Y with a positive magnitude acting downward.
+    /// Global −Y with a positive magnitude acting downward (`direction = "down"` in the
+    /// model file).
+    #[strum(serialize = "down")]
+    #[serde(rename = "down")]
     Gravity,
 }
 
-/// How a distributed load in a global direction is measured on a sloped member.
+/// What length a distributed load in a global direction is spread over on a sloped member
+/// (`spread_over = "member" | "projection"` in the model file).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
 pub enum Measure {
-    /// Intensity per unit length along the member.
+    /// Intensity per unit length along the member (`spread_over = "member"`).
     #[default]
+    #[serde(rename = "member")]
     AlongMember,
     /// Intensity per unit length of the member's projection perpendicular to the load
-    /// (horizontal projection for gravity, vertical projection for a global-X load).
+    /// (horizontal projection for a downward load, vertical projection for a global-X load;
+    /// `spread_over = "projection"`).
+    #[serde(rename = "projection")]
     Projected,
 }
 
@@ -127,6 +133,9 @@ pub struct LoadCase {
     /// alternatives (wind from the left or from the right); each factored case is generated
     /// once per alternative. Cases without a group add up with every alternative.
     pub alternative_group: Option<String>,
+    /// Live load on beams placed in the arrangements of [`crate::arrange`] (ACI 318-19
+    /// §6.4.3, EN 1992-1-1 §5.1.3) instead of on every span at once.
+    pub arrange: bool,
     pub nodal: Vec<NodalLoad>,
     /// Member loads, including self-weight already expanded into gravity loads.
     pub member: Vec<MemberLoad>,

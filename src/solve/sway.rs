@@ -109,8 +109,9 @@ impl SwaySplit {
             let mut h = vec![0.0; nl];
             h[m] = 1.0;
             let u = level_displacements(&free, &level_nodes, &h);
+            // (the same solve as `unit_displacements`, before `self` exists)
             for l in 0..nl {
-                flexibility[(l, m)] = mean_of(&u, &level_nodes[l]);
+                flexibility[(l, m)] = mean_x(&u, &level_nodes[l]);
             }
         }
         for l in 0..nl {
@@ -156,6 +157,14 @@ impl SwaySplit {
         let mut loads = self.zero_loads();
         loads.add_case(model, &self.free.mesh, case, 1.0);
         self.split(model, &loads)
+    }
+
+    /// Node displacements of the free frame under a unit X force (1 N) at level `l`, shared
+    /// equally by its nodes (one solve; nothing is stored).
+    pub fn unit_displacements(&self, l: usize) -> Vec<[f64; 3]> {
+        let mut h = vec![0.0; self.level_nodes.len()];
+        h[l] = 1.0;
+        level_displacements(&self.free, &self.level_nodes, &h)
     }
 
     /// The free frame under lateral forces `h[l]` (N, +X) at the story levels, each shared
@@ -207,7 +216,7 @@ fn level_displacements(free: &FirstOrder, level_nodes: &[Vec<usize>], h: &[f64])
 }
 
 /// Mean X translation of `nodes` in the node displacements `u` (0 for no nodes), m.
-fn mean_of(u: &[[f64; 3]], nodes: &[usize]) -> f64 {
+pub fn mean_x(u: &[[f64; 3]], nodes: &[usize]) -> f64 {
     if nodes.is_empty() {
         return 0.0;
     }
@@ -219,5 +228,5 @@ pub fn mean_ux(s: &Solution, nodes: &[usize]) -> f64 {
     if nodes.is_empty() {
         return 0.0;
     }
-    mean_of(&s.displacements, nodes)
+    mean_x(&s.displacements, nodes)
 }

@@ -2,6 +2,8 @@
 //! integration tests.
 #![allow(dead_code)]
 
+pub mod random_frame;
+
 use plumbline::model::*;
 use plumbline::units::{Unit, UnitSystem};
 
@@ -110,6 +112,7 @@ impl Frame {
             description: String::new(),
             category,
             alternative_group: None,
+            arrange: false,
             nodal: vec![],
             member: vec![],
         });
