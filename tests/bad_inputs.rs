@@ -52,6 +52,11 @@ fn base() -> String {
     std::fs::read_to_string(corpus_dir().join("base.toml")).unwrap()
 }
 
+/// The base table's text.
+fn table_base() -> String {
+    std::fs::read_to_string(corpus_dir().join("table-base.toml")).unwrap()
+}
+
 /// A model whose `[frame]` has `stories` stories of one bay: its `[frame]` header is on
 /// line 20 (the base model's header, materials and sections above it).
 fn frame_model(stories: usize) -> String {
@@ -89,6 +94,25 @@ fn generate(kind: &str, dir: &Path) -> String {
                 text += &format!("\n[[case]]\nid = \"extra{k}\"\ncategory = \"dead\"\n");
             }
             ("many-cases.toml", text.into_bytes())
+        }
+        // A factor nested 20,000 parentheses deep in the base table (line 25).
+        "deep-factor" => {
+            let factor = format!("{}gamma_w{}", "(".repeat(20_000), ")".repeat(20_000));
+            let text =
+                table_base().replacen("{ W = \"gamma_w\" }", &format!("{{ W = \"{factor}\" }}"), 1);
+            ("deep-factor.toml", text.into_bytes())
+        }
+        // A combination of 24 optional terms, each its own group: 2^24 variants.
+        "explosive-table" => {
+            let terms: Vec<String> = (0..24)
+                .map(|k| format!("{{ W = 0.1, optional = \"g{k}\" }}"))
+                .collect();
+            let text = table_base().replacen(
+                "terms = [{ D = 1.2 }, { W = \"gamma_w\" }]",
+                &format!("terms = [{{ D = 1.2 }}, {}]", terms.join(", ")),
+                1,
+            );
+            ("explosive-table.toml", text.into_bytes())
         }
         other => {
             let copied = other
