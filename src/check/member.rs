@@ -520,17 +520,16 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         }
         None => span,
     };
-    if method == SecondOrderMethod::AciMagnifier {
-        if let Some(r) = ends
+    if method == SecondOrderMethod::AciMagnifier
+        && let Some(r) = ends
             .iter()
             .find_map(|e| above_aci_limit(e.design, e.first_order))
-        {
-            within_limits = false;
-            notes.push(format!(
-                "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
-                 (ACI 318-19 6.2.5.3, from memory)"
-            ));
-        }
+    {
+        within_limits = false;
+        notes.push(format!(
+            "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
+             (ACI 318-19 6.2.5.3, from memory)"
+        ));
     }
     if method == SecondOrderMethod::Ec3AlphaCr && compression > 0.0 {
         notes.push("member imperfections and P-δ are left to the member buckling checks (EN 1993-1-1 5.2.2(3)c, 6.3)".into());
