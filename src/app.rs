@@ -7,8 +7,8 @@ use std::path::{Path, PathBuf};
 
 use crate::check::CheckError;
 use crate::combos::{
-    ComboTable, cases_report, expand, expansion_summary, load_table, render_table,
-    render_table_list,
+    ComboTable, Settings, cases_report_with, expand_with, expansion_summary, load_table,
+    render_table, render_table_list,
 };
 use crate::diag::FileError;
 use crate::input::load_model;
@@ -63,6 +63,12 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
         let (k, v) = s
             .split_once('=')
             .ok_or_else(|| AppError::Usage(format!("--set expects PARAM=VALUE, got \"{s}\"")))?;
+        let k = k.trim();
+        if k.is_empty() {
+            return Err(AppError::Usage(format!(
+                "--set \"{s}\": the parameter name before `=` is missing (expected PARAM=VALUE, e.g. --set l_companion=0.5)"
+            )));
+        }
         let v: f64 = v.trim().parse().map_err(|_| {
             AppError::Usage(format!(
                 "--set {k}: expected a number, got \"{}\"",
@@ -74,9 +80,40 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
                 "--set {k}: the value must be finite"
             )));
         }
-        out.insert(k.trim().to_string(), v);
+        out.insert(k.to_string(), v);
     }
     Ok(out)
+}
+
+/// The folder of the model file (tables named in the model are relative to it).
+fn model_dir(model_path: &Path) -> PathBuf {
+    model_path
+        .parent()
+        .map(Path::to_path_buf)
+        .unwrap_or_else(|| PathBuf::from("."))
+}
+
+/// The model's own table (`[combinations] table`), when it names one; an error reading it
+/// points at the model's line.
+pub fn own_table(model: &Model, model_path: &Path) -> Result<Option<ComboTable>, AppError> {
+    let Some(name) = model.combos.table.as_deref() else {
+        return Ok(None);
+    };
+    load_table(name, Some(&model_dir(model_path)))
+        .map(Some)
+        .map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e); // an error inside the table file itself
+            }
+            let w = &model.combos.written;
+            let mut located = w.error(
+                w.table.clone(),
+                "combinations.table",
+                format!("{} ({})", e.message, e.file),
+            );
+            located.help = e.help;
+            AppError::from(located)
+        })
 }
 
 /// The combination table a command uses: `--combos` if given, else the model's
@@ -86,26 +123,44 @@ pub fn resolve_table(
     model_path: &Path,
     combos: Option<&str>,
 ) -> Result<ComboTable, AppError> {
-    let base = model_path
-        .parent()
-        .map(Path::to_path_buf)
-        .unwrap_or_else(|| PathBuf::from("."));
-    match (combos, model.combos.table.as_deref()) {
-        (Some(name), _) => Ok(load_table(name, Some(Path::new(".")))?),
-        (None, Some(name)) => Ok(load_table(name, Some(&base))?),
-        (None, None) => Err(AppError::Usage(format!(
-            "{}: no combination table: name one with --combos NAME|PATH or with \
-             [combinations] table = \"...\" in the model (`plumbline combos` lists the shipped ones)",
-            model_path.display()
-        ))),
+    match combos {
+        Some(name) => load_table(name, Some(Path::new("."))).map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e);
+            }
+            AppError::from(FileError {
+                file: "command line".to_string(),
+                field: format!("--combos {name}"),
+                ..e
+            })
+        }),
+        None => own_table(model, model_path)?.ok_or_else(|| {
+            AppError::Usage(format!(
+                "{}: no combination table: name one with --combos NAME|PATH or with \
+                 [combinations] table = \"...\" in the model (`plumbline combos` lists the shipped ones)",
+                model_path.display()
+            ))
+        }),
     }
 }
 
-/// The model's parameter overrides, then the command line's on top.
-fn overrides(model: &Model, sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
-    let mut params = model.combos.params.clone();
-    params.extend(parse_sets(sets)?);
-    Ok(params)
+/// The table a command uses and the settings the model and `--set` give it: parameters with
+/// their locations, load-level conversions, and the levels of the model's own table for
+/// load cases that state none.
+fn table_and_settings(
+    model: &Model,
+    model_path: &Path,
+    combos: Option<&str>,
+    sets: &[String],
+) -> Result<(ComboTable, Settings), AppError> {
+    let sets = parse_sets(sets)?;
+    let table = resolve_table(model, model_path, combos)?;
+    let own = match combos {
+        Some(_) => own_table(model, model_path)?,
+        None => Some(table.clone()),
+    };
+    let settings = Settings::for_model(model, own.as_ref(), &sets);
+    Ok((table, settings))
 }
 
 /// `plumbline solve MODEL --case ID`: the first-order solution of one load case.
@@ -128,7 +183,16 @@ pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Stri
 pub fn combos(table: Option<&str>) -> Result<String, AppError> {
     Ok(match table {
         None => render_table_list()?,
-        Some(name) => render_table(&load_table(name, Some(Path::new(".")))?),
+        Some(name) => render_table(&load_table(name, Some(Path::new("."))).map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e);
+            }
+            AppError::from(FileError {
+                file: "command line".to_string(),
+                field: format!("combos {name}"),
+                ..e
+            })
+        })?),
     })
 }
 
@@ -140,11 +204,11 @@ pub fn cases(
     format: OutputFormat,
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
-    let table = resolve_table(&model, model_path, combos)?;
-    Ok(cases_report(
+    let (table, settings) = table_and_settings(&model, model_path, combos, sets)?;
+    Ok(cases_report_with(
         &model.load_cases,
         &table,
-        &overrides(&model, sets)?,
+        &settings,
         format,
     )?)
 }
@@ -168,8 +232,9 @@ pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     if let Some(m) = args.method {
         model.analysis.method = m;
     }
-    let table = resolve_table(&model, model_path, args.combos.as_deref())?;
-    let expansion = expand(&table, &model.load_cases, &overrides(&model, &args.sets)?)?;
+    let (table, settings) =
+        table_and_settings(&model, model_path, args.combos.as_deref(), &args.sets)?;
+    let expansion = expand_with(&table, &model.load_cases, &settings)?;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
         // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.

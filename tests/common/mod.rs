@@ -105,14 +105,7 @@ impl Frame {
     }
 
     pub fn case(&mut self, id: &str, category: ActionCategory) -> usize {
-        self.model.load_cases.push(LoadCase {
-            id: id.into(),
-            description: String::new(),
-            category,
-            alternative_group: None,
-            nodal: vec![],
-            member: vec![],
-        });
+        self.model.load_cases.push(LoadCase::new(id, category));
         self.model.load_cases.len() - 1
     }
 
