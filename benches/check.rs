@@ -46,7 +46,7 @@ self_weight = true
 [[case.member_load]]
 members = "B*"
 kind = "uniform"
-direction = "gravity"
+direction = "down"
 w = 20
 [[case]]
 id = "L"
@@ -54,7 +54,7 @@ category = "live"
 [[case.member_load]]
 members = "B*"
 kind = "uniform"
-direction = "gravity"
+direction = "down"
 w = 10
 [[case]]
 id = "WL"

@@ -5,15 +5,17 @@
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
-use crate::check::CheckError;
+use crate::check::{CheckError, CheckReport};
 use crate::combos::{
-    ComboTable, Settings, cases_report_with, expand_with, expansion_summary, load_table,
-    render_table, render_table_list,
+    ComboTable, FactoredCase, Settings, expand_with, expansion_summary, load_table,
+    render_expansion, render_table, render_table_list,
 };
 use crate::diag::FileError;
+use crate::envelope::Envelope;
 use crate::input::load_model;
 use crate::model::{Model, SecondOrderMethod};
-use crate::report::OutputFormat;
+use crate::report::summary::{self, Selection, Setting, Summary, TableInfo};
+use crate::report::{CheckFormat, OutputFormat};
 use crate::solve::SystemError;
 
 /// Why a command failed; rendered for people by `miette` at the edge.
@@ -204,13 +206,15 @@ pub fn cases(
     format: OutputFormat,
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
-    let (table, settings) = table_and_settings(&model, model_path, combos, sets)?;
-    Ok(cases_report_with(
-        &model.load_cases,
+    let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
+    let arranged = crate::arrange::arrange(&model);
+    let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    Ok(render_expansion(
         &table,
-        &settings,
+        &expansion,
+        &arranged.model.load_cases,
         format,
-    )?)
+    ))
 }
 
 /// Options of [`check`].
@@ -220,44 +224,406 @@ pub struct CheckArgs {
     pub sets: Vec<String>,
     pub method: Option<SecondOrderMethod>,
     /// Only the factored cases whose id starts with this (notional-load variants such as
-    /// `2.3.1-2a/N+` included).
+    /// `2.3.1-2a/N+` included). Implies `detail`.
     pub case: Option<String>,
-    pub format: OutputFormat,
+    pub format: CheckFormat,
+    /// Add the per-case detail to the summary (text and Markdown; JSON and CSV always
+    /// carry it).
+    pub detail: bool,
 }
 
-/// `plumbline check MODEL`: every factored case with and without sway, amplified for
-/// second-order effects, stories classified.
-pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
+/// Everything one `check` run found, before rendering.
+pub struct CheckRun {
+    pub model: Model,
+    pub model_file: String,
+    /// SHA-256 of the model file's bytes, lowercase hex.
+    pub model_sha256: String,
+    pub table: ComboTable,
+    /// The factored cases analysed (after `--case`).
+    pub cases: Vec<FactoredCase>,
+    pub report: CheckReport,
+    pub settings: Vec<Setting>,
+    pub selection: Selection,
+    pub envelope: Envelope,
+}
+
+impl CheckRun {
+    /// The summary view of this run.
+    pub fn summary(&self) -> Summary<'_> {
+        Summary {
+            model: &self.model,
+            report: &self.report,
+            model_file: self.model_file.clone(),
+            model_sha256: self.model_sha256.clone(),
+            table: TableInfo {
+                name: self.table.file.clone(),
+                title: self.table.title.clone(),
+                standard: self.table.standard.clone(),
+                edition: self.table.edition.clone(),
+                source: self.table.source.clone(),
+                caution: self.table.caution.clone(),
+            },
+            settings: self.settings.clone(),
+            selection: self.selection.clone(),
+            envelope: self.envelope.clone(),
+        }
+    }
+}
+
+/// SHA-256 of `bytes`, lowercase hex.
+pub fn sha256_hex(bytes: &[u8]) -> String {
+    use sha2::Digest;
+    sha2::Sha256::digest(bytes)
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect()
+}
+
+/// The keys the model file sets in its `[analysis]` and `[combinations]` tables (to say
+/// where each setting came from); empty when the file cannot be read again.
+fn model_keys(path: &Path) -> std::collections::BTreeSet<String> {
+    let mut out = std::collections::BTreeSet::new();
+    let Ok(text) = std::fs::read_to_string(path) else {
+        return out;
+    };
+    let Ok(doc) = text.parse::<toml::Table>() else {
+        return out;
+    };
+    for section in ["analysis", "combinations"] {
+        if let Some(t) = doc.get(section).and_then(|v| v.as_table()) {
+            out.extend(t.keys().map(|k| format!("{section}.{k}")));
+        }
+    }
+    out
+}
+
+/// Each setting of a run with its value and where it came from.
+fn settings(
+    model: &Model,
+    model_path: &Path,
+    table: &ComboTable,
+    args: &CheckArgs,
+    cli_params: &BTreeMap<String, f64>,
+) -> Vec<Setting> {
+    let keys = model_keys(model_path);
+    let from = |cli: bool, key: &str| -> String {
+        if cli {
+            "command line".into()
+        } else if keys.contains(key) {
+            format!("model file ({key})")
+        } else {
+            "program default".into()
+        }
+    };
+    let mut out = vec![Setting {
+        setting: "combination table".into(),
+        value: format!(
+            "{}: {}; {}; edition {}",
+            table.file, table.title, table.standard, table.edition
+        ),
+        source: from(args.combos.is_some(), "combinations.table"),
+    }];
+    for p in &table.params {
+        let (value, source) = if let Some(v) = cli_params.get(&p.name) {
+            (
+                crate::report::num(*v, 4),
+                "command line (--set)".to_string(),
+            )
+        } else if let Some(v) = model.combos.params.get(&p.name) {
+            (
+                crate::report::num(*v, 4),
+                "model file (combinations.params)".to_string(),
+            )
+        } else if let Some(d) = &p.default {
+            (
+                d.text.clone(),
+                format!("table default {}", p.tag.clone().unwrap_or_default())
+                    .trim()
+                    .to_string(),
+            )
+        } else {
+            (
+                "not set".into(),
+                "no default: combinations that need it are skipped".into(),
+            )
+        };
+        out.push(Setting {
+            setting: format!("parameter {}", p.name),
+            value,
+            source,
+        });
+    }
+    let a = &model.analysis;
+    out.push(Setting {
+        setting: "second-order method".into(),
+        value: format!(
+            "{}: {}",
+            a.method,
+            crate::report::check::method_title(a.method)
+        ),
+        source: from(args.method.is_some(), "analysis.method"),
+    });
+    out.push(Setting {
+        setting: "analysis stiffness".into(),
+        value: a.stiffness.to_string(),
+        source: from(false, "analysis.stiffness"),
+    });
+    for (role, f) in &a.inertia_factor {
+        out.push(Setting {
+            setting: format!("inertia factor, {role}"),
+            value: crate::report::num(*f, 3),
+            source: from(false, "analysis.inertia_factor"),
+        });
+    }
+    out.push(Setting {
+        setting: "notional loads".into(),
+        value: match a.notional {
+            crate::model::NotionalLoads::Auto => "auto (as the method calls for)".to_string(),
+            crate::model::NotionalLoads::None => "none".to_string(),
+            crate::model::NotionalLoads::Aisc { coefficient } => {
+                format!("aisc, Ni = {}·α·Yi", crate::report::num(coefficient, 4))
+            }
+            crate::model::NotionalLoads::Ec3Imperfection => {
+                "ec3-imperfection (EN 1993-1-1 §5.3.2)".to_string()
+            }
+        },
+        source: from(false, "analysis.notional"),
+    });
+    out.push(Setting {
+        setting: "elements per member (second-order)".into(),
+        value: a.segments.to_string(),
+        source: from(false, "analysis.segments"),
+    });
+    if a.method == SecondOrderMethod::AciMagnifier {
+        out.push(Setting {
+            setting: "βdns (ACI 318-19 6.6.4.4.4)".into(),
+            value: crate::report::num(a.beta_dns, 2),
+            source: from(false, "analysis.beta_dns"),
+        });
+    }
+    out.push(Setting {
+        setting: "story levels".into(),
+        value: if model.stories.is_some() {
+            "declared".into()
+        } else {
+            "column tops".into()
+        },
+        source: from(false, "analysis.story_levels"),
+    });
+    out
+}
+
+/// Run `check` on a model file: read it, form the factored cases, analyse them (calling
+/// `progress(done, total)` after each) and envelope the results.
+pub fn run_check(
+    model_path: &Path,
+    args: &CheckArgs,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<CheckRun, AppError> {
     let mut model = load_model(model_path)?;
+    let bytes = std::fs::read(model_path).unwrap_or_default();
     if let Some(m) = args.method {
         model.analysis.method = m;
     }
-    let (table, settings) =
+    let (table, combo_settings) =
         table_and_settings(&model, model_path, args.combos.as_deref(), &args.sets)?;
-    let expansion = expand_with(&table, &model.load_cases, &settings)?;
+    let cli_params = parse_sets(&args.sets)?;
+    // Arranged live load: pieces appended to the model, arrangements as alternatives.
+    let arranged = crate::arrange::arrange(&model);
+    let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
         // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.
         cases.retain(|c| c.id.starts_with(prefix.as_str()) || prefix.starts_with(c.id.as_str()));
         if cases.is_empty() {
+            let ids: Vec<&str> = expansion.cases.iter().map(|c| c.id.as_str()).collect();
             return Err(AppError::Usage(format!(
-                "no factored case id starts with \"{prefix}\""
+                "no factored case id starts with \"{prefix}\"; the cases are: {}",
+                ids.join(", ")
             )));
         }
     }
-    let mut report = crate::check::check(&model, &cases).map_err(|e| analysis(model_path, e))?;
+    let mut report = crate::check::check_with_progress(&model, &cases, progress)
+        .map_err(|e| analysis(model_path, e))?;
     if let Some(prefix) = &args.case {
         report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
     }
-    let title = format!(
-        "{}; {}; edition {}",
-        table.title, table.standard, table.edition
-    );
-    let body = crate::report::check::render(&model, &report, &title, args.format);
-    Ok(match args.format {
-        OutputFormat::Table => expansion_summary(&expansion) + "\n" + &body,
-        _ => body,
+    let selection = Selection {
+        filter: args.case.clone(),
+        table_cases: expansion.cases.len(),
+        selected: cases.len(),
+        analysed: report.cases.iter().map(|c| c.id.clone()).collect(),
+        remarks: expansion_summary(&expansion)
+            .lines()
+            .skip(1)
+            .map(str::to_string)
+            .collect(),
+    };
+    let settings = settings(&model, model_path, &table, args, &cli_params);
+    let envelope = crate::envelope::envelope(&report);
+    Ok(CheckRun {
+        model_file: model_path.display().to_string(),
+        model_sha256: sha256_hex(&bytes),
+        model,
+        table,
+        cases,
+        report,
+        settings,
+        selection,
+        envelope,
     })
+}
+
+/// The rendered output of a command: one text, or several named files (CSV tables).
+#[derive(Debug, Clone, PartialEq)]
+pub struct Rendered {
+    /// `(file name, text)`; a single text has an empty name.
+    pub files: Vec<(String, String)>,
+}
+
+impl Rendered {
+    /// One text.
+    pub fn text(text: String) -> Rendered {
+        Rendered {
+            files: vec![(String::new(), text)],
+        }
+    }
+
+    /// Everything as one text: several files each under a `# name` line.
+    pub fn joined(&self) -> String {
+        match self.files.as_slice() {
+            [(_, text)] => text.clone(),
+            files => files
+                .iter()
+                .map(|(name, text)| format!("# {name}\n{text}"))
+                .collect::<Vec<_>>()
+                .join("\n"),
+        }
+    }
+}
+
+/// Render a check run in `format` (`detail` adds the per-case tables to text and
+/// Markdown).
+pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
+    let s = run.summary();
+    match format {
+        CheckFormat::Table => {
+            let mut text = summary::text(&s);
+            if detail {
+                let d = crate::report::check::detail_text(&run.model, &run.report);
+                text = format!("{d}\n{text}");
+            }
+            Rendered::text(text)
+        }
+        CheckFormat::Md => {
+            let mut text = summary::markdown(&s);
+            if detail {
+                text.push_str(&format!(
+                    "\n## Per-case detail\n\n```text\n{}```\n\n{}\n",
+                    crate::report::check::detail_text(&run.model, &run.report),
+                    crate::CAUTION
+                ));
+            }
+            Rendered::text(text)
+        }
+        CheckFormat::Json => Rendered::text(summary::json(&s)),
+        CheckFormat::Csv => Rendered {
+            files: summary::csv_files(&s),
+        },
+    }
+}
+
+/// `plumbline check MODEL`: every factored case with and without sway, amplified for
+/// second-order effects, stories classified, enveloped into a summary.
+pub fn check_output(
+    model_path: &Path,
+    args: &CheckArgs,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<Rendered, AppError> {
+    let run = run_check(model_path, args, progress)?;
+    Ok(render_check(
+        &run,
+        args.format,
+        args.detail || args.case.is_some(),
+    ))
+}
+
+/// [`check_output`] as one text, without progress.
+pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
+    Ok(check_output(model_path, args, &mut |_, _| {})?.joined())
+}
+
+/// Write `rendered` to `output` (a file, or for several files a directory created if
+/// needed), or print it. Returns the paths written.
+pub fn emit(rendered: &Rendered, output: Option<&Path>) -> Result<Vec<PathBuf>, AppError> {
+    match (output, rendered.files.as_slice()) {
+        (None, _) => {
+            write_stdout(&rendered.joined())?;
+            Ok(Vec::new())
+        }
+        (Some(path), [(_, text)]) => {
+            write_output(path, text)?;
+            Ok(vec![path.to_path_buf()])
+        }
+        (Some(dir), files) => {
+            std::fs::create_dir_all(dir).map_err(|source| AppError::Write {
+                path: dir.display().to_string(),
+                source,
+            })?;
+            let mut written = Vec::new();
+            for (name, text) in files {
+                let p = dir.join(name);
+                write_output(&p, text)?;
+                written.push(p);
+            }
+            Ok(written)
+        }
+    }
+}
+
+/// `plumbline report MODEL`: the check as one self-contained HTML file.
+pub fn report(
+    model_path: &Path,
+    args: &CheckArgs,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<String, AppError> {
+    let run = run_check(model_path, args, progress)?;
+    Ok(crate::report::html::render(&run.summary(), &run.cases))
+}
+
+/// Options of [`new_model`].
+#[derive(Debug, Clone)]
+pub struct NewArgs {
+    /// Bay widths, left to right, in the preset's length unit.
+    pub bays: Vec<f64>,
+    /// Story heights, bottom up.
+    pub stories: Vec<f64>,
+    /// Unit preset name (`kN-m`, `kip-ft`, `kip-in`, `N-mm`).
+    pub units: String,
+    /// `fixed` or `pinned`.
+    pub base: String,
+}
+
+/// `plumbline new FILE --bays … --stories …`: a commented starter model of a regular frame,
+/// refused when `file` exists. The text is checked by reading it back as a model.
+pub fn new_model(file: &Path, args: &NewArgs) -> Result<String, AppError> {
+    if file.exists() {
+        return Err(AppError::Usage(format!(
+            "{} exists; `plumbline new` does not overwrite a file",
+            file.display()
+        )));
+    }
+    for (name, list) in [("--bays", &args.bays), ("--stories", &args.stories)] {
+        if list.is_empty() || list.iter().any(|v| !v.is_finite() || *v <= 0.0) {
+            return Err(AppError::Usage(format!(
+                "{name}: expected positive lengths separated by commas, got {list:?}"
+            )));
+        }
+    }
+    let text = crate::report::starter::starter_model(args);
+    crate::input::parse_model(&text, &file.display().to_string())?;
+    Ok(text)
 }
 
 /// Write `text` to `path` whole or not at all: written to a temporary file beside it,

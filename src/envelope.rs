@@ -1,27 +1,449 @@
-//! The envelope over factored cases: for each member, the largest design moment, where it
-//! acts, the case that produced it, and whether its sway or no-sway part is the larger.
+//! The envelope over factored cases: what governs design, member by member and story by
+//! story.
 //!
-//! Unstable cases give no design values and take no part; they are listed by the report.
+//! For each member: the largest positive and the largest negative design moment at each
+//! end and in the span, each with its case and what acts with it (N, Pr, V, the no-sway
+//! and sway parts); for columns, the largest compression and tension with their
+//! concurrent moments. For each story: the largest drift ratio and amplifiers and the
+//! smallest α_cr, each with its case. Then the cases that never govern and the largest
+//! equilibrium residual.
+//!
+//! Unstable cases give no design values and take no part; they are listed by id.
+//! Everything here is in SI units (N, m, N·m), signs as in [`MomentCheck`].
 
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 
-use crate::check::{CheckReport, MomentCheck, Part};
+use crate::check::{CaseCheck, CheckReport, MemberCheck, MomentCheck};
+use crate::model::Role;
 
-/// Where along a member a governing moment acts.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, strum::Display)]
+/// Where along a member a moment acts.
+#[derive(
+    Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, Deserialize, strum::Display,
+)]
 #[serde(rename_all = "kebab-case")]
 #[strum(serialize_all = "kebab-case")]
 pub enum Location {
     /// End i.
     EndI,
-    /// End j.
-    EndJ,
     /// Within the span.
     Span,
+    /// End j.
+    EndJ,
 }
 
-/// The governing design moment of one member.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+/// The sign of an enveloped moment.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, strum::Display)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum Sign {
+    /// The largest positive design moment (local −y face in tension).
+    Positive,
+    /// The largest negative design moment (local +y face in tension).
+    Negative,
+}
+
+/// One design moment of the envelope and what acts with it in its case.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct DesignMoment {
+    /// Design moment with second-order effects, N·m.
+    pub moment: f64,
+    /// Distance from end i, m.
+    pub x: f64,
+    /// Id and expression of the factored case that produced it.
+    pub case: String,
+    pub expression: String,
+    /// The parts at the same section, N·m: no-sway and sway (first order), and their sum.
+    pub no_sway: f64,
+    pub sway: f64,
+    pub first_order: f64,
+    /// `no-sway` or `sway`: the larger amplified part here.
+    pub governs: String,
+    /// Concurrent mean axial force, N, tension positive.
+    pub axial: f64,
+    /// Concurrent required axial compressive strength Pr (Pu), N; 0 in tension.
+    pub p_r: f64,
+    /// Concurrent largest end shear, N.
+    pub shear: f64,
+    /// Amplifiers applied in that case (B1 or δ; B2, δs, 1/(1 − 1/α_cr) or Δ2nd/Δ1st).
+    pub non_sway_amplifier: Option<f64>,
+    pub sway_amplifier: Option<f64>,
+}
+
+/// The envelope at one section of a member: largest positive and largest negative.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct SectionEnvelope {
+    pub location: Location,
+    pub positive: Option<DesignMoment>,
+    pub negative: Option<DesignMoment>,
+}
+
+/// A column's largest compression or tension and the design moments acting with it.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct AxialExtreme {
+    /// Axial force, N, tension positive (so a compression is negative).
+    pub axial: f64,
+    /// Required compressive strength Pr (Pu), N; 0 in tension.
+    pub p_r: f64,
+    pub case: String,
+    pub expression: String,
+    /// Concurrent design moments at end i, end j and in the span, N·m.
+    pub moment_i: f64,
+    pub moment_j: f64,
+    pub moment_span: f64,
+    /// Concurrent largest end shear, N.
+    pub shear: f64,
+}
+
+/// Which entry of a member's envelope has the largest magnitude.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Governing {
+    pub location: Location,
+    pub sign: Sign,
+    /// Design moment, N·m.
+    pub moment: f64,
+    pub case: String,
+    /// `no-sway` or `sway`.
+    pub governs: String,
+}
+
+/// The envelope of one member over the stable cases.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct MemberEnvelope {
+    pub member: String,
+    /// `column`, `beam` or `brace`.
+    pub role: String,
+    /// End i, span, end j.
+    pub sections: Vec<SectionEnvelope>,
+    /// The largest |design moment| of the member.
+    pub governing: Option<Governing>,
+    /// Columns only: the largest compression and the largest tension.
+    pub compression: Option<AxialExtreme>,
+    pub tension: Option<AxialExtreme>,
+}
+
+/// An extreme story figure and the case behind it.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Peak {
+    pub value: f64,
+    pub case: String,
+}
+
+/// The envelope of one story over the stable cases.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct StoryEnvelope {
+    pub story: usize,
+    /// Largest first-order drift ratio Δ/h.
+    pub drift_ratio: Option<Peak>,
+    /// Largest B2 (AISC 360-16 A-8-6), Q (ACI 318-19 6.6.4.4.1), δs by the Q method
+    /// (ACI 318-19 6.6.4.6.2(a)), Δ2nd/Δ1st of the direct analysis, and sway amplifier of
+    /// the chosen method.
+    pub b2: Option<Peak>,
+    pub q_index: Option<Peak>,
+    pub delta_s: Option<Peak>,
+    pub drift_amplification: Option<Peak>,
+    pub sway_amplifier: Option<Peak>,
+    /// Smallest story α_cr (EN 1993-1-1 (5.2)).
+    pub alpha_cr: Option<Peak>,
+    /// Stable cases in which the story is classified as sway.
+    pub sway_cases: Vec<String>,
+    /// Number of stable cases considered.
+    pub cases: usize,
+}
+
+/// The largest equilibrium residual over the cases.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct ResidualPeak {
+    /// Largest nodal out-of-balance force, N.
+    pub residual: f64,
+    /// Relative to the largest applied load component.
+    pub relative: f64,
+    pub case: String,
+}
+
+/// Everything the summary of `check` reports, over the cases of one run.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Envelope {
+    /// Ids of the cases analysed (stable and unstable).
+    pub cases: Vec<String>,
+    /// Ids of the unstable cases (no design values; they take no part).
+    pub unstable: Vec<String>,
+    pub stories: Vec<StoryEnvelope>,
+    pub members: Vec<MemberEnvelope>,
+    /// Stable cases that give no member envelope value, no column axial extreme and no
+    /// story's largest sway amplifier or smallest α_cr.
+    pub never_govern: Vec<String>,
+    pub residual: Option<ResidualPeak>,
+}
+
+/// Replace `slot` by `candidate` when it is empty or `better(candidate, current)`.
+fn keep<T>(slot: &mut Option<T>, candidate: T, better: impl Fn(&T, &T) -> bool) {
+    match slot {
+        Some(cur) if !better(&candidate, cur) => {}
+        _ => *slot = Some(candidate),
+    }
+}
+
+/// The sections of a member in one case at which moments are enveloped: the two ends and
+/// the span extreme, unless the span extreme lies at an end with that end's value.
+pub fn sections(m: &MemberCheck) -> Vec<(Location, &MomentCheck)> {
+    let mut out = vec![(Location::EndI, &m.ends[0]), (Location::EndJ, &m.ends[1])];
+    let l = m.ends[1].x;
+    let repeats = |s: &MomentCheck, e: &MomentCheck| {
+        (s.x - e.x).abs() <= 1e-9 * l.max(1e-9)
+            && (s.design - e.design).abs() <= 1e-9 * s.design.abs().max(1e-9)
+    };
+    let s = &m.span;
+    if !repeats(s, &m.ends[0]) && !repeats(s, &m.ends[1]) {
+        out.push((Location::Span, s));
+    }
+    out.retain(|(_, s)| s.design.is_finite());
+    out
+}
+
+/// The design moment at `s` of member `m` in `case`, with what acts with it.
+fn design_moment(case: &CaseCheck, m: &MemberCheck, s: &MomentCheck) -> DesignMoment {
+    DesignMoment {
+        moment: s.design,
+        x: s.x,
+        case: case.id.clone(),
+        expression: case.expression.clone(),
+        no_sway: s.no_sway,
+        sway: s.sway,
+        first_order: s.first_order,
+        governs: s.governs.to_string(),
+        axial: m.axial,
+        p_r: m.compression,
+        shear: m.shear,
+        non_sway_amplifier: m.non_sway_amplifier,
+        sway_amplifier: m.sway_amplifier,
+    }
+}
+
+/// The envelope of every member over the stable cases (members in no stable case have
+/// empty sections).
+pub fn member_envelopes(report: &CheckReport) -> Vec<MemberEnvelope> {
+    let Some(first) = report.cases.first() else {
+        return Vec::new();
+    };
+    let mut out: Vec<MemberEnvelope> = first
+        .members
+        .iter()
+        .map(|m| MemberEnvelope {
+            member: m.member.clone(),
+            role: m.role.to_string(),
+            sections: [Location::EndI, Location::Span, Location::EndJ]
+                .into_iter()
+                .map(|location| SectionEnvelope {
+                    location,
+                    positive: None,
+                    negative: None,
+                })
+                .collect(),
+            governing: None,
+            compression: None,
+            tension: None,
+        })
+        .collect();
+    for case in report.cases.iter().filter(|c| c.stable) {
+        let tiny = ROUND_OFF * largest_moment(case);
+        for (env, m) in out.iter_mut().zip(&case.members) {
+            member_case(env, case, m, tiny);
+        }
+    }
+    for env in &mut out {
+        env.governing = governing_entry(env);
+    }
+    out
+}
+
+/// Moments smaller than this fraction of a case's largest are round-off (a hinge, a free
+/// end) and have no sign to envelope.
+const ROUND_OFF: f64 = 1e-9;
+
+/// The largest |design moment| of any member in `case`.
+fn largest_moment(case: &CaseCheck) -> f64 {
+    case.members
+        .iter()
+        .flat_map(|m| [m.ends[0].design, m.ends[1].design, m.span.design])
+        .filter(|v| v.is_finite())
+        .fold(0.0, |a, v| a.max(v.abs()))
+}
+
+/// Fold one stable case into one member's envelope; moments within `tiny` of zero count
+/// as zero.
+fn member_case(env: &mut MemberEnvelope, case: &CaseCheck, m: &MemberCheck, tiny: f64) {
+    for (location, s) in sections(m) {
+        let slot = env
+            .sections
+            .iter_mut()
+            .find(|e| e.location == location)
+            .expect("three sections");
+        let d = design_moment(case, m, s);
+        if s.design > tiny {
+            keep(&mut slot.positive, d, |a, b| a.moment > b.moment);
+        } else if s.design < -tiny {
+            keep(&mut slot.negative, d, |a, b| a.moment < b.moment);
+        }
+    }
+    if m.role != Role::Column {
+        return;
+    }
+    let extreme = AxialExtreme {
+        axial: m.axial,
+        p_r: m.compression,
+        case: case.id.clone(),
+        expression: case.expression.clone(),
+        moment_i: m.ends[0].design,
+        moment_j: m.ends[1].design,
+        moment_span: m.span.design,
+        shear: m.shear,
+    };
+    if m.compression > 0.0 {
+        keep(&mut env.compression, extreme, |a, b| a.p_r > b.p_r);
+    } else if m.axial > 0.0 {
+        keep(&mut env.tension, extreme, |a, b| a.axial > b.axial);
+    }
+}
+
+/// The entry of largest magnitude in a member's envelope (the first one on a tie).
+fn governing_entry(env: &MemberEnvelope) -> Option<Governing> {
+    let mut best: Option<Governing> = None;
+    for s in &env.sections {
+        for (sign, d) in [(Sign::Positive, &s.positive), (Sign::Negative, &s.negative)] {
+            if let Some(d) = d {
+                let g = Governing {
+                    location: s.location,
+                    sign,
+                    moment: d.moment,
+                    case: d.case.clone(),
+                    governs: d.governs.clone(),
+                };
+                keep(&mut best, g, |a, b| a.moment.abs() > b.moment.abs());
+            }
+        }
+    }
+    best
+}
+
+/// The envelope of every story over the stable cases.
+pub fn story_envelopes(report: &CheckReport) -> Vec<StoryEnvelope> {
+    let mut out: Vec<StoryEnvelope> = report
+        .stories
+        .iter()
+        .map(|s| StoryEnvelope {
+            story: s.number,
+            drift_ratio: None,
+            b2: None,
+            q_index: None,
+            delta_s: None,
+            drift_amplification: None,
+            sway_amplifier: None,
+            alpha_cr: None,
+            sway_cases: Vec::new(),
+            cases: 0,
+        })
+        .collect();
+    let larger = |a: &Peak, b: &Peak| a.value > b.value;
+    for case in report.cases.iter().filter(|c| c.stable) {
+        for (env, f) in out.iter_mut().zip(&case.stories) {
+            let peak = |v: f64| Peak {
+                value: v,
+                case: case.id.clone(),
+            };
+            env.cases += 1;
+            if f.drift_ratio.is_finite() {
+                keep(&mut env.drift_ratio, peak(f.drift_ratio.abs()), larger);
+            }
+            for (slot, v) in [
+                (&mut env.b2, f.b2),
+                (&mut env.q_index, Some(f.q_index)),
+                (&mut env.delta_s, f.delta_s_q),
+                (&mut env.drift_amplification, f.drift_amplification),
+                (&mut env.sway_amplifier, f.sway_amplifier),
+            ] {
+                if let Some(v) = v.filter(|v| v.is_finite()) {
+                    keep(slot, peak(v), larger);
+                }
+            }
+            if f.alpha_cr_story.is_finite() {
+                keep(&mut env.alpha_cr, peak(f.alpha_cr_story), |a, b| {
+                    a.value < b.value
+                });
+            }
+            if f.classification == crate::check::Classification::Sway {
+                env.sway_cases.push(case.id.clone());
+            }
+        }
+    }
+    out
+}
+
+/// The case with the largest equilibrium residual.
+pub fn largest_residual(report: &CheckReport) -> Option<ResidualPeak> {
+    let mut best = None;
+    for c in &report.cases {
+        let r = ResidualPeak {
+            residual: c.residual,
+            relative: c.residual_relative,
+            case: c.id.clone(),
+        };
+        keep(&mut best, r, |a, b| a.relative > b.relative);
+    }
+    best
+}
+
+/// Stable cases behind no member envelope value, no column axial extreme, and no story's
+/// largest sway amplifier or smallest α_cr.
+fn never_governing(
+    report: &CheckReport,
+    members: &[MemberEnvelope],
+    stories: &[StoryEnvelope],
+) -> Vec<String> {
+    let mut used: std::collections::BTreeSet<&str> = std::collections::BTreeSet::new();
+    for m in members {
+        for s in &m.sections {
+            for d in [&s.positive, &s.negative].into_iter().flatten() {
+                used.insert(&d.case);
+            }
+        }
+        for a in [&m.compression, &m.tension].into_iter().flatten() {
+            used.insert(&a.case);
+        }
+    }
+    for s in stories {
+        for p in [&s.sway_amplifier, &s.alpha_cr].into_iter().flatten() {
+            used.insert(&p.case);
+        }
+    }
+    report
+        .cases
+        .iter()
+        .filter(|c| c.stable && !used.contains(c.id.as_str()))
+        .map(|c| c.id.clone())
+        .collect()
+}
+
+/// The whole envelope of `report`.
+pub fn envelope(report: &CheckReport) -> Envelope {
+    let members = member_envelopes(report);
+    let stories = story_envelopes(report);
+    Envelope {
+        cases: report.cases.iter().map(|c| c.id.clone()).collect(),
+        unstable: report
+            .cases
+            .iter()
+            .filter(|c| !c.stable)
+            .map(|c| c.id.clone())
+            .collect(),
+        never_govern: never_governing(report, &members, &stories),
+        residual: largest_residual(report),
+        stories,
+        members,
+    }
+}
+
+/// The governing design moment of one member (the `governing[]` list of the JSON report).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct GoverningMoment {
     pub member: String,
     /// Design moment with second-order effects, N·m (sign as in [`MomentCheck`]).
@@ -33,52 +455,34 @@ pub struct GoverningMoment {
     pub case: String,
     /// The first-order moment at the same section and case, N·m.
     pub first_order: f64,
-    /// Whether the (amplified) sway or no-sway part is the larger there.
-    pub governs: Part,
+    /// `no-sway` or `sway`: whether the amplified sway or no-sway part is the larger there.
+    pub governs: String,
     /// Axial force of the member in that case, N, tension positive.
     pub axial: f64,
 }
 
-/// The governing design moment of every member over the stable cases of `report`
+/// The largest design moment of every member over the stable cases, from its envelope
 /// (members in no stable case are left out).
-pub fn governing(report: &CheckReport) -> Vec<GoverningMoment> {
-    let mut out: Vec<GoverningMoment> = Vec::new();
-    for case in report.cases.iter().filter(|c| c.stable) {
-        for (k, m) in case.members.iter().enumerate() {
-            let sections: [(Location, &MomentCheck); 3] = [
-                (Location::EndI, &m.ends[0]),
-                (Location::EndJ, &m.ends[1]),
-                (Location::Span, &m.span),
-            ];
-            let l = m.ends[1].x;
-            for (location, s) in sections {
-                // A span extreme at an end that equals that end's value repeats it.
-                let repeats = |e: &MomentCheck| {
-                    (s.x - e.x).abs() <= 1e-9 * l
-                        && (s.design - e.design).abs() <= 1e-9 * s.design.abs()
-                };
-                let at_end =
-                    location == Location::Span && (repeats(&m.ends[0]) || repeats(&m.ends[1]));
-                if !s.design.is_finite() || at_end {
-                    continue;
-                }
-                let candidate = GoverningMoment {
-                    member: m.member.clone(),
-                    moment: s.design,
-                    location,
-                    x: s.x,
-                    case: case.id.clone(),
-                    first_order: s.first_order,
-                    governs: s.governs,
-                    axial: m.axial,
-                };
-                match out.get_mut(k) {
-                    Some(g) if g.moment.abs() >= s.design.abs() => {}
-                    Some(g) => *g = candidate,
-                    None => out.push(candidate),
-                }
-            }
-        }
-    }
-    out
+pub fn governing(members: &[MemberEnvelope]) -> Vec<GoverningMoment> {
+    members
+        .iter()
+        .filter_map(|m| {
+            let g = m.governing.as_ref()?;
+            let s = m.sections.iter().find(|s| s.location == g.location)?;
+            let d = match g.sign {
+                Sign::Positive => s.positive.as_ref(),
+                Sign::Negative => s.negative.as_ref(),
+            }?;
+            Some(GoverningMoment {
+                member: m.member.clone(),
+                moment: d.moment,
+                location: g.location,
+                x: d.x,
+                case: d.case.clone(),
+                first_order: d.first_order,
+                governs: d.governs.clone(),
+                axial: d.axial,
+            })
+        })
+        .collect()
 }

@@ -2,7 +2,7 @@
 //! amplification for planar building frames.
 //!
 //! Data flow, one module per stage:
-//! [`input`] (model file) → [`model`] (validated frame and load cases) → [`combos`]
+//! [`input`] (model file) → [`model`] (validated frame and load cases) → [`arrange`] (live-load arrangements) → [`combos`]
 //! (factored cases from a combination table) → [`solve`] (first-order, no-sway/sway,
 //! second-order and buckling solutions) → [`check`] (amplification and story
 //! classification) → [`envelope`] (governing moments over the cases) → [`report`]
@@ -21,6 +21,7 @@ design belongs to a licensed engineer under the local building code, and the ado
 of each standard governs.";
 
 pub mod app;
+pub mod arrange;
 pub mod check;
 pub mod combos;
 pub mod diag;

@@ -3,10 +3,10 @@
 use std::path::PathBuf;
 use std::process::ExitCode;
 
-use clap::{Args, Parser, Subcommand};
-use plumbline::app::{self, AppError, CheckArgs};
+use clap::{Args, CommandFactory, Parser, Subcommand};
+use plumbline::app::{self, AppError, CheckArgs, NewArgs, Rendered};
 use plumbline::model::SecondOrderMethod;
-use plumbline::report::OutputFormat;
+use plumbline::report::{CheckFormat, OutputFormat};
 
 /// Factored load combinations, no-sway and sway analysis, and second-order amplification
 /// for planar building frames.
@@ -34,6 +34,14 @@ enum Command {
     /// for second-order effects, classify each story as sway or non-sway, and report the
     /// moments of every member.
     Check(CheckCli),
+    /// Write the check as one self-contained HTML file with drawings of the frame, its
+    /// loads and its moment envelope, for reading or printing to PDF.
+    Report(ReportCli),
+    /// Write a commented starter model of a regular frame from its bay widths and story
+    /// heights.
+    New(NewCli),
+    /// Print a shell completion script (bash, zsh, fish, elvish or powershell).
+    Completions(CompletionsCli),
 }
 
 #[derive(Debug, Args)]
@@ -94,27 +102,116 @@ struct CheckCli {
     /// Second-order method: aisc-b1b2 (AISC 360-16 App. 8), aci-magnifier (ACI 318-19
     /// §6.6.4), ec3-alpha-cr (EN 1993-1-1 §5.2) or direct (P-Δ/P-δ analysis); overrides the
     /// model's [analysis] method.
-    #[arg(long = "second-order", value_name = "METHOD")]
+    #[arg(long = "second-order", value_name = "METHOD", value_parser = method_parser())]
     method: Option<SecondOrderMethod>,
-    /// Only the factored cases whose id starts with this.
+    /// Only the factored cases whose id starts with this (implies --detail).
     #[arg(long)]
     case: Option<String>,
-    /// table: aligned tables in the model's units; json: everything, SI base units;
-    /// csv: one row per case and member.
+    /// Add the per-case story and member tables to the summary.
+    #[arg(long)]
+    detail: bool,
+    /// table: the one-page summary in the model's units; json: everything, SI base units;
+    /// csv: one file per table (-o DIR writes them into DIR); md: a calculation-package page.
     #[arg(long, value_enum, default_value_t)]
-    format: OutputFormat,
+    format: CheckFormat,
     #[command(flatten)]
     out: Output,
 }
 
-fn run(cli: Cli) -> Result<(String, Option<PathBuf>), AppError> {
+#[derive(Debug, Args)]
+struct ReportCli {
+    /// The model file (TOML).
+    model: PathBuf,
+    /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
+    /// model's own choice.
+    #[arg(long)]
+    combos: Option<String>,
+    /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
+    #[arg(long = "set", value_name = "PARAM=VALUE")]
+    sets: Vec<String>,
+    /// Second-order method (see `plumbline help check`); overrides the model's.
+    #[arg(long = "second-order", value_name = "METHOD", value_parser = method_parser())]
+    method: Option<SecondOrderMethod>,
+    /// Only the factored cases whose id starts with this.
+    #[arg(long)]
+    case: Option<String>,
+    /// The HTML file to write (default: the model file's name with .html, beside it).
+    #[arg(long, short)]
+    output: Option<PathBuf>,
+}
+
+#[derive(Debug, Args)]
+struct NewCli {
+    /// The model file to create (refused if it exists).
+    file: PathBuf,
+    /// Bay widths, left to right, comma-separated (e.g. 7.5,6,7.5).
+    #[arg(long, value_delimiter = ',', required = true, num_args = 1..)]
+    bays: Vec<f64>,
+    /// Story heights, bottom up, comma-separated (e.g. 4.5,3.6,3.6).
+    #[arg(long, value_delimiter = ',', required = true, num_args = 1..)]
+    stories: Vec<f64>,
+    /// Unit preset of the bare numbers.
+    #[arg(long, default_value = "kN-m", value_parser = ["kN-m", "kip-ft", "kip-in", "N-mm"])]
+    units: String,
+    /// Base of the columns.
+    #[arg(long, default_value = "fixed", value_parser = ["fixed", "pinned"])]
+    base: String,
+}
+
+#[derive(Debug, Args)]
+struct CompletionsCli {
+    /// The shell.
+    shell: clap_complete::Shell,
+}
+
+/// What a command produced: its output and where it goes.
+struct Done {
+    rendered: Rendered,
+    output: Option<PathBuf>,
+}
+
+/// A progress bar on standard error for runs longer than about a second; indicatif draws
+/// nothing when standard error is not a terminal.
+fn progress_bar() -> impl FnMut(usize, usize) {
+    let started = std::time::Instant::now();
+    let mut bar: Option<indicatif::ProgressBar> = None;
+    move |done, total| {
+        if bar.is_none() && started.elapsed() > std::time::Duration::from_secs(1) && done < total {
+            let b = indicatif::ProgressBar::with_draw_target(
+                Some(total as u64),
+                indicatif::ProgressDrawTarget::stderr(),
+            );
+            b.set_message("factored cases");
+            bar = Some(b);
+        }
+        if let Some(b) = &bar {
+            b.set_position(done as u64);
+            if done == total {
+                b.finish_and_clear();
+            }
+        }
+    }
+}
+
+/// `--second-order` values: clap lists them when one is wrong.
+fn method_parser() -> impl clap::builder::TypedValueParser<Value = SecondOrderMethod> {
+    use clap::builder::TypedValueParser;
+    clap::builder::PossibleValuesParser::new(plumbline::input::validate::METHOD_NAMES)
+        .map(|s| s.parse::<SecondOrderMethod>().unwrap_or_default())
+}
+
+fn run(cli: Cli) -> Result<Done, AppError> {
+    let text = |t: String, output| Done {
+        rendered: Rendered::text(t),
+        output,
+    };
     Ok(match cli.command {
-        Command::Solve(a) => (app::solve(&a.model, &a.case, a.format)?, a.out.output),
-        Command::Cases(a) => (
+        Command::Solve(a) => text(app::solve(&a.model, &a.case, a.format)?, a.out.output),
+        Command::Cases(a) => text(
             app::cases(&a.model, a.combos.as_deref(), &a.sets, a.format)?,
             a.out.output,
         ),
-        Command::Combos(a) => (app::combos(a.table.as_deref())?, None),
+        Command::Combos(a) => text(app::combos(a.table.as_deref())?, None),
         Command::Check(a) => {
             let args = CheckArgs {
                 combos: a.combos,
@@ -122,20 +219,54 @@ fn run(cli: Cli) -> Result<(String, Option<PathBuf>), AppError> {
                 method: a.method,
                 case: a.case,
                 format: a.format,
+                detail: a.detail,
             };
-            (app::check(&a.model, &args)?, a.out.output)
+            Done {
+                rendered: app::check_output(&a.model, &args, &mut progress_bar())?,
+                output: a.out.output,
+            }
+        }
+        Command::Report(a) => {
+            let args = CheckArgs {
+                combos: a.combos,
+                sets: a.sets,
+                method: a.method,
+                case: a.case,
+                ..Default::default()
+            };
+            let output = a.output.unwrap_or_else(|| a.model.with_extension("html"));
+            text(
+                app::report(&a.model, &args, &mut progress_bar())?,
+                Some(output),
+            )
+        }
+        Command::New(a) => {
+            let args = NewArgs {
+                bays: a.bays,
+                stories: a.stories,
+                units: a.units,
+                base: a.base,
+            };
+            text(app::new_model(&a.file, &args)?, Some(a.file))
+        }
+        Command::Completions(a) => {
+            let mut out = Vec::new();
+            clap_complete::generate(a.shell, &mut Cli::command(), "plumbline", &mut out);
+            text(String::from_utf8_lossy(&out).into_owned(), None)
         }
     })
 }
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
-    let result = run(cli).and_then(|(text, path)| match path {
-        Some(p) => app::write_output(&p, &text),
-        None => app::write_stdout(&text),
-    });
+    let result = run(cli).and_then(|done| app::emit(&done.rendered, done.output.as_deref()));
     match result {
-        Ok(()) => ExitCode::SUCCESS,
+        Ok(written) => {
+            for p in written {
+                eprintln!("plumbline: wrote {}", p.display());
+            }
+            ExitCode::SUCCESS
+        }
         Err(e) => {
             eprintln!("{:?}", miette::Report::new(e));
             ExitCode::FAILURE

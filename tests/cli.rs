@@ -81,7 +81,7 @@ const OFFICE: &str = "examples/office-3story.toml";
 
 #[test]
 fn check_prints_every_story_and_the_caution() {
-    let out = ok(&["check", OFFICE]);
+    let out = ok(&["check", OFFICE, "--detail"]);
     // Three stories, each in the story list and in every case's story table.
     let model = plumbline::input::load_model(&Path::new(ROOT).join(OFFICE)).unwrap();
     let stories = plumbline::stories::stories(&model).unwrap();

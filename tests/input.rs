@@ -26,6 +26,25 @@ fn every_example_parses() {
     }
 }
 
+#[test]
+fn readme_clinic_example_parses_with_consistent_sections() {
+    // The README's complete model must stay a valid model file.
+    let readme = include_str!("../README.md");
+    let start = readme
+        .find("title = \"Two-story clinic")
+        .expect("clinic example");
+    let end = start + readme[start..].find("```").expect("end of the example");
+    let m = parse_model(&readme[start..end], "README.md").unwrap_or_else(|e| panic!("{e}"));
+    assert_eq!(m.members.len(), 6);
+    // Each section is one shape (illustrative values, from memory): a 250 mm wide-flange
+    // column with A = 86.8 cm², I = 10450 cm⁴; a 400 mm I-beam with A = 84.5 cm²,
+    // I = 23130 cm⁴ (1 cm² = 1e-4 m², 1 cm⁴ = 1e-8 m⁴).
+    let col = &m.sections[0];
+    assert!((col.area - 86.8e-4).abs() < 1e-9 && (col.inertia - 10450e-8).abs() < 1e-12);
+    let girder = &m.sections[1];
+    assert!((girder.area - 84.5e-4).abs() < 1e-9 && (girder.inertia - 23130e-8).abs() < 1e-12);
+}
+
 /// A small valid model (kN-m): column a–b, beam b–c, fixed base at a. Tests append to it
 /// or replace parts of it.
 const BASE: &str = r#"units = "kN-m"
@@ -239,7 +258,7 @@ fn load_positions_outside_the_member() {
     // m2 is 6 m long.
     let point = |at: &str| {
         base_with_case(&format!(
-            "[[case.member_load]]\nmembers = \"m2\"\nkind = \"point\"\ndirection = \"gravity\"\np = 10\nat = {at} # <-\n"
+            "[[case.member_load]]\nmembers = \"m2\"\nkind = \"point\"\ndirection = \"down\"\np = 10\nat = {at} # <-\n"
         ))
     };
     let msg = error_on_marked_line(&point("6.5"));
@@ -248,7 +267,7 @@ fn load_positions_outside_the_member() {
     error_on_marked_line(&point("\"1.2L\""));
     let part = |from: &str, to: &str| {
         base_with_case(&format!(
-            "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"gravity\"\nw = 5\n{from}\n{to}\n"
+            "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"down\"\nw = 5\n{from}\n{to}\n"
         ))
     };
     error_on_marked_line(&part("from = -1 # <-", "to = 3"));
@@ -293,13 +312,13 @@ fn model_without_supports() {
 #[test]
 fn load_case_with_unknown_member_or_node() {
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m9\" # <-\nkind = \"uniform\"\ndirection = \"gravity\"\nw = 1\n",
+        "[[case.member_load]]\nmembers = \"m9\" # <-\nkind = \"uniform\"\ndirection = \"down\"\nw = 1\n",
     );
     assert!(error_on_marked_line(&t).contains("unknown member \"m9\""));
     let t = base_with_case("[[case.node_load]]\nnodes = [\"b\", \"q\"] # <-\nfx = 1\n");
     assert!(error_on_marked_line(&t).contains("unknown node \"q\""));
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"B*.9\" # <-\nkind = \"uniform\"\ndirection = \"gravity\"\nw = 1\n",
+        "[[case.member_load]]\nmembers = \"B*.9\" # <-\nkind = \"uniform\"\ndirection = \"down\"\nw = 1\n",
     );
     assert!(error_on_marked_line(&t).contains("pattern \"B*.9\" matches no member"));
 }
@@ -307,7 +326,7 @@ fn load_case_with_unknown_member_or_node() {
 #[test]
 fn wrong_dimension_says_what_was_expected() {
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"gravity\"\nw = \"12 kN*m\" # <-\n",
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"down\"\nw = \"12 kN*m\" # <-\n",
     );
     let msg = error_on_marked_line(&t);
     assert!(
@@ -353,11 +372,11 @@ fn unknown_choices() {
     );
     error_on_marked_line(&t);
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"down\" # <-\nw = 1\n",
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"downward\" # <-\nw = 1\n",
     );
-    error_on_marked_line(&t);
+    assert!(error_on_marked_line(&t).contains("local-x, local-y, global-x, global-y, down"));
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"triangle\" # <-\ndirection = \"gravity\"\nw = 1\n",
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"triangle\" # <-\ndirection = \"down\"\nw = 1\n",
     );
     error_on_marked_line(&t);
     let t = format!("{BASE}\n[analysis]\nmethod = \"exact\" # <-\n");
@@ -371,22 +390,40 @@ fn unknown_choices() {
 #[test]
 fn load_fields_must_fit_the_kind() {
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"gravity\"\nw = 1\np = 3 # <-\n",
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"down\"\nw = 1\np = 3 # <-\n",
     );
     assert!(error_on_marked_line(&t).contains("`p` does not apply to a uniform load"));
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"point\" # <-\ndirection = \"gravity\"\np = 3\n",
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"point\" # <-\ndirection = \"down\"\np = 3\n",
     );
     assert!(error_on_marked_line(&t).contains("needs `at`"));
     let t =
         base_with_case("[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\" # <-\nw = 3\n");
     assert!(error_on_marked_line(&t).contains("needs `direction`"));
     let t = base_with_case(
-        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"local-y\"\nmeasure = \"projected\" # <-\nw = 3\n",
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"local-y\"\nspread_over = \"projection\" # <-\nw = 3\n",
     );
     assert!(error_on_marked_line(&t).contains("global direction"));
     let t = base_with_case("[[case.node_load]]\nnodes = \"b\" # <-\n");
     assert!(error_on_marked_line(&t).contains("at least one of fx, fy, mz"));
+}
+
+#[test]
+fn former_member_load_keys_name_their_new_spelling() {
+    let t = base_with_case(
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"gravity\" # <-\nw = 3\n",
+    );
+    let e = error_on_marked_line(&t);
+    assert!(e.contains("direction = \"down\""), "{e}");
+    let t = base_with_case(
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"down\"\nmeasure = \"projected\" # <-\nw = 3\n",
+    );
+    let e = error_on_marked_line(&t);
+    assert!(e.contains("spread_over = \"projection\""), "{e}");
+    let t = base_with_case(
+        "[[case.member_load]]\nmembers = \"m2\"\nkind = \"uniform\"\ndirection = \"down\"\nspread_over = \"plan\" # <-\nw = 3\n",
+    );
+    assert!(error_on_marked_line(&t).contains("member, projection"));
 }
 
 #[test]
@@ -483,7 +520,7 @@ category = "live"
 [[case.member_load]]
 members = "B*.2"
 kind = "uniform"
-direction = "gravity"
+direction = "down"
 w = 10
 "#;
 
@@ -625,7 +662,7 @@ mz = "5 kN·m"
 [[case.member_load]]
 members = "B1.1"
 kind = "uniform"
-direction = "gravity"
+direction = "down"
 w = "12 kN/m"
 from = "1 m"
 to = "5000 mm"

@@ -44,10 +44,29 @@ pub fn delta_ns(c_m: f64, p_u: f64, p_c: f64) -> Option<f64> {
     (d > 0.0).then(|| (c_m / d).max(1.0))
 }
 
-/// Minimum moment, 6.6.4.5.4: `M2,min = Pu·(0.6 + 0.03h)` with h in inches; in SI
-/// `Pu·(0.01524 m + 0.03·h)`.
-pub fn m2_min(p_u: f64, h: f64) -> f64 {
-    p_u.max(0.0) * (0.6 * 0.0254 + 0.03 * h)
+/// The constant eccentricity of M2,min in ACI 318M-19 (SI) 6.6.4.5.4: 15 mm (from memory).
+pub const E_MIN_SI: f64 = 0.015;
+
+/// The constant eccentricity of M2,min in ACI 318-19 (inch-pound) 6.6.4.5.4: 0.6 in
+/// [C numbering, form M].
+pub const E_MIN_INCH_POUND: f64 = 0.6 * crate::units::INCH;
+
+/// The edition of 6.6.4.5.4 that fits the model's units: the inch-pound ACI 318 when the
+/// model's lengths or sections are in feet or inches, else the SI ACI 318M.
+pub fn e_min_for(units: &crate::units::UnitSystem) -> f64 {
+    let imperial = |f: f64| f == crate::units::INCH || f == crate::units::FOOT;
+    if imperial(units.length.factor) || imperial(units.section.factor) {
+        E_MIN_INCH_POUND
+    } else {
+        E_MIN_SI
+    }
+}
+
+/// Minimum moment, 6.6.4.5.4: `M2,min = Pu·(e_min + 0.03h)`, written in SI with h in m and
+/// `e_min` the constant of the edition in use: ACI 318M writes `Pu·(15 + 0.03h)` with h in
+/// mm ([`E_MIN_SI`]), ACI 318 `Pu·(0.6 + 0.03h)` with h in inches ([`E_MIN_INCH_POUND`]).
+pub fn m2_min(p_u: f64, h: f64, e_min: f64) -> f64 {
+    p_u.max(0.0) * (e_min + 0.03 * h)
 }
 
 /// Second-order moments may not exceed 1.4 × first-order moments, 6.2.5.3 [M].
@@ -71,9 +90,26 @@ mod tests {
     }
 
     #[test]
-    fn minimum_moment_in_si_matches_inch_form() {
-        // 6.6.4.5.4: Pu = 100 kip, h = 20 in: 100·(0.6 + 0.6) = 120 kip-in.
-        let m = m2_min(100.0, 20.0 * 0.0254); // kip·m
+    fn minimum_moment_in_the_si_form_of_aci_318m() {
+        // ACI 318M-19 6.6.4.5.4 (from memory): M2,min = Pu·(15 + 0.03h), h in mm.
+        // Pu = 1000 kN, h = 500 mm: 15 + 0.03·500 = 30 mm → 1000 kN × 0.030 m = 30 kN·m
+        // (the 15.24 mm of the converted inch form would give 30.24 kN·m).
+        let m = m2_min(1000e3, 0.500, E_MIN_SI);
+        assert_relative_eq!(m, 30e3, max_relative = 1e-12);
+        // In tension there is no minimum moment.
+        assert_eq!(m2_min(-10e3, 0.5, E_MIN_SI), 0.0);
+        // ACI 318-19 6.6.4.5.4 (inch-pound): Pu = 100 kip, h = 20 in: 100·(0.6 + 0.6) =
+        // 120 kip-in.
+        let m = m2_min(100.0, 20.0 * 0.0254, E_MIN_INCH_POUND); // kip·m
         assert_relative_eq!(m / 0.0254, 120.0, max_relative = 1e-12);
+    }
+
+    #[test]
+    fn minimum_moment_edition_follows_the_model_units() {
+        use crate::units::UnitSystem;
+        let si = UnitSystem::preset("kN-m").unwrap();
+        let us = UnitSystem::preset("kip-ft").unwrap();
+        assert_eq!(e_min_for(&si), E_MIN_SI);
+        assert_eq!(e_min_for(&us), E_MIN_INCH_POUND);
     }
 }

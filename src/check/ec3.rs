@@ -5,6 +5,8 @@
 //! §5.2.2(5)B amplifier 1/(1 − 1/α_cr) for α_cr ≥ 3 [C amplifier, M clause wording];
 //! (5.5) φ = φ0·αh·αm [C]; §5.3.2(4)B H ≥ 0.15·V [M].
 
+use super::story::{Classification, StoryFigures};
+
 /// First-order analysis is enough when α_cr ≥ 10 (elastic analysis), (5.1).
 pub const ALPHA_CR_FIRST_ORDER: f64 = 10.0;
 
@@ -24,6 +26,88 @@ pub fn alpha_cr(story_stiffness: f64, h: f64, v_ed: f64) -> f64 {
 /// Amplifier of sway effects, §5.2.2(5)B: `1/(1 − 1/α_cr)`; `None` below α_cr = 3.
 pub fn sway_amplifier(alpha_cr: f64) -> Option<f64> {
     (alpha_cr >= ALPHA_CR_AMPLIFIED_MIN).then(|| 1.0 / (1.0 - 1.0 / alpha_cr))
+}
+
+/// α_cr of the structure, §5.2.1(3) and (4)B (from memory): the structure is judged by one
+/// value, the lowest story value of (5.2), or the frame's buckling analysis when that is
+/// lower. `None` when neither exists (nothing can buckle).
+pub fn structure_alpha_cr(
+    story: impl IntoIterator<Item = f64>,
+    buckling: Option<f64>,
+) -> Option<f64> {
+    story
+        .into_iter()
+        .chain(buckling)
+        .filter(|a| !a.is_nan())
+        .min_by(f64::total_cmp)
+}
+
+/// Judge the whole structure by one α_cr ([`structure_alpha_cr`]) and give every story the
+/// same verdict (EN 1993-1-1 §5.2.1(3)/(4)B, §5.2.2(5)B/(6)B, from memory):
+/// * α_cr ≥ 10: first-order analysis suffices, sway effects × 1.0 (5.1);
+/// * 3 ≤ α_cr < 10: all sway effects × 1/(1 − 1/α_cr) (amplified sway method);
+/// * α_cr < 3: a second-order analysis is required; each story's sway effects are then
+///   amplified by its Δ2nd/Δ1st from the direct analysis, or the story is unstable when that
+///   analysis did not converge.
+pub fn judge_structure(
+    figures: &mut [StoryFigures],
+    buckling: Option<f64>,
+    direct_converged: bool,
+) {
+    let lowest_story = figures
+        .iter()
+        .map(|f| f.alpha_cr_story)
+        .min_by(f64::total_cmp);
+    let Some(a) = structure_alpha_cr(lowest_story, buckling) else {
+        return;
+    };
+    let source = match (lowest_story, buckling) {
+        (Some(s), Some(b)) if b < s => {
+            format!("buckling analysis {b:.2} < lowest story value {s:.2}")
+        }
+        (Some(s), Some(b)) => format!("lowest story value {s:.2}; buckling analysis {b:.2}"),
+        (Some(s), None) => format!("lowest story value {s:.2}"),
+        (None, _) => "buckling analysis".to_string(),
+    };
+    for f in figures.iter_mut() {
+        let (amp, class, criterion) = if a >= ALPHA_CR_FIRST_ORDER {
+            (
+                Some(1.0),
+                Classification::NonSway,
+                format!(
+                    "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices                      (EN 1993-1-1 (5.1), 5.2.1(3))"
+                ),
+            )
+        } else if let Some(amp) = sway_amplifier(a) {
+            (
+                Some(amp),
+                Classification::Sway,
+                format!(
+                    "structure α_cr = {a:.2} < 10 ({source}): all sway effects ×                      1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"
+                ),
+            )
+        } else if direct_converged {
+            let r = f.drift_amplification.unwrap_or(1.0);
+            (
+                Some(r),
+                Classification::Sway,
+                format!(
+                    "structure α_cr = {a:.2} < 3 ({source}): second-order analysis required                      (EN 1993-1-1 5.2.2(5)B); sway effects × Δ2nd/Δ1st = {r:.3} from the                      direct analysis"
+                ),
+            )
+        } else {
+            (
+                None,
+                Classification::Unstable,
+                format!(
+                    "structure α_cr = {a:.2} < 3 ({source}) and the direct second-order                      analysis did not converge"
+                ),
+            )
+        };
+        f.sway_amplifier = amp;
+        f.classification = class;
+        f.criterion = criterion;
+    }
 }
 
 /// Equivalent sway imperfection (5.5): `φ = φ0·αh·αm` with φ0 = 1/200,

@@ -1,17 +1,24 @@
-//! Per-member results of one factored case: moments at both ends and the span extreme,
-//! each as no-sway part, sway part, amplifiers and design value, with axial force and
-//! shear.
+//! Per-member results of one factored case: moments at both ends and along the span, each
+//! as no-sway part, sway part, amplifiers and design value, with axial force and shear.
 //!
 //! Moments are internal bending moments, positive with the member's local −y face in
 //! tension (see [`crate::solve::forces`]).
+//!
+//! Every method's design moment along a member is one diagram, a [`Diagram`]:
+//! `k_ns·Mns(x) + k_s·Ms(x)` (AISC 360-16 App. 8 A-8-1 `Mr = B1·Mnt + B2·Mlt`; ACI 318-19
+//! 6.6.4.6.1 `M = Mns + δs·Ms`; EN 1993-1-1 5.2.2(5)B sway effects × 1/(1 − 1/α_cr)). Its
+//! span extremes are found exactly on that combined diagram, never on one of its parts.
 
 use serde::Serialize;
 
-use super::story::StoryFigures;
+use super::story::{Classification, StoryFigures};
 use super::{aci, aisc};
 use crate::model::{LocalLoad, Model, Role, SecondOrderMethod};
 use crate::solve::Solution;
-use crate::solve::beam::{SpanExtremes, has_transverse_load, span_extremes};
+use crate::solve::beam::{
+    Side, SpanExtremes, breakpoints, has_transverse_load, internal_forces_at, span_extremes,
+};
+use crate::solve::forces::EndForces;
 use crate::solve::mesh::MemberStiffness;
 use crate::stories::{Story, member_stories};
 
@@ -44,16 +51,29 @@ pub struct MomentCheck {
 pub struct MemberCheck {
     pub member: String,
     pub role: crate::model::Role,
-    /// Mean first-order axial force, N, tension positive.
+    /// First-order axial force at the most compressed section along the member (the least
+    /// N(x)), N, tension positive.
     pub axial: f64,
-    /// Largest first-order compression along the member (Pr, Pu), N; 0 in tension.
+    /// Largest first-order compression along the member (Pu of ACI, EN 1993-1-1 N_Ed), N;
+    /// 0 in tension.
     pub compression: f64,
+    /// AISC 360-16 A-8-2 `Pr = Pnt + B2·Plt`, the largest along the member, N, compression
+    /// positive (0 in tension); only with the AISC B1/B2 method. B1 uses it.
+    pub p_r: Option<f64>,
     /// Largest first-order end shear, N.
     pub shear: f64,
     /// Moments at end i and end j.
     pub ends: [MomentCheck; 2],
-    /// The extreme moment within the span.
+    /// The design moment within the span: the larger-magnitude extreme of the design
+    /// diagram inside the span (else at an end); for an ACI 318 column, Mc = δ·M2 at the
+    /// section of M2 (6.6.4.5.1).
     pub span: MomentCheck,
+    /// Largest (most positive, sagging for a beam drawn left to right) moment of the design
+    /// diagram over the whole member, ends included, with its x (exact).
+    pub span_max: MomentCheck,
+    /// Smallest (most negative, hogging) moment of the design diagram over the whole member,
+    /// ends included, with its x (exact).
+    pub span_min: MomentCheck,
     /// Cm (AISC A-8-4 / ACI 6.6.4.5.3), for members in compression.
     pub c_m: Option<f64>,
     /// Critical load used for the non-sway amplifier: Pe1 (AISC A-8-5) or Pc
@@ -61,7 +81,8 @@ pub struct MemberCheck {
     pub p_critical: Option<f64>,
     /// Non-sway amplifier: B1 (AISC) or δ (ACI); 1 where none applies.
     pub non_sway_amplifier: Option<f64>,
-    /// Sway amplifier of the member's story: B2, δs, 1/(1 − 1/α_cr) or Δ2nd/Δ1st.
+    /// Sway amplifier applied to the member's sway moments: B2, δs (1 in a non-sway ACI
+    /// story), 1/(1 − 1/α_cr) or Δ2nd/Δ1st.
     pub sway_amplifier: Option<f64>,
     pub governs: Part,
     pub stable: bool,
@@ -84,19 +105,124 @@ pub struct MemberInput<'a> {
     pub alpha: f64,
 }
 
+/// A design diagram along one member: `k_ns·Mns(x) + k_s·Ms(x)` (and likewise N(x)).
+///
+/// The no-sway part is the statics of its end actions with the member loads, the sway part
+/// that of its end actions alone (the sway solution carries level forces only). Statics is
+/// linear, so the combination is the diagram of the end actions `k_ns·F_ns + k_s·F_s` under
+/// the member loads × `k_ns`: a piecewise polynomial between the same load discontinuities
+/// ([`breakpoints`]), whose extremes [`span_extremes`] finds exactly (zeros of the shear
+/// per piece, in closed form), never by sampling.
+#[derive(Debug, Clone, Copy)]
+pub struct Diagram<'a> {
+    pub length: f64,
+    pub no_sway: &'a EndForces,
+    pub sway: &'a EndForces,
+    pub loads: &'a [LocalLoad],
+    /// Factor on the no-sway part (B1 of AISC; 1 otherwise).
+    pub k_ns: f64,
+    /// Factor on the sway part (B2, δs, 1/(1 − 1/α_cr) or Δ2nd/Δ1st).
+    pub k_s: f64,
+}
+
+impl Diagram<'_> {
+    /// The factors, or 1 and 1 where an amplifier does not exist (an unstable member or
+    /// story): positions are then those of the first-order diagram.
+    fn factors(&self) -> (f64, f64) {
+        if self.k_ns.is_finite() && self.k_s.is_finite() {
+            (self.k_ns, self.k_s)
+        } else {
+            (1.0, 1.0)
+        }
+    }
+
+    /// End actions and member loads whose statics is the combined diagram.
+    fn combined(&self) -> (EndForces, Vec<LocalLoad>) {
+        let (k_ns, k_s) = self.factors();
+        let (a, b) = (self.no_sway.to_array(), self.sway.to_array());
+        let end = EndForces::from_array(std::array::from_fn(|k| k_ns * a[k] + k_s * b[k]));
+        let loads = self.loads.iter().map(|q| q.scaled(k_ns)).collect();
+        (end, loads)
+    }
+
+    /// `(Mns, Ms)` at `x` on `side` of a concentrated load there.
+    fn parts(&self, x: f64, side: Side) -> (f64, f64) {
+        (
+            internal_forces_at(x, side, self.no_sway, self.loads).m,
+            internal_forces_at(x, side, self.sway, &[]).m,
+        )
+    }
+
+    /// The design value of the parts `(Mns, Ms)` (NaN where an amplifier does not exist).
+    pub fn design(&self, parts: (f64, f64)) -> f64 {
+        self.k_ns * parts.0 + self.k_s * parts.1
+    }
+
+    /// Exact largest and smallest moment of the combined diagram over `0..=L`.
+    pub fn extremes(&self) -> SpanExtremes {
+        let (end, loads) = self.combined();
+        span_extremes(self.length, &end, &loads)
+    }
+
+    /// `(Mns, Ms)` at a point `(x, M)` of the combined diagram, on the side of a
+    /// concentrated moment at `x` where the combined diagram takes the value `M` (at the
+    /// ends, the value just inside the member).
+    fn parts_at(&self, point: (f64, f64)) -> (f64, f64) {
+        let (k_ns, k_s) = self.factors();
+        let value = |p: (f64, f64)| k_ns * p.0 + k_s * p.1;
+        let left = self.parts(point.0, Side::Left);
+        if point.0 >= self.length {
+            return left;
+        }
+        let right = self.parts(point.0, Side::Right);
+        if (value(right) - point.1).abs() < (value(left) - point.1).abs() {
+            right
+        } else {
+            left
+        }
+    }
+
+    /// The least axial force N(x) of the combined diagram along the member (the most
+    /// compressive), N, tension positive. N is piecewise linear (linearly varying axial
+    /// loads give a quadratic, monotonic within a piece where qx keeps its sign; both
+    /// one-sided values at every breakpoint and each piece's midpoint are examined, which
+    /// is exact for loads of one sign per piece).
+    pub fn least_axial(&self) -> f64 {
+        let (end, loads) = self.combined();
+        let n = |x: f64, side: Side| internal_forces_at(x, side, &end, &loads).n;
+        let bps = breakpoints(self.length, &loads);
+        let mut least = n(0.0, Side::Right).min(n(self.length, Side::Left));
+        for w in bps.windows(2) {
+            least = least
+                .min(n(w[0], Side::Right))
+                .min(n(0.5 * (w[0] + w[1]), Side::Left))
+                .min(n(w[1], Side::Left));
+        }
+        least
+    }
+}
+
 /// Internal moments at the two ends of member `m` in `s`.
 fn end_moments(s: &Solution, m: usize) -> [f64; 2] {
     let e = &s.end_forces[m];
     [-e.i[2], e.j[2]]
 }
 
+/// Whether `x` lies strictly inside a member of length `l` (relative tolerance 1e-9).
+fn inside(x: f64, l: f64) -> bool {
+    x > 1e-9 * l && x < l * (1.0 - 1e-9)
+}
+
+/// The larger-magnitude of two `(x, M)` points (the first on a tie).
+fn larger(a: (f64, f64), b: (f64, f64)) -> (f64, f64) {
+    if a.1.abs() >= b.1.abs() { a } else { b }
+}
+
 /// The span moment to report `(x, M)`: the larger-magnitude extreme lying inside the span
 /// (a beam's sagging moment between hogging ends), else the larger-magnitude extreme at an
 /// end (a member without loads along it).
 fn span_moment(e: &SpanExtremes, l: f64) -> (f64, f64) {
-    let inside = |p: &(f64, f64)| p.0 > 1e-9 * l && p.0 < l * (1.0 - 1e-9);
-    let larger = |a: (f64, f64), b: (f64, f64)| if a.1.abs() >= b.1.abs() { a } else { b };
-    match (inside(&e.max), inside(&e.min)) {
+    match (inside(e.max.0, l), inside(e.min.0, l)) {
         (true, true) => larger(e.max, e.min),
         (true, false) => e.max,
         (false, true) => e.min,
@@ -121,6 +247,14 @@ pub fn c_m(ends: [f64; 2]) -> f64 {
     0.6 - 0.4 * (-a / b)
 }
 
+/// Ratio of a second-order moment to its first-order moment when it exceeds the 1.4 limit
+/// of ACI 318-19 6.2.5.3 (from memory), else `None`.
+fn above_aci_limit(design: f64, first_order: f64) -> Option<f64> {
+    let ratio = design.abs() / first_order.abs();
+    (design.abs() > aci::SECOND_ORDER_LIMIT * first_order.abs() + 1e-9 * design.abs().max(1.0))
+        .then_some(ratio)
+}
+
 /// Check every member.
 pub fn members(input: &MemberInput) -> Vec<MemberCheck> {
     (0..input.model.members.len())
@@ -128,29 +262,87 @@ pub fn members(input: &MemberInput) -> Vec<MemberCheck> {
         .collect()
 }
 
+/// Mc of an ACI 318-19 column: δ·M2 at the section of M2.
+struct AciColumn {
+    /// Section of M2 and M2 itself (on the diagram Mns + δs·Ms, or the first-order total in
+    /// a non-sway story), raised to M2,min where needed.
+    x: f64,
+    /// `(Mns, Ms)` at that section.
+    parts: (f64, f64),
+    m2: f64,
+    c_m: f64,
+    raised_to_min: bool,
+}
+
+/// M2 and Cm of an ACI 318-19 column on the design diagram `d` (6.6.4.5.3, 6.6.4.6.4):
+/// * no transverse load between the ends: M2 the larger end moment, M1 the smaller,
+///   `Cm = 0.6 − 0.4·M1/M2` (6.6.4.5.3(a));
+/// * transverse load between the ends: `Cm = 1.0` (6.6.4.5.3(b)) and M2 the largest moment
+///   anywhere along the member (commentary R6.6.4.5.3, from memory), at its own section;
+/// * M2 at least `M2,min = Pu·(15 + 0.03h)` mm (6.6.4.5.4 of ACI 318M; 0.6 in for a model
+///   in inch-pound units, [`aci::e_min_for`]) where the depth h is known, keeping the sign
+///   of M2.
+fn aci_column(d: &Diagram, p_u: f64, depth: Option<f64>, e_min: f64) -> AciColumn {
+    let end_parts = [d.parts(0.0, Side::Right), d.parts(d.length, Side::Left)];
+    let ends = end_parts.map(|p| d.design(p));
+    let (x, parts, c_m) = if has_transverse_load(d.loads) {
+        let e = d.extremes();
+        let point = larger(e.max, e.min);
+        (point.0, d.parts_at(point), 1.0)
+    } else if ends[0].abs() >= ends[1].abs() {
+        (0.0, end_parts[0], c_m(ends))
+    } else {
+        (d.length, end_parts[1], c_m(ends))
+    };
+    let m2 = d.design(parts);
+    let min = depth.map_or(0.0, |h| aci::m2_min(p_u, h, e_min));
+    let raised_to_min = m2.abs() < min;
+    AciColumn {
+        x,
+        parts,
+        m2: if raised_to_min {
+            min.copysign(if m2 == 0.0 { 1.0 } else { m2 })
+        } else {
+            m2
+        },
+        // 6.6.4.5.4: where M2,min exceeds M2, Cm = 1.0 (or from the end moments; 1.0 is
+        // taken, the end moments being then small or zero).
+        c_m: if raised_to_min { 1.0 } else { c_m },
+        raised_to_min,
+    }
+}
+
 fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let model = input.model;
     let mem = &model.members[m];
     let l = model.length(m);
-    let loads = &input.loads[m];
+    let loads = input.loads[m].as_slice();
     let ns = end_moments(input.no_sway, m);
     let sw = end_moments(input.sway, m);
     let ns_end = &input.no_sway.end_forces[m];
     let sw_end = &input.sway.end_forces[m];
-    let n_i = -(ns_end.i[0] + sw_end.i[0]);
-    let n_j = ns_end.j[0] + sw_end.j[0];
-    let compression = (-n_i).max(-n_j).max(0.0);
+    let diagram = |k_ns: f64, k_s: f64| Diagram {
+        length: l,
+        no_sway: ns_end,
+        sway: sw_end,
+        loads,
+        k_ns,
+        k_s,
+    };
+    let first_order = diagram(1.0, 1.0);
+    let axial = first_order.least_axial();
+    let compression = (-axial).max(0.0);
     let shear = (ns_end.i[1] + sw_end.i[1])
         .abs()
         .max((ns_end.j[1] + sw_end.j[1]).abs());
-    let (xs, ms_ns) = span_moment(&span_extremes(l, ns_end, loads), l);
-    let ms_sw = sw[0] + (sw[1] - sw[0]) * xs / l;
+    let method = model.analysis.method;
+    let is_column = mem.role == Role::Column;
 
     let mut notes = Vec::new();
     let mut stable = true;
     // Sway amplifier: the largest of the stories the member belongs to.
     let in_stories = member_stories(model, input.stories, m);
-    let sway_amp = if in_stories.is_empty() {
+    let story_amp = if in_stories.is_empty() {
         Some(1.0)
     } else {
         in_stories
@@ -158,24 +350,44 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             .map(|&k| input.figures[k].sway_amplifier)
             .try_fold(1.0f64, |acc, a| a.map(|a| acc.max(a)))
     };
-    if sway_amp.is_none() {
+    if story_amp.is_none() {
         stable = false;
         notes.push("its story is unstable under this case".into());
     }
+    // ACI 318-19: in a non-sway story (6.6.4.3) the moments are the first-order totals;
+    // δs (6.6.4.6.1) belongs to sway stories.
+    let aci_non_sway = method == SecondOrderMethod::AciMagnifier
+        && in_stories
+            .iter()
+            .all(|&k| input.figures[k].classification == Classification::NonSway);
+    let sway_amp = if aci_non_sway { Some(1.0) } else { story_amp };
     let amp_s = sway_amp.unwrap_or(f64::NAN);
-    let cm = if has_transverse_load(loads) {
-        1.0
-    } else {
-        c_m(ns)
-    };
-    let method = model.analysis.method;
+    let transverse = has_transverse_load(loads);
 
-    // Non-sway amplifier by method.
-    let (p_critical, amp_ns) = match method {
-        SecondOrderMethod::AiscB1B2 if compression > 0.0 => {
-            // A-8-5 with K1 = 1.0 and EI* the stiffness used in the analysis.
+    // AISC A-8-2: Pr = Pnt + B2·Plt, the largest compression along the member.
+    let p_r = (method == SecondOrderMethod::AiscB1B2)
+        .then(|| (-diagram(1.0, amp_s).least_axial()).max(0.0));
+    // M2 and Cm of an ACI column on the diagram Mns + δs·Ms (6.6.4.6.1, 6.6.4.6.4), or on
+    // the first-order total in a non-sway story.
+    let aci_col = (method == SecondOrderMethod::AciMagnifier && is_column && compression > 0.0)
+        .then(|| {
+            aci_column(
+                &diagram(1.0, amp_s),
+                compression,
+                model.sections[mem.section].depth,
+                aci::e_min_for(&model.units),
+            )
+        });
+
+    // Cm and the non-sway amplifier by method.
+    let (c_m, p_critical, amp_ns) = match (method, p_r, &aci_col) {
+        (SecondOrderMethod::AiscB1B2, Some(p_r), _) if p_r > 0.0 => {
+            // A-8-4 from the no-sway end moments Mnt; 1.0 with transverse load (the
+            // conservative value A-8-4 permits, from memory). A-8-5 with K1 = 1.0 and EI*
+            // the stiffness used in the analysis.
+            let cm = if transverse { 1.0 } else { c_m(ns) };
             let pe1 = aisc::p_e1(input.stiffness[m].ei, l);
-            let b1 = aisc::b1(cm, input.alpha, compression, pe1);
+            let b1 = aisc::b1(cm, input.alpha, p_r, pe1);
             if b1.is_none() {
                 stable = false;
                 notes.push(
@@ -183,11 +395,9 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                         .into(),
                 );
             }
-            (Some(pe1), b1)
+            (Some(cm), Some(pe1), b1)
         }
-        // ACI 318-19 §6.6.4 magnifies the moments of columns (compression members), not of
-        // beams that carry some axial force from frame action.
-        SecondOrderMethod::AciMagnifier if compression > 0.0 && mem.role != Role::Beam => {
+        (SecondOrderMethod::AciMagnifier, _, Some(col)) => {
             // 6.6.4.4.4(a) with the gross section and k = 1.0 (6.6.4.4.3 permits 1.0 for
             // non-sway members, from memory).
             let section = &model.sections[mem.section];
@@ -197,123 +407,144 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                 1.0,
                 l,
             );
-            let delta = aci::delta_ns(cm, compression, pc);
+            let delta = aci::delta_ns(col.c_m, compression, pc);
             if delta.is_none() {
                 stable = false;
                 notes.push("Pu ≥ 0.75·Pc: the member is unstable (ACI 318-19 6.6.4.5.2)".into());
             }
-            (Some(pc), delta)
+            (Some(col.c_m), Some(pc), delta)
         }
-        _ => (None, Some(1.0)),
+        _ => (None, None, Some(1.0)),
     };
+    if method == SecondOrderMethod::AciMagnifier && compression > 0.0 && !is_column {
+        notes.push(format!(
+            "no non-sway magnifier δ: ACI 318-19 6.6.4.5 magnifies columns, not {}s \
+             (common practice, no source)",
+            mem.role
+        ));
+    }
     let b1 = amp_ns.unwrap_or(f64::NAN);
-    // The factor on the no-sway part at a section: B1 (AISC) or 1 (ACI ends, where δ acts
-    // on the column's Mc instead; EN 1993-1-1; the direct analysis).
+    // The factor on the no-sway part of the diagram: B1 (AISC); 1 for ACI (δ acts on the
+    // column's Mc instead), EN 1993-1-1 and the direct analysis.
     let amp_n = match method {
-        SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Ec3AlphaCr => b1,
-        SecondOrderMethod::AciMagnifier | SecondOrderMethod::Direct => 1.0,
+        SecondOrderMethod::AiscB1B2 => b1,
+        _ => 1.0,
     };
-    let section = |x: f64, n: f64, s: f64, design: f64| MomentCheck {
+    let design = diagram(amp_n, amp_s);
+    let section = |x: f64, parts: (f64, f64), value: f64| MomentCheck {
         x,
-        no_sway: n,
-        sway: s,
-        first_order: n + s,
-        design,
-        governs: if (amp_s * s).abs() > (amp_n * n).abs() {
+        no_sway: parts.0,
+        sway: parts.1,
+        first_order: parts.0 + parts.1,
+        design: value,
+        governs: if (amp_s * parts.1).abs() > (amp_n * parts.0).abs() {
             Part::Sway
         } else {
             Part::NoSway
         },
     };
-    let (ends, span) = match (method, input.direct) {
-        (SecondOrderMethod::Direct, Some((d, spans))) => {
-            let dm = end_moments(d, m);
-            let (xd, md) = span_moment(&spans[m], l);
-            let ns_x = crate::solve::beam::internal_forces(xd, ns_end, loads).m;
-            let sw_x = sw[0] + (sw[1] - sw[0]) * xd / l;
-            (
-                [
-                    section(0.0, ns[0], sw[0], dm[0]),
-                    section(l, ns[1], sw[1], dm[1]),
-                ],
-                section(xd, ns_x, sw_x, md),
-            )
-        }
-        (SecondOrderMethod::Direct, None) => {
-            stable = false;
-            notes.push("direct second-order analysis did not converge".into());
-            (
-                [
-                    section(0.0, ns[0], sw[0], f64::NAN),
-                    section(l, ns[1], sw[1], f64::NAN),
-                ],
-                section(xs, ms_ns, ms_sw, f64::NAN),
-            )
-        }
-        (SecondOrderMethod::AciMagnifier, _) => {
-            let ends = [
-                section(0.0, ns[0], sw[0], ns[0] + amp_s * sw[0]),
-                section(l, ns[1], sw[1], ns[1] + amp_s * sw[1]),
-            ];
-            let span = if compression > 0.0 && mem.role != Role::Beam {
-                // Mc = δ·M2 (6.6.4.5.1), M2 the larger magnified end moment and at least
-                // M2,min (6.6.4.5.4) where the section depth is known.
-                let k = if ends[0].design.abs() >= ends[1].design.abs() {
-                    0
-                } else {
-                    1
-                };
-                let mut m2 = ends[k].design;
-                if let Some(h) = model.sections[mem.section].depth {
-                    let min = aci::m2_min(compression, h);
-                    if m2.abs() < min {
-                        notes.push("M2 raised to M2,min (ACI 318-19 6.6.4.5.4)".into());
-                        m2 = min.copysign(if m2 == 0.0 { 1.0 } else { m2 });
-                    }
-                }
-                section(ends[k].x, ends[k].no_sway, ends[k].sway, b1 * m2)
-            } else {
-                section(xs, ms_ns, ms_sw, ms_ns + amp_s * ms_sw)
-            };
-            for e in &ends {
-                if e.design.abs()
-                    > aci::SECOND_ORDER_LIMIT * e.first_order.abs() + 1e-9 * e.design.abs().max(1.0)
-                {
-                    notes.push(format!(
-                        "second-order end moment is {:.2} × first-order, above the 1.4 limit \
-                         (ACI 318-19 6.2.5.3)",
-                        e.design.abs() / e.first_order.abs()
-                    ));
-                    break;
-                }
+    let end_parts = [(ns[0], sw[0]), (ns[1], sw[1])];
+    let (ends, span, span_max, span_min) = match (method, input.direct) {
+        (SecondOrderMethod::Direct, direct) => {
+            let dm = direct.map_or([f64::NAN; 2], |(d, _)| end_moments(d, m));
+            let e = direct.map_or_else(|| first_order.extremes(), |(_, spans)| spans[m]);
+            if direct.is_none() {
+                stable = false;
+                notes.push("direct second-order analysis did not converge".into());
             }
-            (ends, span)
+            let nan_or = |v: f64| if direct.is_some() { v } else { f64::NAN };
+            let point =
+                |p: (f64, f64)| section(p.0, first_order.parts(p.0, Side::Left), nan_or(p.1));
+            (
+                [
+                    section(0.0, end_parts[0], dm[0]),
+                    section(l, end_parts[1], dm[1]),
+                ],
+                point(span_moment(&e, l)),
+                point(e.max),
+                point(e.min),
+            )
         }
-        _ => (
-            [
-                section(0.0, ns[0], sw[0], b1 * ns[0] + amp_s * sw[0]),
-                section(l, ns[1], sw[1], b1 * ns[1] + amp_s * sw[1]),
-            ],
-            section(xs, ms_ns, ms_sw, b1 * ms_ns + amp_s * ms_sw),
-        ),
+        _ => {
+            let e = design.extremes();
+            let point = |p: (f64, f64)| {
+                let parts = design.parts_at(p);
+                section(p.0, parts, design.design(parts))
+            };
+            (
+                [
+                    section(0.0, end_parts[0], design.design(end_parts[0])),
+                    section(l, end_parts[1], design.design(end_parts[1])),
+                ],
+                point(span_moment(&e, l)),
+                point(e.max),
+                point(e.min),
+            )
+        }
     };
+    // ACI columns: Mc = δ·M2 (6.6.4.5.1) at the section of M2, in place of the span value.
+    let span = match &aci_col {
+        Some(col) => {
+            let mc = b1 * col.m2;
+            if col.raised_to_min {
+                notes.push("M2 raised to M2,min (ACI 318-19 6.6.4.5.4)".into());
+            }
+            let s = section(col.x, col.parts, mc);
+            // 6.2.5.3 (from memory): against the first-order moment at that section, or
+            // M2,min where M2 was raised to it.
+            let reference = if col.raised_to_min {
+                col.m2.abs()
+            } else {
+                s.first_order.abs()
+            };
+            if let Some(r) = above_aci_limit(mc, reference) {
+                notes.push(format!(
+                    "Mc = δ·M2 is {r:.2} × the first-order moment, above the 1.4 limit of \
+                     ACI 318-19 6.2.5.3 (from memory): that clause does not permit this design"
+                ));
+            }
+            s
+        }
+        None => span,
+    };
+    if method == SecondOrderMethod::AciMagnifier {
+        if let Some(r) = ends
+            .iter()
+            .find_map(|e| above_aci_limit(e.design, e.first_order))
+        {
+            notes.push(format!(
+                "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
+                 (ACI 318-19 6.2.5.3, from memory)"
+            ));
+        }
+        if aci_non_sway && is_column && compression > 0.0 {
+            notes.push(
+                "non-sway story: M1, M2 are the first-order end moments (ACI 318-19 6.6.4.3, \
+                 6.6.4.5)"
+                    .into(),
+            );
+        }
+    }
     if method == SecondOrderMethod::Ec3AlphaCr && compression > 0.0 {
         notes.push("member imperfections and P-δ are left to the member buckling checks (EN 1993-1-1 5.2.2(3)c, 6.3)".into());
     }
     // The part that governs at the section with the largest design moment.
-    let governs = [ends[0], ends[1], span]
+    let governs = [ends[0], ends[1], span, span_max, span_min]
         .into_iter()
         .max_by(|a, b| a.design.abs().total_cmp(&b.design.abs()))
         .map_or(Part::NoSway, |g| g.governs);
     MemberCheck {
         member: mem.id.clone(),
         role: mem.role,
-        axial: 0.5 * (n_i + n_j),
+        axial,
         compression,
+        p_r,
         shear,
         ends,
         span,
-        c_m: (compression > 0.0).then_some(cm),
+        span_max,
+        span_min,
+        c_m,
         p_critical,
         non_sway_amplifier: amp_ns,
         sway_amplifier: sway_amp,
@@ -322,7 +553,6 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         notes,
     }
 }
-
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -48,6 +48,12 @@ pub enum CheckError {
     System(#[from] SystemError),
     #[error("no factored cases to check")]
     NoCases,
+    #[error("factored case {case}: {source}")]
+    StoryStiffness {
+        case: String,
+        #[source]
+        source: story::StoryStiffnessError,
+    },
 }
 
 /// A story as the report lists it.
@@ -91,6 +97,11 @@ pub struct CaseCheck {
     pub stable: bool,
     pub stories: Vec<StoryFigures>,
     pub members: Vec<MemberCheck>,
+    /// Largest out-of-balance force at a node of the case's first-order solution, N
+    /// (moments divided by a unit length; a combination sums |factor| × each part's).
+    pub residual: f64,
+    /// `residual` relative to the largest applied load component.
+    pub residual_relative: f64,
 }
 
 /// One node's displacement in a buckled shape (dimensionless, largest translation 1).
@@ -115,6 +126,15 @@ pub struct CheckReport {
 
 /// Run the check of `model` for `cases` with the model's analysis options.
 pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, CheckError> {
+    check_with_progress(model, cases, &mut |_, _| {})
+}
+
+/// [`check`], calling `progress(done, total)` after each factored case.
+pub fn check_with_progress(
+    model: &Model,
+    cases: &[FactoredCase],
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<CheckReport, CheckError> {
     if cases.is_empty() {
         return Err(CheckError::NoCases);
     }
@@ -123,18 +143,21 @@ pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, Check
     let parts: Vec<SwayParts> = (0..model.load_cases.len())
         .map(|k| split.split_case(model, k))
         .collect::<Result<_, _>>()?;
+    let flexibility = story::StoryFlexibility::new(&stories, &split);
     let stiffness = member_stiffness(model);
     let second = SecondOrderModel::new(model, &stiffness, model.analysis.segments)?;
     let ctx = Context {
         model,
         stories: &stories,
         split: &split,
+        flexibility: &flexibility,
         second: &second,
         stiffness: &stiffness,
     };
     let mut out = Vec::new();
-    for fc in cases {
+    for (k, fc) in cases.iter().enumerate() {
         out.extend(ctx.case(fc, &parts)?);
+        progress(k + 1, cases.len());
     }
     Ok(CheckReport {
         title: model.title.clone(),
@@ -163,6 +186,8 @@ struct Context<'a> {
     model: &'a Model,
     stories: &'a [Story],
     split: &'a SwaySplit,
+    /// Story drifts under unit level forces, for every story stiffness H/Δ.
+    flexibility: &'a story::StoryFlexibility,
     second: &'a SecondOrderModel,
     stiffness: &'a [crate::solve::mesh::MemberStiffness],
 }
@@ -191,13 +216,12 @@ impl Context<'_> {
         let buckling = self.second.critical_factor(model, &loads)?;
 
         // Notional loads: which directions, and how large at each level.
+        let own: Vec<f64> = combined.holding.iter().map(|h| -h).collect();
         let estimate = story::figures(
-            model,
             self.stories,
-            self.split,
+            &self.story_stiffness(fc, &own, &gravity)?,
             &gravity,
-            &combined.holding,
-            &[],
+            &own,
             &combined.sway,
             alpha,
         );
@@ -221,13 +245,12 @@ impl Context<'_> {
                 combined.sway.clone()
             };
             let (direct_status, direct_solution) = self.direct(fc, &notional, alpha)?;
+            let level_forces: Vec<f64> = own.iter().zip(&notional).map(|(h, n)| h + n).collect();
             let figures = story::figures(
-                model,
                 self.stories,
-                self.split,
+                &self.story_stiffness(fc, &level_forces, &gravity)?,
                 &gravity,
-                &combined.holding,
-                &notional,
+                &level_forces,
                 &sway,
                 alpha,
             );
@@ -239,7 +262,17 @@ impl Context<'_> {
                 &combined.no_sway,
                 &sway,
                 alpha,
+                buckling.as_ref().map(|b| b.alpha_cr),
             );
+            // EN 1993-1-1 judges the structure by one α_cr, not story by story.
+            let mut figures = figures;
+            if model.analysis.method == SecondOrderMethod::Ec3AlphaCr {
+                ec3::judge_structure(
+                    &mut figures,
+                    buckling.as_ref().map(|b| b.alpha_cr),
+                    direct_status.converged,
+                );
+            }
             let members = member::members(&member::MemberInput {
                 model,
                 stories: self.stories,
@@ -280,6 +313,8 @@ impl Context<'_> {
                 stable,
                 stories: figures,
                 members,
+                residual: total.residual.max_nodal,
+                residual_relative: total.residual.relative(),
             });
         }
         Ok(out)
@@ -287,6 +322,21 @@ impl Context<'_> {
 }
 
 impl Context<'_> {
+    /// Each story's H/Δ for a case with net level forces `level_forces`.
+    fn story_stiffness(
+        &self,
+        fc: &FactoredCase,
+        level_forces: &[f64],
+        gravity: &story::Gravity,
+    ) -> Result<Vec<story::StoryStiffness>, CheckError> {
+        story::story_stiffness(self.stories, self.flexibility, level_forces, &gravity.y).map_err(
+            |source| CheckError::StoryStiffness {
+                case: fc.id.clone(),
+                source,
+            },
+        )
+    }
+
     /// Loads of factored case `fc` times `scale` on the segmented mesh.
     fn case_loads(&self, fc: &FactoredCase, scale: f64) -> MeshLoads {
         let mut loads = MeshLoads::zero(&self.second.mesh);

@@ -179,6 +179,8 @@ pub struct RawCase {
     /// Also act with every load reversed.
     pub reverse: Option<S<bool>>,
     pub self_weight: Option<S<bool>>,
+    /// Place this live load in the arrangements of alternate and adjacent spans.
+    pub arrange: Option<S<bool>>,
     #[serde(default)]
     pub node_load: Vec<S<RawNodeLoad>>,
     #[serde(default)]
@@ -203,7 +205,9 @@ pub struct RawMemberLoad {
     /// `uniform`, `linear`, `point` or `moment`.
     pub kind: S<String>,
     pub direction: Option<S<String>>,
-    /// `along-member` (default) or `projected`.
+    /// `member` (default) or `projection`.
+    pub spread_over: Option<S<String>>,
+    /// The former name of `spread_over`: read only to say what to write instead.
     pub measure: Option<S<String>>,
     pub w: Option<S<Num>>,
     pub w_from: Option<S<Num>>,

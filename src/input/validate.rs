@@ -30,7 +30,7 @@ pub const STIFFNESS_NAMES: [&str; 3] = ["gross", "aci-cracked", "aisc-direct"];
 /// Names accepted for [`Role`].
 pub const ROLE_NAMES: [&str; 3] = ["column", "beam", "brace"];
 /// Names accepted for [`LoadDirection`].
-pub const DIRECTION_NAMES: [&str; 5] = ["local-x", "local-y", "global-x", "global-y", "gravity"];
+pub const DIRECTION_NAMES: [&str; 5] = ["local-x", "local-y", "global-x", "global-y", "down"];
 /// AISC 360-16 §C2.2b(1): notional load Ni = 0.002·α·Yi; the default coefficient.
 pub const AISC_NOTIONAL_COEFFICIENT: f64 = 0.002;
 
@@ -961,6 +961,7 @@ fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCa
             alternative_group: c.alternative.as_ref().map(|g| g.get_ref().clone()),
             level,
             reverse: c.reverse.as_ref().is_some_and(|r| *r.get_ref()),
+            arrange: c.arrange.as_ref().is_some_and(|a| *a.get_ref()),
             nodal: Vec::new(),
             member: Vec::new(),
         };
@@ -1002,9 +1003,60 @@ fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCa
             case.member
                 .extend(self_weight(ctx, sw, &field("self_weight"), model)?);
         }
+        if let Some(a) = c.arrange.as_ref().filter(|a| *a.get_ref()) {
+            arrangeable(ctx, a, &field("arrange"), &case, model)?;
+        }
         out.push(case);
     }
     Ok(out)
+}
+
+/// An arranged load case must be live load with some of it on beams, and the frame's
+/// arrangements must stay within [`crate::arrange::MAX_ARRANGEMENTS`].
+fn arrangeable(
+    ctx: &Ctx,
+    at: &S<bool>,
+    field: &str,
+    case: &LoadCase,
+    model: &Model,
+) -> Result<(), FileError> {
+    use crate::arrange::{MAX_ARRANGEMENTS, may_arrange, patterns, spans};
+    if !may_arrange(case.category) {
+        return Err(ctx.err(
+            at.span(),
+            field,
+            format!(
+                "only live load is arranged over spans (ACI 318-19 §6.4.3, EN 1992-1-1 §5.1.3): expected category = \"live\", got {}",
+                case.category
+            ),
+        ));
+    }
+    let all = spans(model);
+    let loaded: std::collections::BTreeSet<usize> = (0..all.len())
+        .filter(|&s| {
+            case.member
+                .iter()
+                .any(|ml| all[s].members.contains(&ml.member))
+        })
+        .collect();
+    if loaded.is_empty() {
+        return Err(ctx.err(
+            at.span(),
+            field,
+            "nothing to arrange: expected member loads on beams in this case",
+        ));
+    }
+    let count = patterns(model, &all, &(0..all.len()).collect()).len();
+    if count > MAX_ARRANGEMENTS {
+        return Err(ctx.err(
+            at.span(),
+            field,
+            format!(
+                "the frame's beams give {count} live-load arrangements: expected at most {MAX_ARRANGEMENTS}; arrange the live load of fewer floors, or write the arrangements as alternative load cases"
+            ),
+        ));
+    }
+    Ok(())
 }
 
 /// Self-weight as a gravity load γ·A along every member.
@@ -1070,8 +1122,8 @@ fn member_loads(
     let f = |name: &str| format!("{prefix}.{name}");
     let kind = raw.kind.get_ref().as_str();
     let allowed: &[&str] = match kind {
-        "uniform" => &["w", "from", "to", "direction", "measure"],
-        "linear" => &["w_from", "w_to", "from", "to", "direction", "measure"],
+        "uniform" => &["w", "from", "to", "direction", "spread_over"],
+        "linear" => &["w_from", "w_to", "from", "to", "direction", "spread_over"],
         "point" => &["p", "at", "direction"],
         "moment" => &["m", "at"],
         other => {
@@ -1082,6 +1134,28 @@ fn member_loads(
             ));
         }
     };
+    if let Some(old) = &raw.measure {
+        return Err(ctx.err(
+            old.span(),
+            &f("measure"),
+            "`measure` was renamed: write spread_over = \"member\" (intensity per length of \
+             member, the default) or spread_over = \"projection\" (per length of projection, \
+             as for snow on a rafter)",
+        ));
+    }
+    if let Some(d) = &raw.direction
+        && d.get_ref() == "gravity"
+    {
+        return Err(ctx.err(
+            d.span(),
+            &f("direction"),
+            format!(
+                "direction \"gravity\" was renamed: write direction = \"down\" (positive downward); \
+                 expected one of {}",
+                DIRECTION_NAMES.join(", ")
+            ),
+        ));
+    }
     let given: [(&str, Option<Range<usize>>); 10] = [
         ("w", raw.w.as_ref().map(|v| v.span())),
         ("w_from", raw.w_from.as_ref().map(|v| v.span())),
@@ -1092,7 +1166,7 @@ fn member_loads(
         ("to", raw.to.as_ref().map(|v| v.span())),
         ("at", raw.at.as_ref().map(|v| v.span())),
         ("direction", raw.direction.as_ref().map(|v| v.span())),
-        ("measure", raw.measure.as_ref().map(|v| v.span())),
+        ("spread_over", raw.spread_over.as_ref().map(|v| v.span())),
     ];
     for (name, span) in &given {
         if let Some(span) = span
@@ -1135,23 +1209,23 @@ fn member_loads(
             ));
         }
     };
-    let measure = match &raw.measure {
+    let measure = match &raw.spread_over {
         None => Measure::AlongMember,
         Some(m) => match m.get_ref().as_str() {
-            "along-member" => Measure::AlongMember,
-            "projected" if matches!(direction, LoadDirection::LocalX | LoadDirection::LocalY) => {
+            "member" => Measure::AlongMember,
+            "projection" if matches!(direction, LoadDirection::LocalX | LoadDirection::LocalY) => {
                 return Err(ctx.err(
                     m.span(),
-                    &f("measure"),
-                    "a projected load needs a global direction (global-x, global-y or gravity)",
+                    &f("spread_over"),
+                    "a load spread over the projection needs a global direction (global-x, global-y or down)",
                 ));
             }
-            "projected" => Measure::Projected,
+            "projection" => Measure::Projected,
             other => {
                 return Err(ctx.err(
                     m.span(),
-                    &f("measure"),
-                    format!("expected along-member or projected, got \"{other}\""),
+                    &f("spread_over"),
+                    format!("expected one of member, projection, got \"{other}\""),
                 ));
             }
         },

@@ -115,19 +115,25 @@ pub enum LoadDirection {
     GlobalX,
     /// Global Y (positive upward).
     GlobalY,
-    /// Global −Y with a positive magnitude acting downward.
+    /// Global −Y with a positive magnitude acting downward (`direction = "down"` in the
+    /// model file).
+    #[strum(serialize = "down")]
+    #[serde(rename = "down")]
     Gravity,
 }
 
-/// How a distributed load in a global direction is measured on a sloped member.
+/// What length a distributed load in a global direction is spread over on a sloped member
+/// (`spread_over = "member" | "projection"` in the model file).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default, Serialize, Deserialize)]
-#[serde(rename_all = "kebab-case")]
 pub enum Measure {
-    /// Intensity per unit length along the member.
+    /// Intensity per unit length along the member (`spread_over = "member"`).
     #[default]
+    #[serde(rename = "member")]
     AlongMember,
     /// Intensity per unit length of the member's projection perpendicular to the load
-    /// (horizontal projection for gravity, vertical projection for a global-X load).
+    /// (horizontal projection for a downward load, vertical projection for a global-X load;
+    /// `spread_over = "projection"`).
+    #[serde(rename = "projection")]
     Projected,
 }
 
@@ -187,6 +193,9 @@ pub struct LoadCase {
     /// Also act with every load reversed (a lateral load from the other side): the case
     /// and its negative are alternatives.
     pub reverse: bool,
+    /// Live load on beams placed in the arrangements of [`crate::arrange`] (ACI 318-19
+    /// §6.4.3, EN 1992-1-1 §5.1.3) instead of on every span at once.
+    pub arrange: bool,
     pub nodal: Vec<NodalLoad>,
     /// Member loads, including self-weight already expanded into gravity loads.
     pub member: Vec<MemberLoad>,
@@ -203,6 +212,7 @@ impl LoadCase {
             alternative_group: None,
             level: None,
             reverse: false,
+            arrange: false,
             nodal: Vec::new(),
             member: Vec::new(),
         }

@@ -1,11 +1,10 @@
 //! Report of `plumbline check`: the stories, then for each factored case the story figures
 //! and the per-member moments (no-sway part, sway part, amplifiers, design value).
 
-use serde::Serialize;
-
-use super::{CAUTION, OutputFormat, num, opt, table_of};
-use crate::check::{CaseCheck, CheckReport, MemberCheck};
-use crate::envelope::{GoverningMoment, governing};
+use super::summary::Table;
+use super::{num, opt, table_of};
+use crate::check::story::StiffnessSource;
+use crate::check::{CaseCheck, CheckReport, MemberCheck, StoryFigures};
 use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
 
@@ -27,72 +26,9 @@ pub fn method_title(m: SecondOrderMethod) -> &'static str {
     }
 }
 
-#[derive(Serialize)]
-struct JsonDoc<'a> {
-    title: &'a str,
-    /// Unit of every field: SI base units throughout.
-    units: JsonUnits,
-    combinations: &'a str,
-    method: SecondOrderMethod,
-    method_description: &'a str,
-    report: &'a CheckReport,
-    /// The largest design moment of each member over the stable cases.
-    governing: Vec<GoverningMoment>,
-    caution: &'a str,
-}
-
-#[derive(Serialize)]
-struct JsonUnits {
-    length: &'static str,
-    force: &'static str,
-    moment: &'static str,
-    stiffness: &'static str,
-    displacement: &'static str,
-}
-
-/// Render `report` for `model` (whose units the tables use). `table_title` names the
-/// combination table that produced the cases.
-pub fn render(
-    model: &Model,
-    report: &CheckReport,
-    table_title: &str,
-    format: OutputFormat,
-) -> String {
-    match format {
-        OutputFormat::Json => {
-            let doc = JsonDoc {
-                title: &model.title,
-                units: JsonUnits {
-                    length: "m",
-                    force: "N",
-                    moment: "N*m",
-                    stiffness: "N/m",
-                    displacement: "m",
-                },
-                combinations: table_title,
-                method: report.method,
-                method_description: method_title(report.method),
-                report,
-                governing: governing(report),
-                caution: CAUTION,
-            };
-            serde_json::to_string_pretty(&doc).expect("a check report serializes") + "\n"
-        }
-        OutputFormat::Csv => csv(model, report),
-        OutputFormat::Table => text(model, report, table_title),
-    }
-}
-
-fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
+/// The per-case detail as text: the stories, then each case's story and member tables.
+pub fn detail_text(model: &Model, report: &CheckReport) -> String {
     let u = &model.units;
-    let mut out = String::new();
-    out.push_str(&format!("{}\n", model.title));
-    out.push_str(&format!("Combinations: {table_title}\n"));
-    out.push_str(&format!(
-        "Second-order method: {}\n",
-        method_title(report.method)
-    ));
-    out.push_str(&format!("Analysis stiffness: {}\n\n", report.stiffness));
     let lu = u.label(Dimension::Length);
     let rows = report
         .stories
@@ -106,7 +42,7 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
             ]
         })
         .collect();
-    out.push_str("Stories\n");
+    let mut out = String::from("Stories\n");
     out.push_str(&table_of(
         &[
             "story",
@@ -121,79 +57,58 @@ fn text(model: &Model, report: &CheckReport, table_title: &str) -> String {
         out.push_str(&case_text(model, case));
         out.push('\n');
     }
-    out.push_str(&governing_text(model, report));
-    let unstable: Vec<&str> = report
-        .cases
-        .iter()
-        .filter(|c| !c.stable)
-        .map(|c| c.id.as_str())
-        .collect();
-    if !unstable.is_empty() {
-        out.push_str(&format!(
-            "UNSTABLE cases (no design values): {}\n\n",
-            unstable.join(", ")
-        ));
-    }
-    out.push_str(
-        "Moments are internal bending moments, positive with the member's local −y face in \
-         tension (sagging for a beam drawn left to right); N is positive in tension.\n",
-    );
-    out.push_str(&format!("{CAUTION}\n"));
+    out.push_str(PATTERN_LEGEND);
+    out.push_str("\n\n");
     out
 }
 
-/// The governing design moment of each member over the stable cases.
-pub fn governing_text(model: &Model, report: &CheckReport) -> String {
-    let u = &model.units;
-    let (lm, lf, lu) = (
-        u.label(Dimension::Moment),
-        u.label(Dimension::Force),
-        u.label(Dimension::Length),
-    );
-    let m = |v: f64| num(u.from_si(v, Dimension::Moment), 1);
-    let rows = governing(report)
-        .into_iter()
-        .map(|g| {
-            vec![
-                g.member,
-                m(g.moment),
-                g.location.to_string(),
-                num(u.from_si(g.x, Dimension::Length), 2),
-                g.case,
-                m(g.first_order),
-                if g.first_order.abs() > 0.0 {
-                    num(g.moment / g.first_order, 3)
-                } else {
-                    "-".into()
-                },
-                num(u.from_si(g.axial, Dimension::Force), 1),
-                g.governs.to_string(),
-            ]
+/// The per-case detail as tables for CSV: one row per case and member, and one row per
+/// case and story.
+pub fn detail_tables(model: &Model, report: &CheckReport) -> Vec<Table> {
+    let mut header = vec!["case".to_string()];
+    header.extend(member_header(model));
+    header.push("stable".into());
+    let mut rows = Vec::new();
+    for c in &report.cases {
+        for mc in &c.members {
+            let mut row = vec![c.id.clone()];
+            row.extend(member_row(model, mc, 3));
+            row.push((c.stable && mc.stable).to_string());
+            rows.push(row);
+        }
+    }
+    let members = Table {
+        name: "case-members",
+        title: "Members by case".into(),
+        header,
+        rows,
+    };
+    let mut header = vec!["case".to_string()];
+    header.extend(story_header(model));
+    let rows = report
+        .cases
+        .iter()
+        .flat_map(|c| {
+            c.stories.iter().map(|s| {
+                let mut row = vec![c.id.clone()];
+                row.extend(story_row(model, s, 3));
+                row
+            })
         })
         .collect();
-    let mut out = String::from("Governing design moments over the stable cases\n");
-    out.push_str(&table_of(
-        &[
-            "member".to_string(),
-            format!("M design ({lm})"),
-            "at".into(),
-            format!("x ({lu})"),
-            "case".into(),
-            format!("M first-order ({lm})"),
-            "ratio".into(),
-            format!("N ({lf})"),
-            "larger part".into(),
-        ],
+    let stories = Table {
+        name: "case-stories",
+        title: "Stories by case".into(),
+        header,
         rows,
-    ));
-    out.push_str("\n\n");
-    out
+    };
+    vec![members, stories]
 }
 
 /// The text block of one case.
 pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     let u = &model.units;
-    let (lf, ld) = (u.label(Dimension::Force), u.label(Dimension::Displacement));
+    let lf = u.label(Dimension::Force);
     let f = |v: f64| num(u.from_si(v, Dimension::Force), 1);
     let mut out = format!("Case {}: {}  [{}]\n", c.id, c.expression, c.basis);
     let buckling = c
@@ -222,49 +137,8 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     if !c.stable {
         out.push_str("  UNSTABLE: the loads exceed a critical load; no design values are given\n");
     }
-    let rows = c
-        .stories
-        .iter()
-        .map(|s| {
-            vec![
-                s.story.to_string(),
-                f(s.sum_p),
-                f(s.shear),
-                num(u.from_si(s.drift, Dimension::Displacement), 3),
-                if s.drift_ratio == 0.0 {
-                    "0".into()
-                } else {
-                    format!("1/{:.0}", 1.0 / s.drift_ratio.abs())
-                },
-                num(s.q_index, 3),
-                opt(s.b2, 3),
-                opt(s.delta_s_q, 3),
-                num(s.alpha_cr_story, 2),
-                opt(s.drift_amplification, 3),
-                opt(s.sway_amplifier, 3),
-                s.classification.to_string(),
-                s.criterion.clone(),
-            ]
-        })
-        .collect();
-    out.push_str(&indent(&table_of(
-        &[
-            "story".to_string(),
-            format!("ΣP ({lf})"),
-            format!("H ({lf})"),
-            format!("drift ({ld})"),
-            "drift/h".into(),
-            "Q".into(),
-            "B2".into(),
-            "δs".into(),
-            "α_cr".into(),
-            "Δ2/Δ1".into(),
-            "sway amp".into(),
-            "verdict".into(),
-            "decided by".into(),
-        ],
-        rows,
-    )));
+    let rows = c.stories.iter().map(|s| story_row(model, s, 1)).collect();
+    out.push_str(&indent(&table_of(&story_header(model), rows)));
     out.push('\n');
     let rows = c
         .members
@@ -282,25 +156,73 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     out
 }
 
-fn indent(s: &str) -> String {
-    s.lines().map(|l| format!("  {l}\n")).collect()
+/// Column heads of the per-story results of one case, in the model's units.
+fn story_header(model: &Model) -> Vec<String> {
+    let u = &model.units;
+    let (lf, ld) = (u.label(Dimension::Force), u.label(Dimension::Displacement));
+    vec![
+        "story".to_string(),
+        format!("ΣP ({lf})"),
+        format!("H ({lf})"),
+        format!("drift ({ld})"),
+        "drift/h".into(),
+        "Q".into(),
+        "B2".into(),
+        "δs".into(),
+        "α_cr".into(),
+        "Δ2/Δ1".into(),
+        "sway amp".into(),
+        "H/Δ from".into(),
+        "verdict".into(),
+        "decided by".into(),
+    ]
 }
 
-fn csv(model: &Model, report: &CheckReport) -> String {
-    let mut header = vec!["case".to_string()];
-    header.extend(member_header(model));
-    header.push("stable".into());
-    let mut out = header.join(",") + "\n";
-    for c in &report.cases {
-        for mc in &c.members {
-            let mut row = vec![c.id.clone()];
-            row.extend(member_row(model, mc, 3));
-            row.push((c.stable && mc.stable).to_string());
-            out.push_str(&row.join(","));
-            out.push('\n');
-        }
+/// Short label of the lateral pattern a story stiffness came from (legend in
+/// [`PATTERN_LEGEND`]).
+fn pattern_label(s: StiffnessSource) -> &'static str {
+    match s {
+        StiffnessSource::CaseSway => "case",
+        StiffnessSource::GravityPattern => "gravity",
+        StiffnessSource::UniformPattern => "uniform",
+        StiffnessSource::Support => "support",
     }
-    out
+}
+
+/// What the "H/Δ from" column means.
+pub const PATTERN_LEGEND: &str = "H/Δ from: the lateral pattern of each story's stiffness — case: \
+the case's own level forces (they push every story the same way); gravity: level forces ∝ \
+the level gravity loads Yi; uniform: equal level forces; support: the level is held. AISC \
+360-16 App. 8 lets H and ΔH come from any lateral load (from memory).";
+
+/// One story's results under [`story_header`], forces to `decimals`.
+fn story_row(model: &Model, s: &StoryFigures, decimals: usize) -> Vec<String> {
+    let u = &model.units;
+    let f = |v: f64| num(u.from_si(v, Dimension::Force), decimals);
+    vec![
+        s.story.to_string(),
+        f(s.sum_p),
+        f(s.shear),
+        num(u.from_si(s.drift, Dimension::Displacement), decimals + 2),
+        if s.drift_ratio == 0.0 {
+            "0".into()
+        } else {
+            format!("1/{:.0}", 1.0 / s.drift_ratio.abs())
+        },
+        num(s.q_index, 3),
+        opt(s.b2, 3),
+        opt(s.delta_s_q, 3),
+        num(s.alpha_cr_story, 2),
+        opt(s.drift_amplification, 3),
+        opt(s.sway_amplifier, 3),
+        pattern_label(s.stiffness_source).into(),
+        s.classification.to_string(),
+        s.criterion.clone(),
+    ]
+}
+
+fn indent(s: &str) -> String {
+    s.lines().map(|l| format!("  {l}\n")).collect()
 }
 
 /// Column heads of the per-member results, in the model's units.

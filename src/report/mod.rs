@@ -4,7 +4,12 @@
 //! Every report carries [`CAUTION`].
 
 pub mod check;
+pub mod diagram;
+pub mod html;
 pub mod solve;
+pub mod starter;
+pub mod summary;
+pub mod svg;
 
 use tabled::builder::Builder;
 use tabled::settings::Style;
@@ -25,6 +30,23 @@ pub enum OutputFormat {
     Json,
     /// Comma-separated values.
     Csv,
+}
+
+/// Output format of `check`.
+#[derive(
+    Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, strum::Display, strum::EnumString,
+)]
+#[strum(serialize_all = "kebab-case")]
+pub enum CheckFormat {
+    /// The one-page summary as aligned plain-text tables in the model's units.
+    #[default]
+    Table,
+    /// One JSON document in SI base units: summary, envelope and per-case detail.
+    Json,
+    /// One CSV file per table (write them with -o DIR), in the model's units.
+    Csv,
+    /// A calculation-package page in Markdown.
+    Md,
 }
 
 /// A plain table of our own style: no frame, a dashed rule under the header row.

@@ -2,6 +2,8 @@
 //! integration tests.
 #![allow(dead_code)]
 
+pub mod random_frame;
+
 use plumbline::model::*;
 use plumbline::units::{Unit, UnitSystem};
 

@@ -1,0 +1,688 @@
+//! The summary of `plumbline check`: the assumptions with where each came from, the story
+//! envelope, the member envelope, the columns' axial extremes, the cases that never govern,
+//! the largest equilibrium residual and the caution, as text, Markdown, CSV and JSON.
+//!
+//! Text, Markdown and CSV are in the model's units; JSON in SI base units with a `units`
+//! block. One set of row builders serves every tabular format.
+
+use serde::{Deserialize, Serialize};
+
+use super::{CAUTION, num, table_of};
+use crate::check::CheckReport;
+use crate::envelope::{
+    AxialExtreme, DesignMoment, Envelope, GoverningMoment, Location, MemberEnvelope, Peak, Sign,
+    StoryEnvelope, governing,
+};
+use crate::model::Model;
+use crate::units::Dimension;
+
+/// Version of the JSON document of `check`; raised when a key changes meaning.
+pub const SCHEMA_VERSION: u32 = 2;
+
+/// The sign convention every moment table states.
+pub const SIGN_NOTE: &str = "Moments are internal bending moments, positive with the member's \
+local −y face in tension (sagging for a beam drawn left to right); N is positive in tension; \
+Pr is the required axial compressive strength (0 in tension).";
+
+/// One setting of the run, its value and where the value came from.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Setting {
+    pub setting: String,
+    pub value: String,
+    /// `command line`, `model file`, `table default`, `method default` or `program default`.
+    pub source: String,
+}
+
+/// The combination table of the run.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct TableInfo {
+    /// Shipped name or file the table was read from.
+    pub name: String,
+    pub title: String,
+    pub standard: String,
+    pub edition: String,
+    pub source: String,
+    pub caution: String,
+}
+
+/// Which factored cases a run covers.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Selection {
+    /// The `--case` prefix, when given.
+    pub filter: Option<String>,
+    /// Factored cases the table gives for the model.
+    pub table_cases: usize,
+    /// Factored cases kept by the filter.
+    pub selected: usize,
+    /// Ids of the case checks analysed (gravity-only cases once per notional direction).
+    pub analysed: Vec<String>,
+    /// What the expansion reported: merged, skipped and unplaced combinations.
+    pub remarks: Vec<String>,
+}
+
+impl Selection {
+    /// One line saying which cases the results cover.
+    pub fn heading(&self) -> String {
+        let which = match &self.filter {
+            None => format!("all {} factored cases of the table", self.table_cases),
+            Some(p) => format!(
+                "{} of {} factored cases (ids starting with \"{p}\")",
+                self.selected, self.table_cases
+            ),
+        };
+        let n = self.analysed.len();
+        if n == self.selected {
+            format!("Cases included: {which}")
+        } else {
+            format!(
+                "Cases included: {which}, {n} analyses (gravity-only cases once per notional-load direction)"
+            )
+        }
+    }
+}
+
+/// Everything the summary reports about one run.
+pub struct Summary<'a> {
+    pub model: &'a Model,
+    pub report: &'a CheckReport,
+    /// The model file as named on the command line.
+    pub model_file: String,
+    /// SHA-256 of the model file's bytes, lowercase hex.
+    pub model_sha256: String,
+    pub table: TableInfo,
+    pub settings: Vec<Setting>,
+    pub selection: Selection,
+    pub envelope: Envelope,
+}
+
+impl Summary<'_> {
+    /// "title; standard; edition" of the combination table.
+    pub fn table_line(&self) -> String {
+        format!(
+            "{}; {}; edition {}",
+            self.table.title, self.table.standard, self.table.edition
+        )
+    }
+}
+
+/// The unit of every field of the JSON document.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct JsonUnits {
+    pub length: String,
+    pub force: String,
+    pub moment: String,
+    pub stiffness: String,
+    pub displacement: String,
+}
+
+/// The JSON document of `check` (keys documented in the README).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct CheckDoc {
+    pub schema_version: u32,
+    /// `plumbline <version>`.
+    pub program: String,
+    pub title: String,
+    pub model_file: String,
+    pub model_sha256: String,
+    pub units: JsonUnits,
+    /// "title; standard; edition" of the combination table.
+    pub combinations: String,
+    pub table: TableInfo,
+    pub method: String,
+    pub method_description: String,
+    pub assumptions: Vec<Setting>,
+    pub selection: Selection,
+    pub envelope: Envelope,
+    /// The largest design moment of each member over the stable cases.
+    pub governing: Vec<GoverningMoment>,
+    /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see the README).
+    pub report: serde_json::Value,
+    pub caution: String,
+}
+
+/// The JSON document of a run.
+pub fn json_doc(s: &Summary) -> CheckDoc {
+    CheckDoc {
+        schema_version: SCHEMA_VERSION,
+        program: format!("plumbline {}", env!("CARGO_PKG_VERSION")),
+        title: s.model.title.clone(),
+        model_file: s.model_file.clone(),
+        model_sha256: s.model_sha256.clone(),
+        units: JsonUnits {
+            length: "m".into(),
+            force: "N".into(),
+            moment: "N*m".into(),
+            stiffness: "N/m".into(),
+            displacement: "m".into(),
+        },
+        combinations: s.table_line(),
+        table: s.table.clone(),
+        method: s.report.method.to_string(),
+        method_description: super::check::method_title(s.report.method).to_string(),
+        assumptions: s.settings.clone(),
+        selection: s.selection.clone(),
+        envelope: s.envelope.clone(),
+        governing: governing(&s.envelope.members),
+        report: serde_json::to_value(s.report).expect("a check report serializes"),
+        caution: CAUTION.to_string(),
+    }
+}
+
+/// The JSON text of a run.
+pub fn json(s: &Summary) -> String {
+    serde_json::to_string_pretty(&json_doc(s)).expect("a check document serializes") + "\n"
+}
+
+/// Number formatting in the model's units.
+struct Fmt<'a> {
+    model: &'a Model,
+}
+
+impl Fmt<'_> {
+    fn label(&self, d: Dimension) -> String {
+        self.model.units.label(d)
+    }
+    fn v(&self, v: f64, d: Dimension, decimals: usize) -> String {
+        num(self.model.units.from_si(v, d), decimals)
+    }
+    fn m(&self, v: f64, decimals: usize) -> String {
+        self.v(v, Dimension::Moment, decimals)
+    }
+    fn f(&self, v: f64, decimals: usize) -> String {
+        self.v(v, Dimension::Force, decimals)
+    }
+    fn x(&self, v: f64) -> String {
+        self.v(v, Dimension::Length, 2)
+    }
+}
+
+/// A table: header and rows of cells.
+pub struct Table {
+    pub name: &'static str,
+    pub title: String,
+    pub header: Vec<String>,
+    pub rows: Vec<Vec<String>>,
+}
+
+/// The assumptions table.
+pub fn assumptions_table(s: &Summary) -> Table {
+    let mut rows = vec![vec![
+        "model file".to_string(),
+        format!("{} (SHA-256 {})", s.model_file, s.model_sha256),
+        "command line".into(),
+    ]];
+    rows.extend(
+        s.settings
+            .iter()
+            .map(|x| vec![x.setting.clone(), x.value.clone(), x.source.clone()]),
+    );
+    Table {
+        name: "assumptions",
+        title: "Assumptions".into(),
+        header: vec!["setting".into(), "value".into(), "from".into()],
+        rows,
+    }
+}
+
+/// `value (case)` or `-`.
+fn peak(p: &Option<Peak>, decimals: usize) -> String {
+    p.as_ref().map_or("-".into(), |p| {
+        format!("{} ({})", num(p.value, decimals), p.case)
+    })
+}
+
+/// `1/N (case)` for a drift ratio.
+fn drift_peak(p: &Option<Peak>) -> String {
+    match p {
+        Some(p) if p.value > 0.0 => format!("1/{:.0} ({})", 1.0 / p.value, p.case),
+        Some(p) => format!("0 ({})", p.case),
+        None => "-".into(),
+    }
+}
+
+/// The verdict of a story over the cases.
+pub fn story_verdict(e: &StoryEnvelope) -> String {
+    if e.cases == 0 {
+        "no stable case".into()
+    } else if e.sway_cases.is_empty() {
+        format!("non-sway in all {} cases", e.cases)
+    } else {
+        format!("sway in {} of {} cases", e.sway_cases.len(), e.cases)
+    }
+}
+
+/// The story envelope table (text and Markdown).
+pub fn story_table(s: &Summary) -> Table {
+    let rows = s
+        .envelope
+        .stories
+        .iter()
+        .map(|e| {
+            vec![
+                e.story.to_string(),
+                drift_peak(&e.drift_ratio),
+                peak(&e.b2, 3),
+                peak(&e.q_index, 3),
+                peak(&e.delta_s, 3),
+                peak(&e.drift_amplification, 3),
+                peak(&e.alpha_cr, 2),
+                peak(&e.sway_amplifier, 3),
+                story_verdict(e),
+            ]
+        })
+        .collect();
+    Table {
+        name: "stories",
+        title: "Story envelope over the stable cases: largest drift ratio and amplifiers, smallest α_cr (case)".into(),
+        header: [
+            "story",
+            "max drift/h",
+            "max B2",
+            "max Q",
+            "max δs",
+            "max Δ2/Δ1",
+            "min α_cr",
+            "max sway amp",
+            "verdict",
+        ]
+        .map(String::from)
+        .to_vec(),
+        rows,
+    }
+}
+
+/// The entries of a member envelope in order: end i, span, end j; positive then negative.
+pub fn entries(m: &MemberEnvelope) -> Vec<(Location, Sign, &DesignMoment)> {
+    let mut out = Vec::new();
+    for s in &m.sections {
+        for (sign, d) in [(Sign::Positive, &s.positive), (Sign::Negative, &s.negative)] {
+            if let Some(d) = d {
+                out.push((s.location, sign, d));
+            }
+        }
+    }
+    out
+}
+
+/// Whether an entry is the member's largest |M|.
+fn is_governing(m: &MemberEnvelope, location: Location, sign: Sign) -> bool {
+    m.governing
+        .as_ref()
+        .is_some_and(|g| g.location == location && g.sign == sign)
+}
+
+/// The member envelope, one row per member, section and sign. `tidy` gives the CSV form
+/// (plain values, the expression and both amplifiers in their own columns).
+pub fn member_table(s: &Summary, tidy: bool) -> Table {
+    let f = Fmt { model: s.model };
+    let d = if tidy { 3 } else { 1 };
+    let (lm, lf, lu) = (
+        f.label(Dimension::Moment),
+        f.label(Dimension::Force),
+        f.label(Dimension::Length),
+    );
+    let mut header: Vec<String> = vec![
+        "member".into(),
+        "role".into(),
+        "at".into(),
+        "sign".into(),
+        format!("x ({lu})"),
+        format!("M design ({lm})"),
+        format!("Mns ({lm})"),
+        format!("Ms ({lm})"),
+        "larger part".into(),
+        format!("N ({lf})"),
+        format!("Pr ({lf})"),
+        format!("V ({lf})"),
+        "case".into(),
+    ];
+    if tidy {
+        header.extend([
+            format!("M first-order ({lm})"),
+            "non-sway amp".into(),
+            "sway amp".into(),
+            "expression".into(),
+            "member max".into(),
+        ]);
+    } else {
+        header.push("max".into());
+    }
+    let mut rows = Vec::new();
+    for m in &s.envelope.members {
+        for (location, sign, e) in entries(m) {
+            let top = is_governing(m, location, sign);
+            let mut row = vec![
+                m.member.clone(),
+                m.role.clone(),
+                location.to_string(),
+                if tidy {
+                    sign.to_string()
+                } else {
+                    match sign {
+                        Sign::Positive => "+".into(),
+                        Sign::Negative => "−".into(),
+                    }
+                },
+                f.x(e.x),
+                f.m(e.moment, d),
+                f.m(e.no_sway, d),
+                f.m(e.sway, d),
+                e.governs.clone(),
+                f.f(e.axial, d),
+                f.f(e.p_r, d),
+                f.f(e.shear, d),
+                e.case.clone(),
+            ];
+            if tidy {
+                row.extend([
+                    f.m(e.first_order, d),
+                    e.non_sway_amplifier.map_or(String::new(), |v| num(v, 4)),
+                    e.sway_amplifier.map_or(String::new(), |v| num(v, 4)),
+                    e.expression.clone(),
+                    top.to_string(),
+                ]);
+            } else {
+                row.push(if top { "◀".into() } else { String::new() });
+            }
+            rows.push(row);
+        }
+    }
+    Table {
+        name: "members",
+        title: format!(
+            "Member envelope over the stable cases: largest + and − design moment at each end and in the span ({lm}); ◀ marks each member's largest"
+        ),
+        header,
+        rows,
+    }
+}
+
+/// The columns' largest compression and tension with their concurrent moments.
+pub fn column_table(s: &Summary, tidy: bool) -> Table {
+    let f = Fmt { model: s.model };
+    let d = if tidy { 3 } else { 1 };
+    let (lm, lf) = (f.label(Dimension::Moment), f.label(Dimension::Force));
+    let mut rows = Vec::new();
+    for m in &s.envelope.members {
+        let pairs: [(&str, &Option<AxialExtreme>); 2] =
+            [("compression", &m.compression), ("tension", &m.tension)];
+        for (kind, a) in pairs {
+            if let Some(a) = a {
+                let mut row = vec![
+                    m.member.clone(),
+                    kind.to_string(),
+                    f.f(a.axial, d),
+                    f.f(a.p_r, d),
+                    f.m(a.moment_i, d),
+                    f.m(a.moment_j, d),
+                    f.m(a.moment_span, d),
+                    f.f(a.shear, d),
+                    a.case.clone(),
+                ];
+                if tidy {
+                    row.push(a.expression.clone());
+                }
+                rows.push(row);
+            }
+        }
+    }
+    let mut header = vec![
+        "member".to_string(),
+        "largest".into(),
+        format!("N ({lf})"),
+        format!("Pr ({lf})"),
+        format!("M i ({lm})"),
+        format!("M j ({lm})"),
+        format!("M span ({lm})"),
+        format!("V ({lf})"),
+        "case".into(),
+    ];
+    if tidy {
+        header.push("expression".into());
+    }
+    Table {
+        name: "columns",
+        title:
+            "Columns: largest compression and largest tension with the concurrent design moments"
+                .into(),
+        header,
+        rows,
+    }
+}
+
+/// The cases named in the envelope, with their expressions.
+pub fn case_table(s: &Summary) -> Table {
+    let named: std::collections::BTreeSet<&str> = s
+        .envelope
+        .members
+        .iter()
+        .flat_map(|m| {
+            entries(m)
+                .into_iter()
+                .map(|(_, _, d)| d.case.as_str())
+                .chain(
+                    [&m.compression, &m.tension]
+                        .into_iter()
+                        .flatten()
+                        .map(|a| a.case.as_str()),
+                )
+        })
+        .collect();
+    let rows = s
+        .report
+        .cases
+        .iter()
+        .filter(|c| named.contains(c.id.as_str()))
+        .map(|c| vec![c.id.clone(), c.expression.clone(), c.basis.to_string()])
+        .collect();
+    Table {
+        name: "governing-cases",
+        title: "Governing cases".into(),
+        header: vec!["case".into(), "expression".into(), "basis".into()],
+        rows,
+    }
+}
+
+/// Closing lines: cases that never govern, unstable cases, largest residual.
+pub fn closing_lines(s: &Summary) -> Vec<String> {
+    let e = &s.envelope;
+    let mut out = Vec::new();
+    out.push(if e.never_govern.is_empty() {
+        "Cases that never govern: none".to_string()
+    } else {
+        format!(
+            "Cases that never govern ({} of {}): {}",
+            e.never_govern.len(),
+            e.cases.len(),
+            e.never_govern.join(", ")
+        )
+    });
+    out.push(if e.unstable.is_empty() {
+        "Unstable cases: none".to_string()
+    } else {
+        format!(
+            "UNSTABLE cases (no design values, left out of the envelope): {}",
+            e.unstable.join(", ")
+        )
+    });
+    if let Some(r) = &e.residual {
+        let f = Fmt { model: s.model };
+        out.push(format!(
+            "Largest equilibrium residual: {:.2e} {} at a node ({:.1e} of the largest applied load), case {}",
+            s.model.units.from_si(r.residual, Dimension::Force),
+            f.label(Dimension::Force),
+            r.relative,
+            r.case
+        ));
+    }
+    out
+}
+
+fn text_table(t: &Table) -> String {
+    format!("{}\n{}\n\n", t.title, table_of(&t.header, t.rows.clone()))
+}
+
+/// The one-page summary as text.
+pub fn text(s: &Summary) -> String {
+    let mut out = format!("{}\n{}\n", s.model.title, s.selection.heading());
+    for r in &s.selection.remarks {
+        out.push_str(&format!("  {r}\n"));
+    }
+    out.push('\n');
+    for t in [
+        assumptions_table(s),
+        story_table(s),
+        member_table(s, false),
+        column_table(s, false),
+        case_table(s),
+    ] {
+        if !t.rows.is_empty() {
+            out.push_str(&text_table(&t));
+        }
+    }
+    for l in closing_lines(s) {
+        out.push_str(&l);
+        out.push('\n');
+    }
+    out.push_str(&format!("{SIGN_NOTE}\n{CAUTION}\n"));
+    out
+}
+
+fn md_cell(c: &str) -> String {
+    c.replace('|', "\\|")
+}
+
+fn md_table(t: &Table) -> String {
+    let mut out = format!("### {}\n\n", t.title);
+    out.push_str(&format!(
+        "| {} |\n|{}|\n",
+        t.header
+            .iter()
+            .map(|h| md_cell(h))
+            .collect::<Vec<_>>()
+            .join(" | "),
+        t.header.iter().map(|_| "---").collect::<Vec<_>>().join("|")
+    ));
+    for r in &t.rows {
+        out.push_str(&format!(
+            "| {} |\n",
+            r.iter().map(|c| md_cell(c)).collect::<Vec<_>>().join(" | ")
+        ));
+    }
+    out.push('\n');
+    out
+}
+
+/// The summary as a calculation-package page in Markdown.
+pub fn markdown(s: &Summary) -> String {
+    let mut out = format!("# {}\n\n", md_cell(&s.model.title));
+    out.push_str(&format!(
+        "Second-order analysis and governing design moments, {} ({}).\n\n",
+        s.table_line(),
+        s.report.method
+    ));
+    out.push_str(&format!("> **Caution.** {CAUTION}\n\n"));
+    out.push_str(&format!("{}.\n\n", s.selection.heading()));
+    for r in &s.selection.remarks {
+        out.push_str(&format!("- {}\n", md_cell(r)));
+    }
+    if !s.selection.remarks.is_empty() {
+        out.push('\n');
+    }
+    for t in [
+        assumptions_table(s),
+        story_table(s),
+        member_table(s, false),
+        column_table(s, false),
+        case_table(s),
+    ] {
+        if !t.rows.is_empty() {
+            out.push_str(&md_table(&t));
+        }
+    }
+    for l in closing_lines(s) {
+        out.push_str(&format!("- {}\n", md_cell(&l)));
+    }
+    out.push_str(&format!(
+        "\n{SIGN_NOTE}\n\nCombination table: {} ({}). {}\n\n",
+        s.table.source, s.table.name, s.table.caution
+    ));
+    out.push_str(&format!(
+        "*plumbline {}; model file `{}`, SHA-256 `{}`.* {CAUTION}\n",
+        env!("CARGO_PKG_VERSION"),
+        s.model_file,
+        s.model_sha256
+    ));
+    out
+}
+
+/// CSV text of one table, written with the `csv` crate, ending with the caution as a
+/// comment line (`#`).
+pub fn csv_text(t: &Table) -> String {
+    let mut w = csv::Writer::from_writer(Vec::new());
+    w.write_record(&t.header).expect("csv to memory");
+    for r in &t.rows {
+        w.write_record(r).expect("csv to memory");
+    }
+    let bytes = w.into_inner().expect("csv to memory");
+    let mut text = String::from_utf8(bytes).expect("csv of UTF-8 text is UTF-8");
+    text.push_str(&format!("# {CAUTION}\n"));
+    text
+}
+
+/// The CSV files of a run: `(file name, text)`, one per table.
+pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
+    let mut tables = vec![
+        assumptions_table(s),
+        story_table_tidy(s),
+        member_table(s, true),
+        column_table(s, true),
+    ];
+    tables.extend(super::check::detail_tables(s.model, s.report));
+    tables
+        .iter()
+        .map(|t| (format!("{}.csv", t.name), csv_text(t)))
+        .collect()
+}
+
+/// The story envelope in tidy form: one row per story and figure.
+pub fn story_table_tidy(s: &Summary) -> Table {
+    let mut rows = Vec::new();
+    for e in &s.envelope.stories {
+        let figures: [(&str, &str, &Option<Peak>); 7] = [
+            ("drift ratio", "max", &e.drift_ratio),
+            ("B2", "max", &e.b2),
+            ("Q", "max", &e.q_index),
+            ("delta_s", "max", &e.delta_s),
+            ("drift amplification", "max", &e.drift_amplification),
+            ("alpha_cr", "min", &e.alpha_cr),
+            ("sway amplifier", "max", &e.sway_amplifier),
+        ];
+        for (name, which, p) in figures {
+            if let Some(p) = p {
+                rows.push(vec![
+                    e.story.to_string(),
+                    name.to_string(),
+                    which.to_string(),
+                    num(p.value, 6),
+                    p.case.clone(),
+                ]);
+            }
+        }
+        rows.push(vec![
+            e.story.to_string(),
+            "sway cases".into(),
+            "count".into(),
+            e.sway_cases.len().to_string(),
+            e.sway_cases.join(" "),
+        ]);
+    }
+    Table {
+        name: "stories",
+        title: "Story envelope".into(),
+        header: ["story", "figure", "extreme", "value", "case"]
+            .map(String::from)
+            .to_vec(),
+        rows,
+    }
+}

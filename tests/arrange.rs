@@ -1,0 +1,384 @@
+//! Live-load arrangements (ACI 318-19 §6.4.3, EN 1992-1-1:2004 §5.1.3) against the
+//! influence-line result of a continuous beam, and their properties over seeded random
+//! frames. Each check names its source beside it.
+
+mod common;
+
+use std::collections::BTreeSet;
+
+use approx::assert_relative_eq;
+use common::Frame;
+use plumbline::arrange::{Arranged, MAX_ARRANGEMENTS, arrange};
+use plumbline::combos::{Basis, Expansion, FactoredCase};
+use plumbline::model::{ActionCategory, LoadDirection, Model, Restraint};
+use plumbline::solve::Solution;
+use plumbline::solve::first_order::{FirstOrder, combined_member_loads, member_extremes};
+
+/// One factored case `1.0 × case` and nothing else.
+fn one(case: usize) -> Expansion {
+    Expansion {
+        cases: vec![FactoredCase {
+            id: "U".into(),
+            expression: "1.0L".into(),
+            basis: Basis::Strength,
+            combination: "U".into(),
+            factors: vec![(case, 1.0)],
+            note: None,
+        }],
+        merged: vec![],
+        skipped: vec![],
+        warnings: vec![],
+        notices: vec![],
+    }
+}
+
+/// Internal moments of every member for each factored case, as (M at i, M at j, span max,
+/// span min), from the pieces solved once and combined by the case's factors.
+fn moments(arranged: &Arranged, cases: &[FactoredCase]) -> Vec<Vec<[f64; 4]>> {
+    let model: &Model = &arranged.model;
+    let fo = FirstOrder::new(model, &[]).expect("stable model");
+    let solved: Vec<Solution> = (0..model.load_cases.len())
+        .map(|k| fo.solve_case(model, k).expect("solves"))
+        .collect();
+    cases
+        .iter()
+        .map(|fc| {
+            let parts: Vec<(f64, &Solution)> =
+                fc.factors.iter().map(|&(k, f)| (f, &solved[k])).collect();
+            let s = Solution::combine(&parts);
+            let loads = combined_member_loads(model, &fc.factors);
+            (0..model.members.len())
+                .map(|m| {
+                    let e = member_extremes(model, &s, m, &loads[m]);
+                    let ef = &s.end_forces[m];
+                    // Internal moments at the ends: M(0) = −Mz_i, M(L) = +Mz_j
+                    // (DEVELOPERS.md, sign convention).
+                    [-ef.i[2], ef.j[2], e.max.1, e.min.1]
+                })
+                .collect()
+        })
+        .collect()
+}
+
+/// Three equal spans L on four knife-edge supports, uniform live load w on each span.
+fn three_spans(l: f64, w: f64) -> (Frame, usize) {
+    let mut f = Frame::new();
+    let n: Vec<usize> = (0..4).map(|k| f.node(k as f64 * l, 0.0)).collect();
+    let spans: Vec<usize> = (0..3)
+        .map(|k| f.member(n[k], n[k + 1], 200e9, 0.01, 1e-4))
+        .collect();
+    f.pinned(n[0]);
+    for &k in &n[1..] {
+        f.support(k, [Restraint::Free, Restraint::Fixed, Restraint::Free]);
+    }
+    let case = f.case("L", ActionCategory::Live);
+    f.model.load_cases[case].arrange = true;
+    for &m in &spans {
+        f.udl(case, m, w, LoadDirection::Gravity);
+    }
+    (f, case)
+}
+
+#[test]
+fn three_span_envelope_matches_the_influence_lines() {
+    let (l, w) = (6.0, 10e3);
+    let (f, case) = three_spans(l, w);
+    let arranged = arrange(&f.model);
+    let tags: Vec<&str> = arranged.patterns.iter().map(|p| p.tag.as_str()).collect();
+    assert_eq!(tags, ["full", "alt-a", "alt-b", "adj-N2", "adj-N3"]);
+    let exp = arranged.apply(one(case));
+    let ids: Vec<&str> = exp.cases.iter().map(|c| c.id.as_str()).collect();
+    assert_eq!(
+        ids,
+        [
+            "U/L:full",
+            "U/L:alt-a",
+            "U/L:alt-b",
+            "U/L:adj-N2",
+            "U/L:adj-N3"
+        ]
+    );
+    let res = moments(&arranged, &exp.cases);
+    let wl2 = w * l * l;
+
+    // Closed form, three-moment equation (Clapeyron) for equal spans and constant EI with
+    // M_A = M_D = 0, uniform loads w1, w2, w3 on the spans:
+    //   at B: 4·M_B + M_C = −(w1 + w2)·L²/4,   at C: M_B + 4·M_C = −(w2 + w3)·L²/4.
+    // The influence line of M_B is negative over spans 1 and 2 and positive over span 3
+    // (Müller-Breslau: a unit kink at B lifts spans 1 and 2 and lowers span 3), so the most
+    // negative M_B loads spans 1 and 2:  4M_B + M_C = −wL²/2, M_B + 4M_C = −wL²/4
+    //   → M_B = (−2 + 1/4)/15 · wL² = −7/60 wL² = −0.1167 wL².
+    let (k_min_b, min_b) = argmin(&res, |r| r[0][1]);
+    assert_relative_eq!(min_b, -7.0 / 60.0 * wl2, max_relative = 1e-9);
+    assert_eq!(exp.cases[k_min_b].id, "U/L:adj-N2");
+
+    // The influence line of the moment near mid-span 1 is positive over spans 1 and 3 and
+    // negative over span 2: load spans 1 and 3 → M_B = M_C = −wL²/20, reaction at A
+    // R_A = wL/2 − wL/20 = 0.45 wL, M_max = R_A²/(2w) = 0.10125 wL² at x = 0.45 L.
+    let (k_pos_1, pos_1) = argmax(&res, |r| r[0][2]);
+    assert_relative_eq!(pos_1, 0.10125 * wl2, max_relative = 1e-9);
+    assert_eq!(exp.cases[k_pos_1].id, "U/L:alt-a");
+
+    // Mid-span 2: influence line positive over span 2 only → M_B = M_C = −wL²/20 and
+    // M_mid = wL²/8 − wL²/20 = 0.075 wL².
+    let (k_pos_2, pos_2) = argmax(&res, |r| r[1][2]);
+    assert_relative_eq!(pos_2, 0.075 * wl2, max_relative = 1e-9);
+    assert_eq!(exp.cases[k_pos_2].id, "U/L:alt-b");
+
+    // Full loading (for comparison, and the pattern's own check): 5·M_B = −wL²/2 →
+    // M_B = −0.100 wL², smaller in magnitude than the arranged −0.1167 wL².
+    assert_relative_eq!(res[0][0][1], -0.1 * wl2, max_relative = 1e-9);
+}
+
+/// Index and value of the largest `f` over the cases.
+fn argmax(res: &[Vec<[f64; 4]>], f: impl Fn(&Vec<[f64; 4]>) -> f64) -> (usize, f64) {
+    res.iter().map(&f).enumerate().fold(
+        (0, f64::NEG_INFINITY),
+        |a, (k, v)| if v > a.1 { (k, v) } else { a },
+    )
+}
+
+/// Index and value of the smallest `f` over the cases.
+fn argmin(res: &[Vec<[f64; 4]>], f: impl Fn(&Vec<[f64; 4]>) -> f64) -> (usize, f64) {
+    let (k, v) = argmax(res, |r| -f(r));
+    (k, -v)
+}
+
+/// A small xorshift generator: seeded, reproducible frames.
+struct Rng(u64);
+
+impl Rng {
+    fn next(&mut self) -> f64 {
+        self.0 ^= self.0 << 13;
+        self.0 ^= self.0 >> 7;
+        self.0 ^= self.0 << 17;
+        (self.0 >> 11) as f64 / (1u64 << 53) as f64
+    }
+    fn range(&mut self, lo: f64, hi: f64) -> f64 {
+        lo + (hi - lo) * self.next()
+    }
+    fn below(&mut self, n: usize) -> usize {
+        ((self.next() * n as f64) as usize).min(n - 1)
+    }
+}
+
+/// A regular frame with irregular bays and stories, fixed or pinned bases, some beam ends
+/// released, dead load on every beam and an arranged live load on most of them. Returns
+/// the frame, the live case, the beams by (bay, floor) and the bay and story counts.
+fn random_frame(rng: &mut Rng) -> (Frame, usize, Vec<Vec<usize>>) {
+    let bays = 1 + rng.below(4);
+    let stories = 1 + rng.below(4);
+    let mut xs = vec![0.0];
+    for _ in 0..bays {
+        xs.push(xs.last().copied().unwrap_or(0.0) + rng.range(4.0, 9.0));
+    }
+    let mut ys = vec![0.0];
+    for _ in 0..stories {
+        ys.push(ys.last().copied().unwrap_or(0.0) + rng.range(3.0, 5.0));
+    }
+    let mut f = Frame::new();
+    let node: Vec<Vec<usize>> = xs
+        .iter()
+        .map(|&x| ys.iter().map(|&y| f.node(x, y)).collect())
+        .collect();
+    let fixed = rng.next() < 0.5;
+    for col in &node {
+        if fixed {
+            f.fixed(col[0]);
+        } else {
+            f.pinned(col[0]);
+        }
+        for s in 0..stories {
+            f.member(col[s], col[s + 1], 200e9, 0.02, rng.range(1e-4, 5e-4));
+        }
+    }
+    let dead = f.case("D", ActionCategory::Dead);
+    let live = f.case("L", ActionCategory::Live);
+    f.model.load_cases[live].arrange = true;
+    let mut beams = vec![vec![0; stories]; bays];
+    for (b, row) in beams.iter_mut().enumerate() {
+        for (s, slot) in row.iter_mut().enumerate() {
+            let m = f.member(node[b][s + 1], node[b + 1][s + 1], 200e9, 0.02, 3e-4);
+            if rng.next() < 0.15 {
+                f.release(m, true, false);
+            }
+            *slot = m;
+            f.udl(dead, m, rng.range(5e3, 20e3), LoadDirection::Gravity);
+            if rng.next() < 0.85 {
+                f.udl(live, m, rng.range(2e3, 15e3), LoadDirection::Gravity);
+            }
+        }
+    }
+    if f.model.load_cases[live].member.is_empty() {
+        f.udl(live, beams[0][0], 5e3, LoadDirection::Gravity);
+    }
+    (f, live, beams)
+}
+
+#[test]
+fn arrangements_on_random_frames_superpose_count_and_alternate() {
+    let mut rng = Rng(0x9e37_79b9_7f4a_7c15);
+    for _ in 0..60 {
+        let (f, live, beams) = random_frame(&mut rng);
+        let (bays, stories) = (beams.len(), beams[0].len());
+        let arranged = arrange(&f.model);
+        let exp = arranged.apply(one(live));
+        // Count, module documentation of `arrange`: at most 3 + Σ(spans per line − 1), and
+        // within the documented maximum.
+        assert!(arranged.patterns.len() <= 3 + stories * (bays - 1));
+        assert!(arranged.patterns.len() <= MAX_ARRANGEMENTS);
+        assert_eq!(exp.cases.len() + merged(&exp), arranged.patterns.len());
+
+        // Superposition (closed form: first-order results are linear in the loads): the
+        // full arrangement, summed from single-span pieces, equals the live case solved
+        // whole.
+        let full = &exp.cases[0];
+        assert!(full.id.ends_with(":full"));
+        let whole = FactoredCase {
+            factors: vec![(live, 1.0)],
+            ..full.clone()
+        };
+        let res = moments(&arranged, &[full.clone(), whole]);
+        let scale = res[1]
+            .iter()
+            .flatten()
+            .fold(0.0_f64, |a, v| a.max(v.abs()))
+            .max(1.0);
+        for (a, b) in res[0].iter().flatten().zip(res[1].iter().flatten()) {
+            assert!((a - b).abs() <= 1e-9 * scale, "{a} vs {b}");
+        }
+
+        // Checkerboard (ACI 318-19 §6.4.3.2(a), EN 1992-1-1 §5.1.3(1)P(a)): in alt-a and
+        // alt-b no two loaded beams are neighbours in a floor or stacked in one bay.
+        for p in arranged
+            .patterns
+            .iter()
+            .filter(|p| p.tag.starts_with("alt-"))
+        {
+            let on: BTreeSet<usize> = p
+                .spans
+                .iter()
+                .flat_map(|&s| arranged.spans[s].members.clone())
+                .collect();
+            for b in 0..bays {
+                for s in 0..stories {
+                    if !on.contains(&beams[b][s]) {
+                        continue;
+                    }
+                    assert!(b + 1 >= bays || !on.contains(&beams[b + 1][s]));
+                    assert!(s + 1 >= stories || !on.contains(&beams[b][s + 1]));
+                }
+            }
+        }
+        // Adjacent spans (ACI 318-19 §6.4.3.2(b)): two beams of one floor that share the
+        // named joint (one when the other carries no live load).
+        for p in arranged
+            .patterns
+            .iter()
+            .filter(|p| p.tag.starts_with("adj-"))
+        {
+            if p.spans.len() == 1 {
+                continue;
+            }
+            assert_eq!(p.spans.len(), 2);
+            let (s1, s2) = (&arranged.spans[p.spans[0]], &arranged.spans[p.spans[1]]);
+            assert_eq!(s1.floor, s2.floor);
+            let node = &p.tag["adj-".len()..];
+            let shared = [s1.ends.0, s1.ends.1]
+                .into_iter()
+                .find(|v| *v == s2.ends.0 || *v == s2.ends.1)
+                .expect("adjacent spans share a joint");
+            assert_eq!(f.model.nodes[shared].id, node);
+        }
+    }
+}
+
+/// Cases merged away as identical.
+fn merged(exp: &Expansion) -> usize {
+    exp.merged.iter().map(|m| m.dropped.len()).sum()
+}
+
+#[test]
+fn a_model_without_arranged_cases_is_left_alone() {
+    let (mut f, case) = three_spans(5.0, 1e3);
+    f.model.load_cases[case].arrange = false;
+    let arranged = arrange(&f.model);
+    assert!(arranged.patterns.is_empty());
+    assert_eq!(arranged.model, f.model);
+    assert_eq!(arranged.apply(one(case)), one(case));
+}
+
+/// A two-bay, two-story generated frame with a live case marked `arrange`, in kN-m.
+fn generated(category: &str, loads: &str) -> String {
+    format!(
+        r#"
+units = "kN-m"
+[[material]]
+id = "S"
+E = "200 GPa"
+[[section]]
+id = "s"
+A = 10000
+I = 1e8
+[frame]
+bays = [6.0, 6.0]
+stories = [4.0, 4.0]
+base = "fixed"
+material = "S"
+columns = ["s"]
+beams = ["s"]
+[[case]]
+id = "L"
+category = "{category}"
+arrange = true
+{loads}
+"#
+    )
+}
+
+const BEAM_LOAD: &str =
+    "[[case.member_load]]\nmembers = \"B*\"\nkind = \"uniform\"\ndirection = \"down\"\nw = 10\n";
+
+#[test]
+fn checkerboard_across_floors_on_a_generated_frame() {
+    let model = plumbline::input::parse_model(&generated("live", BEAM_LOAD), "m.toml")
+        .expect("valid model");
+    let arranged = arrange(&model);
+    let text: Vec<(String, String)> = arranged
+        .patterns
+        .iter()
+        .map(|p| (p.tag.clone(), arranged.spans_text(p)))
+        .collect();
+    // ACI 318-19 §6.4.3.2: alternate spans, checkerboard from floor to floor, and the two
+    // spans at each interior joint, per floor; 3 + 2 floors × (2 spans − 1) = 5.
+    let expected = [
+        ("full", "every span"),
+        ("alt-a", "B1.1, B2.2"),
+        ("alt-b", "B2.1, B1.2"),
+        ("adj-N2.1", "B1.1, B2.1"),
+        ("adj-N2.2", "B1.2, B2.2"),
+    ];
+    assert_eq!(text, expected.map(|(a, b)| (a.to_string(), b.to_string())));
+}
+
+#[test]
+fn arranging_other_than_live_load_on_beams_is_an_input_error() {
+    let err = plumbline::input::parse_model(&generated("dead", BEAM_LOAD), "m.toml")
+        .expect_err("dead load is not arranged");
+    assert_eq!(err.field, "case[1].arrange");
+    assert!(
+        err.message.contains("category = \"live\""),
+        "{}",
+        err.message
+    );
+
+    let on_columns = BEAM_LOAD.replace("\"B*\"", "\"C*\"");
+    let err = plumbline::input::parse_model(&generated("live", &on_columns), "m.toml")
+        .expect_err("nothing on beams");
+    assert_eq!(err.field, "case[1].arrange");
+    assert!(
+        err.message.contains("nothing to arrange"),
+        "{}",
+        err.message
+    );
+}

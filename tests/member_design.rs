@@ -1,0 +1,544 @@
+//! Member design values of `check` (issue 7 items 2 and 4, issue 8): the span extremes of
+//! the combined design diagram, the AISC axial force Pr, the ACI 318-19 moment
+//! magnifier's Cm, M2 and limits, and EN 1993-1-1's one α_cr for the structure. Each
+//! expected value is derived by hand in the comment beside it, with its source.
+
+mod common;
+
+use std::f64::consts::PI;
+
+use approx::assert_relative_eq;
+use common::{Frame, portal};
+use plumbline::check::{CaseCheck, Classification, MemberCheck, check};
+use plumbline::combos::{Basis, FactoredCase};
+use plumbline::model::{
+    ActionCategory, LoadDirection, MemberLoadKind, Model, NotionalLoads, Role, SecondOrderMethod,
+};
+
+/// A factored case on the strength basis with `factors` on the model's load cases.
+fn strength(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
+    FactoredCase {
+        id: id.into(),
+        expression: id.into(),
+        basis: Basis::Strength,
+        combination: id.into(),
+        factors: factors.to_vec(),
+        note: None,
+    }
+}
+
+/// Run `check` and return its only case.
+fn only_case(model: &Model, fc: &FactoredCase) -> CaseCheck {
+    let report = check(model, std::slice::from_ref(fc)).unwrap();
+    assert_eq!(report.cases.len(), 1, "expected one case");
+    report.cases.into_iter().next().unwrap()
+}
+
+/// Closed-form moment of a beam with end moments `m_i`, `m_j` (internal, sagging
+/// positive), a full uniform downward load `w` and a downward point load `p` at `a`:
+/// superposition of the linear end-moment line and the simple-span moments
+/// `w·x(L − x)/2` and `p·(L − a)·x/L` (x ≤ a) or `p·a·(L − x)/L` (x ≥ a)
+/// (any strength-of-materials text, simply supported beam tables).
+fn beam_moment(x: f64, l: f64, m_i: f64, m_j: f64, w: f64, p: f64, a: f64) -> f64 {
+    let line = m_i + (m_j - m_i) * x / l;
+    let udl = w * x * (l - x) / 2.0;
+    let point = if x <= a {
+        p * (l - a) * x / l
+    } else {
+        p * a * (l - x) / l
+    };
+    line + udl + point
+}
+
+/// Largest and smallest of `f` sampled at `n + 1` equally spaced points of `[0, l]`.
+fn sampled(l: f64, n: usize, f: impl Fn(f64) -> f64) -> ((f64, f64), (f64, f64)) {
+    let mut max = (0.0, f64::NEG_INFINITY);
+    let mut min = (0.0, f64::INFINITY);
+    for k in 0..=n {
+        let x = l * k as f64 / n as f64;
+        let v = f(x);
+        if v > max.1 {
+            max = (x, v);
+        }
+        if v < min.1 {
+            min = (x, v);
+        }
+    }
+    (max, min)
+}
+
+/// A fixed-base portal (span 9 m, height 4.5 m, Ib = Ic = 2e-4 m⁴, E = 200 GPa) under
+/// 0.9D + 1.0W: D is 15 kN/m on the beam and 300 kN on each knee, W is 60 kN at the
+/// windward knee; with `point`, D also has 40 kN on the beam at 0.3 L.
+fn beam_under_wind(point: bool) -> (CaseCheck, usize, f64, f64, f64) {
+    let (l, h, i) = (9.0, 4.5, 2e-4);
+    let (mut f, [_, n1, n2, _, _, beam, _]) = portal(l, h, i, i, true);
+    f.model.analysis.notional = NotionalLoads::None;
+    let d = f.case("D", ActionCategory::Dead);
+    f.udl(d, beam, 15e3, LoadDirection::Gravity);
+    f.nodal(d, n1, 0.0, -300e3, 0.0);
+    f.nodal(d, n2, 0.0, -300e3, 0.0);
+    let p = if point { 40e3 } else { 0.0 };
+    if point {
+        f.member_load(
+            d,
+            beam,
+            MemberLoadKind::Point {
+                a: 0.3 * l,
+                p,
+                direction: LoadDirection::Gravity,
+            },
+        );
+    }
+    let wind = f.case("W", ActionCategory::Wind);
+    f.nodal(wind, n1, 60e3, 0.0, 0.0);
+    let case = only_case(&f.model, &strength("0.9D+1.0W", &[(d, 0.9), (wind, 1.0)]));
+    (case, beam, l, 0.9 * 15e3, 0.9 * p)
+}
+
+#[test]
+fn span_extremes_of_the_combined_aisc_diagram_beam_under_wind() {
+    // Issue 7 item 2. AISC 360-16 App. 8 A-8-1: Mr = B1·Mnt + B2·Mlt at every section, so
+    // the span extreme is that of the combined diagram, not of Mnt alone.
+    // Closed form (beam with end moments and a uniform load w, see `beam_moment`):
+    //   D(x) = B1·[Mnt,i + (Mnt,j − Mnt,i)·x/L + w·x(L − x)/2] + B2·[Mlt,i + (Mlt,j − Mlt,i)·x/L]
+    //   D'(x) = B1·(Mnt,j − Mnt,i)/L + B1·w·(L − 2x)/2 + B2·(Mlt,j − Mlt,i)/L = 0
+    //   → x* = L/2 + [B1·(Mnt,j − Mnt,i) + B2·(Mlt,j − Mlt,i)] / (B1·w·L),
+    // the largest sagging moment D(x*). The no-sway diagram alone peaks at
+    //   x_nt = L/2 + (Mnt,j − Mnt,i)/(w·L),
+    // which is where the moment was taken before; under wind x* ≠ x_nt.
+    let (case, beam, l, w, _) = beam_under_wind(false);
+    let mc: &MemberCheck = &case.members[beam];
+    assert!(mc.stable);
+    let b1 = mc.non_sway_amplifier.unwrap();
+    let b2 = mc.sway_amplifier.unwrap();
+    assert!(b2 > 1.01, "the case must amplify sway: B2 = {b2}");
+    let [ei, ej] = mc.ends;
+    let d = |x: f64| {
+        b1 * beam_moment(x, l, ei.no_sway, ej.no_sway, w, 0.0, 0.0)
+            + b2 * (ei.sway + (ej.sway - ei.sway) * x / l)
+    };
+    let x_star =
+        l / 2.0 + (b1 * (ej.no_sway - ei.no_sway) + b2 * (ej.sway - ei.sway)) / (b1 * w * l);
+    assert!(x_star > 0.0 && x_star < l);
+    let m_star = d(x_star);
+    assert_relative_eq!(mc.span_max.x, x_star, max_relative = 1e-9);
+    assert_relative_eq!(mc.span_max.design, m_star, max_relative = 1e-9);
+    // The reported span moment is that largest sagging moment (larger than either
+    // in-span alternative), with its parts at the same x.
+    assert_relative_eq!(mc.span.design, m_star, max_relative = 1e-9);
+    assert_relative_eq!(
+        mc.span.no_sway,
+        beam_moment(x_star, l, ei.no_sway, ej.no_sway, w, 0.0, 0.0),
+        max_relative = 1e-9
+    );
+    // The old place: the peak of the no-sway diagram, with the sway moment added there,
+    // under-reports the sagging moment.
+    let x_nt = l / 2.0 + (ej.no_sway - ei.no_sway) / (w * l);
+    assert!(
+        (x_nt - x_star).abs() > 0.05 * l,
+        "x_nt = {x_nt}, x* = {x_star}"
+    );
+    assert!(d(x_nt) < m_star * (1.0 - 1e-3));
+    // Largest hogging: D is concave (B1·w > 0), so its minimum is at an end.
+    let (end_x, end_m) = if d(0.0) <= d(l) {
+        (0.0, d(0.0))
+    } else {
+        (l, d(l))
+    };
+    assert_relative_eq!(mc.span_min.x, end_x, epsilon = 1e-12);
+    assert_relative_eq!(mc.span_min.design, end_m, max_relative = 1e-9);
+    // Dense sampling of the same closed-form diagram agrees (10 000 intervals: the
+    // sampling error of a parabola is at most B1·w·(L/20000)²/2).
+    let (smax, smin) = sampled(l, 10_000, d);
+    let tol = b1 * w * (l / 20_000.0).powi(2);
+    assert!(smax.1 <= m_star + 1e-9 * m_star.abs() && smax.1 >= m_star - tol);
+    assert_relative_eq!(smin.1, mc.span_min.design, max_relative = 1e-9);
+}
+
+#[test]
+fn span_extremes_of_the_combined_diagram_with_a_point_load_match_dense_sampling() {
+    // The same beam with a 40 kN point load at 0.3 L (× 0.9): the diagram is piecewise
+    // quadratic with a kink at 0.3 L. The exact extremes (shear zeros per piece and the
+    // breakpoints) must equal a dense sampling of the closed-form diagram `beam_moment`
+    // to within the sampling error, and lie at the sampled positions.
+    let (case, beam, l, w, p) = beam_under_wind(true);
+    let mc = &case.members[beam];
+    let b1 = mc.non_sway_amplifier.unwrap();
+    let b2 = mc.sway_amplifier.unwrap();
+    let [ei, ej] = mc.ends;
+    let d = |x: f64| {
+        b1 * beam_moment(x, l, ei.no_sway, ej.no_sway, w, p, 0.3 * l)
+            + b2 * (ei.sway + (ej.sway - ei.sway) * x / l)
+    };
+    let n = 20_000;
+    let (smax, smin) = sampled(l, n, d);
+    // Error bound of sampling near a smooth maximum: |D''|·(h/2)²/2 with |D''| = B1·w;
+    // at a kink the breakpoint itself is a sample (0.3 L is on the grid).
+    let tol = b1 * w * (l / n as f64).powi(2) + 1e-9 * smax.1.abs();
+    assert!(
+        (mc.span_max.design - smax.1).abs() <= tol,
+        "{:?} vs {smax:?}",
+        mc.span_max
+    );
+    assert!(
+        (mc.span_min.design - smin.1).abs() <= tol,
+        "{:?} vs {smin:?}",
+        mc.span_min
+    );
+    assert!((mc.span_max.x - smax.0).abs() <= 2e-3 * l);
+    assert!((mc.span_min.x - smin.0).abs() <= 2e-3 * l);
+    // The exact extreme is never below any sample.
+    assert!(mc.span_max.design >= smax.1 - 1e-9 * smax.1.abs());
+    assert!(mc.span_min.design <= smin.1 + 1e-9 * smin.1.abs());
+}
+
+#[test]
+fn aisc_pr_is_pnt_plus_b2_plt_at_the_most_compressed_section() {
+    // Issue 7 item 4, AISC 360-16 App. 8 eq. A-8-2: Pr = Pnt + B2·Plt.
+    // Pinned-base portal, L = 6 m, h = 4 m, Ib = 1000·Ic (rigid girder), A = 10 m²
+    // (axially rigid). Loads: P = 500 kN at each knee; q = 20 kN/m along the leeward
+    // (right) column, acting down (axial, as a self-weight); H = 50 kN at the windward knee.
+    // By hand:
+    // * no-sway part (level held): the knee loads and q go straight down the columns
+    //   (the girder carries no shear: no load on it, and the held frame does not bend
+    //   the columns), so along the right column Pnt(x) = P + q·(h − x), largest at the
+    //   base: Pnt = 500 + 20·4 = 580 kN (closed form, statics);
+    // * sway part: the level force H sways the frame; moments about the left base
+    //   (pinned bases carry no moment): H·h = R_right·L → Plt = H·h/L = 50·4/6 = 33.3 kN
+    //   compression in the right column, constant along it (statics);
+    // * Pr = Pnt + B2·Plt = 580 + B2·33.3 kN at the base, B2 the story's (A-8-6).
+    // The first-order compression there is 580 + 33.3 = 613.3 kN, not the mean of the
+    // ends (573.3 kN).
+    let (l, h, ic) = (6.0, 4.0, 1e-4);
+    let (mut f, [_, n1, n2, _, _, _, c2]) = portal(l, h, ic, 1000.0 * ic, false);
+    f.model.analysis.notional = NotionalLoads::None;
+    let d = f.case("D", ActionCategory::Dead);
+    f.nodal(d, n1, 0.0, -500e3, 0.0);
+    f.nodal(d, n2, 0.0, -500e3, 0.0);
+    f.udl(d, c2, 20e3, LoadDirection::Gravity);
+    let w = f.case("W", ActionCategory::Wind);
+    f.nodal(w, n1, 50e3, 0.0, 0.0);
+    let case = only_case(&f.model, &strength("D+W", &[(d, 1.0), (w, 1.0)]));
+    let mc = &case.members[c2];
+    let b2 = case.stories[0].b2.unwrap();
+    assert!(b2 > 1.0);
+    let (pnt, plt) = (500e3 + 20e3 * h, 50e3 * h / l);
+    // Axially rigid columns and a stiff girder: the held frame's girder shear is ~1e-6 of P.
+    assert_relative_eq!(mc.compression, pnt + plt, max_relative = 1e-5);
+    assert_relative_eq!(mc.axial, -(pnt + plt), max_relative = 1e-5);
+    assert_relative_eq!(mc.p_r.unwrap(), pnt + b2 * plt, max_relative = 1e-5);
+    // B1 uses Pr (A-8-3): Cm = 1.0 here (pinned base, no no-sway moments: M2 = 0 gives
+    // Cm = 1.0), Pe1 = π²·EI*/L² (A-8-5, K1 = 1, EI* the analysis stiffness).
+    let pe1 = mc.p_critical.unwrap();
+    assert_relative_eq!(pe1, PI * PI * 200e9 * ic / (h * h), max_relative = 1e-12);
+    let b1 = (mc.c_m.unwrap() / (1.0 - mc.p_r.unwrap() / pe1)).max(1.0);
+    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), b1, max_relative = 1e-12);
+}
+
+#[test]
+fn aci_cm_from_the_magnified_total_end_moments_in_a_sway_story() {
+    // Issue 8 item 1. ACI 318-19 6.6.4.6.1: in a sway story M1 = M1ns + δs·M1s and
+    // M2 = M2ns + δs·M2s; 6.6.4.6.4 (from memory, reference notes §7.3): Cm
+    // (6.6.4.5.3(a), Cm = 0.6 − 0.4·M1/M2, M1/M2 negative in single curvature) and δ
+    // (6.6.4.5.2) use those M1, M2; Mc = δ·M2 (6.6.4.5.1).
+    //
+    // Fixed-base portal, L = h = 4 m, Ic = Ib = 1e-4 m⁴, E = 200 GPa, A = 10 m² (axially
+    // rigid), βdns = 0, under 1.2D + 1.0W: factored w = 24 kN/m on the girder, 1400 kN on
+    // each knee, H = 20 kN at the left knee. Slope-deflection by hand, Kc = Kb = EI/h:
+    // * gravity (no sway, symmetric): knee rotation θ = (wL²/12)/(2Kb + 4Kc) = wL²/(72K);
+    //   left column (i at the base, local y = −X): top −4Kθ = −wL²/18 = −21.333 kN·m,
+    //   base +2Kθ = +wL²/36 = +10.667 kN·m (reverse curvature: Cm from these alone would
+    //   be 0.6 − 0.4·0.5 = 0.40);
+    // * sway (k = Kb/Kc = 1): θ = 3ψ/(3k + 2) = 3ψ/5, column top 2K(2θ − 3ψ) = −18Kψ/5,
+    //   base 2K(θ − 3ψ) = −24Kψ/5; H = Σ shears = 2·(42Kψ/5)/h → Kψ = 5Hh/84, so the
+    //   sway moments are top +3Hh/14 = +17.143 kN·m, base −2Hh/7 = −22.857 kN·m in the
+    //   column's internal convention (a cantilever pushed towards its local −y hogs at
+    //   the base);
+    // * story stiffness H/Δ = 84K/(5h²) = 5.25e6 N/m; ΣPu = 2·1400 + 24·4 = 2896 kN;
+    //   Q = ΣPu/((H/Δ)·h) = 2896e3/21.0e6 = 0.13790 > 0.05: sway (6.6.4.4.1, 6.6.4.3(b));
+    //   δs = 1/(1 − Q) = 1.15996 (6.6.4.6.2(a));
+    // * left column: M_base = 10.667 − 1.15996·22.857 = −15.847 kN·m,
+    //   M_top = −21.333 + 1.15996·17.143 = −1.448 kN·m: single curvature,
+    //   M2 = −15.847 (base), M1/M2 = −1.448/15.847 = −0.0914, Cm = 0.63656;
+    // * Pu = 1400 + wL/2 − (sway girder shear 2·(3Hh/14)/L = 8.571 kN) = 1439.43 kN;
+    //   Pc = π²·0.4·E·I/h² = 4.9348e6 N (6.6.4.4.2, 6.6.4.4.4(a), k = 1, βdns = 0);
+    //   δ = Cm/(1 − Pu/(0.75·Pc)) = 0.63656/(1 − 0.38892) = 1.0417;
+    //   Mc = δ·M2 = −16.51 kN·m at the base (with Cm = 0.40 it would be δ = 1.0 and
+    //   −15.85 kN·m, 4 % low).
+    let (l, h, i) = (4.0, 4.0, 1e-4);
+    let (mut f, [_, n1, n2, _, c1, beam, _]) = portal(l, h, i, i, true);
+    f.model.analysis.method = SecondOrderMethod::AciMagnifier;
+    f.model.analysis.beta_dns = 0.0;
+    let d = f.case("D", ActionCategory::Dead);
+    f.udl(d, beam, 20e3, LoadDirection::Gravity);
+    f.nodal(d, n1, 0.0, -1400e3 / 1.2, 0.0);
+    f.nodal(d, n2, 0.0, -1400e3 / 1.2, 0.0);
+    let wind = f.case("W", ActionCategory::Wind);
+    f.nodal(wind, n1, 20e3, 0.0, 0.0);
+    let case = only_case(&f.model, &strength("1.2D+1.0W", &[(d, 1.2), (wind, 1.0)]));
+    let (w, hh) = (24e3, 20e3 * h);
+    let q = (2.0 * 1400e3 + w * l) / (84.0 * 200e9 * i / (5.0 * h * h * h) * h);
+    let s = &case.stories[0];
+    let tol = 1e-5; // axial shortening of A = 10 m² columns, relative
+    assert_relative_eq!(s.q_index, q, max_relative = tol);
+    assert_eq!(s.classification, Classification::Sway, "{}", s.criterion);
+    let ds = 1.0 / (1.0 - q);
+    let mc = &case.members[c1];
+    let (base_ns, top_ns) = (w * l * l / 36.0, -w * l * l / 18.0);
+    let (base_s, top_s) = (-2.0 * hh / 7.0, 3.0 * hh / 14.0);
+    assert_relative_eq!(mc.ends[0].no_sway, base_ns, max_relative = tol);
+    assert_relative_eq!(mc.ends[1].no_sway, top_ns, max_relative = tol);
+    assert_relative_eq!(mc.ends[0].sway, base_s, max_relative = tol);
+    assert_relative_eq!(mc.ends[1].sway, top_s, max_relative = tol);
+    let (m_base, m_top) = (base_ns + ds * base_s, top_ns + ds * top_s);
+    assert_relative_eq!(mc.ends[0].design, m_base, max_relative = tol);
+    let cm = 0.6 - 0.4 * (-(m_top / m_base).abs()); // single curvature: M1/M2 < 0
+    assert_relative_eq!(mc.c_m.unwrap(), cm, max_relative = tol);
+    assert_relative_eq!(cm, 0.63656, max_relative = 1e-4);
+    let pu = 1400e3 + w * l / 2.0 - 2.0 * (3.0 * hh / 14.0) / l;
+    assert_relative_eq!(mc.compression, pu, max_relative = tol);
+    let pc = PI * PI * 0.4 * 200e9 * i / (h * h);
+    let delta = cm / (1.0 - pu / (0.75 * pc));
+    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), delta, max_relative = tol);
+    assert_relative_eq!(delta, 1.0417, max_relative = 1e-3);
+    assert_relative_eq!(mc.span.x, 0.0);
+    assert_relative_eq!(mc.span.design, delta * m_base, max_relative = tol);
+    assert_relative_eq!(mc.span.design, -16.51e3, max_relative = 1e-3);
+}
+
+/// A braced one-bay frame of pin-ended members (ACI 318 route, βdns = 0): pinned bases,
+/// the girder released at both ends, and a pin-ended diagonal from the left base to the
+/// right knee with a large area, so the story is non-sway. Concrete columns 400 × 400 mm
+/// (E = 25 GPa, I = 0.4⁴/12, depth 0.4 m), L = 6 m, h = 4 m. Returns the frame and
+/// (left knee, right knee, left column, diagonal).
+fn braced_frame(brace_area: f64, brace_inertia: f64) -> (Frame, [usize; 4]) {
+    let (l, h) = (6.0, 4.0);
+    let (e_c, b) = (25e9, 0.4);
+    let mut f = Frame::new();
+    f.model.analysis.method = SecondOrderMethod::AciMagnifier;
+    f.model.analysis.beta_dns = 0.0;
+    let n0 = f.node(0.0, 0.0);
+    let n1 = f.node(0.0, h);
+    let n2 = f.node(l, h);
+    let n3 = f.node(l, 0.0);
+    let c1 = f.member(n0, n1, e_c, b * b, b.powi(4) / 12.0);
+    let g = f.member(n1, n2, e_c, b * b, b.powi(4) / 12.0);
+    let c2 = f.member(n3, n2, e_c, b * b, b.powi(4) / 12.0);
+    let br = f.member(n0, n2, 200e9, brace_area, brace_inertia);
+    f.model.members[br].role = Role::Brace;
+    for m in [c1, g, c2] {
+        f.model.sections[m].depth = Some(b);
+    }
+    f.release(g, true, true);
+    f.release(br, true, true);
+    f.pinned(n0);
+    f.pinned(n3);
+    (f, [n1, n2, c1, br])
+}
+
+/// Pc of a `braced_frame` column: π²·0.4·Ec·Ig/(1 + βdns)/(k·lu)² with k = 1, βdns = 0
+/// (ACI 318-19 6.6.4.4.2, 6.6.4.4.4(a), from memory).
+fn braced_frame_pc() -> f64 {
+    PI * PI * 0.4 * 25e9 * 0.4f64.powi(4) / 12.0 / 16.0
+}
+
+#[test]
+fn aci_second_order_limit_on_mc_of_a_braced_slender_column() {
+    // Issue 8 items 2 and the SI minimum moment. A pin-ended column in a braced story
+    // carries Pu = 0.5·(0.75·Pc) and no first-order moment. By hand:
+    // * Q ≈ 0 (stiff diagonal): non-sway; M1 = M2 = 0, so M2 = M2,min (6.6.4.5.4, ACI 318M
+    //   form) = Pu·(15 + 0.03·400) mm = Pu·0.027 m; Cm = 1.0 (6.6.4.5.4 permits 1.0
+    //   when M2,min governs; the end moments are zero anyway);
+    // * δ = 1/(1 − Pu/(0.75·Pc)) = 1/(1 − 0.5) = 2.0 (6.6.4.5.2);
+    // * Mc = δ·M2,min = 2·Pu·0.027 m = 2.0 × the moment it magnifies, above the 1.4 limit
+    //   of 6.2.5.3 (from memory): the member gets a note naming it.
+    // Pc = π²·0.4·25e9·2.1333e-3/16 = 13.159 MN, Pu = 4.9348 MN, Mc = 266.5 kN·m.
+    let (mut f, [n1, _, c1, _]) = braced_frame(0.05, 1e-5);
+    let pu = 0.5 * 0.75 * braced_frame_pc();
+    let d = f.case("D", ActionCategory::Dead);
+    f.nodal(d, n1, 0.0, -pu, 0.0);
+    let case = only_case(&f.model, &strength("1.0D", &[(d, 1.0)]));
+    assert!(case.stable);
+    let s = &case.stories[0];
+    assert_eq!(s.classification, Classification::NonSway, "{}", s.criterion);
+    let mc = &case.members[c1];
+    assert_relative_eq!(mc.compression, pu, max_relative = 1e-9);
+    assert_relative_eq!(mc.c_m.unwrap(), 1.0);
+    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), 2.0, max_relative = 1e-9);
+    let m2_min = pu * (0.015 + 0.03 * 0.4);
+    assert_relative_eq!(mc.span.design.abs(), 2.0 * m2_min, max_relative = 1e-9);
+    assert_relative_eq!(mc.span.design.abs(), 266.5e3, max_relative = 1e-3);
+    assert!(
+        mc.notes.iter().any(|n| n.contains("6.6.4.5.4")),
+        "{:?}",
+        mc.notes
+    );
+    assert!(
+        mc.notes
+            .iter()
+            .any(|n| n.contains("Mc = δ·M2 is 2.00") && n.contains("6.2.5.3")),
+        "{:?}",
+        mc.notes
+    );
+}
+
+#[test]
+fn aci_column_with_load_between_its_ends_keeps_its_in_span_moment() {
+    // Issue 8 item 3. The left column of `braced_frame` (pin-ended, braced story) under
+    // wind pressure w = 50 kN/m along its height and Pu = 0.25·(0.75·Pc) from its knee.
+    // By hand (statics of a pin-ended member, any strength-of-materials text):
+    // * M(x) = w·x(h − x)/2, ends 0 and 0, largest at mid-height: w·h²/8 = 50·16/8 =
+    //   100 kN·m at x = 2 m; the load acts towards +X = the column's local −y, so the
+    //   moment is positive in its internal convention;
+    // * transverse load between the ends: Cm = 1.0 (6.6.4.5.3(b)), M2 = the largest moment
+    //   along the member (R6.6.4.5.3, from memory) = 100 kN·m at mid-height; M2,min =
+    //   Pu·0.027 m = 66.6 kN·m is smaller;
+    // * δ = 1/(1 − 0.25) = 1.3333; Mc = δ·M2 = 133.3 kN·m at x = 2 m, where the in-span
+    //   moment is (not at an end, where the moments are zero).
+    let (mut f, [n1, _, c1, _]) = braced_frame(0.05, 1e-5);
+    let pu = 0.25 * 0.75 * braced_frame_pc();
+    let d = f.case("D", ActionCategory::Dead);
+    f.nodal(d, n1, 0.0, -pu, 0.0);
+    let wind = f.case("W", ActionCategory::Wind);
+    f.udl(wind, c1, 50e3, LoadDirection::GlobalX);
+    let case = only_case(&f.model, &strength("D+W", &[(d, 1.0), (wind, 1.0)]));
+    assert!(case.stable);
+    let mc = &case.members[c1];
+    assert_relative_eq!(mc.compression, pu, max_relative = 1e-9);
+    assert_eq!(mc.c_m, Some(1.0));
+    assert_relative_eq!(
+        mc.non_sway_amplifier.unwrap(),
+        4.0 / 3.0,
+        max_relative = 1e-9
+    );
+    assert_relative_eq!(mc.span.x, 2.0, max_relative = 1e-9);
+    assert_relative_eq!(mc.span.first_order, 100e3, max_relative = 1e-6);
+    assert_relative_eq!(mc.span.design, 4.0 / 3.0 * 100e3, max_relative = 1e-6);
+    // The diagram's own extreme stays reported as the in-span moment.
+    assert_relative_eq!(mc.span_max.x, 2.0, max_relative = 1e-9);
+    assert_relative_eq!(mc.span_max.design, 100e3, max_relative = 1e-6);
+    for e in &mc.ends {
+        assert!(e.design.abs() < 1e-6 * 100e3, "{e:?}");
+    }
+}
+
+#[test]
+fn aci_non_sway_magnifier_is_for_columns_not_braces() {
+    // Issue 8 item 4. A pin-ended steel diagonal (E = 200 GPa, I = 1e-6 m⁴, length
+    // √(6² + 4²) = 7.211 m) carrying a quarter of its Euler load Pe = π²EI/L² = 37.96 kN.
+    // By hand: the released girder and pin-ended columns leave the diagonal all the story
+    // shear: a leftward H at the right knee compresses it with N = H·Lb/L
+    // = H·7.211/6 (statics). H = 7.90 kN gives N = 0.25·Pe. ACI's δ with
+    // 0.4·E·I/(1 + βdns) (βdns = 0.6) would give 0.75·Pc = 0.1875·Pe < N and declare the
+    // case unstable; ACI 318-19 6.6.4.5 magnifies columns (common practice, no source:
+    // braces are left to their own member checks), so the case is stable, the diagonal
+    // has no δ, and the direct analysis converges.
+    let (mut f, [_, n2, _, br]) = braced_frame(2e-3, 1e-6);
+    f.model.analysis.beta_dns = 0.6;
+    let lb = (36.0f64 + 16.0).sqrt();
+    let pe = PI * PI * 200e9 * 1e-6 / (lb * lb);
+    let hx = 0.25 * pe * 6.0 / lb;
+    let wind = f.case("W", ActionCategory::Wind);
+    f.nodal(wind, n2, -hx, 0.0, 0.0);
+    let case = only_case(&f.model, &strength("1.0W", &[(wind, 1.0)]));
+    let mc = &case.members[br];
+    assert_relative_eq!(mc.compression, 0.25 * pe, max_relative = 1e-3);
+    assert!(case.direct.converged);
+    assert!(mc.stable, "{:?}", mc.notes);
+    assert!(case.stable);
+    assert_eq!(mc.p_critical, None);
+    assert_eq!(mc.non_sway_amplifier, Some(1.0));
+    assert!(
+        mc.notes.iter().any(|n| n.contains("6.6.4.5")),
+        "{:?}",
+        mc.notes
+    );
+}
+
+/// A fixed-base portal with a rigid girder (EN 1993-1-1 route, no imperfection loads):
+/// L = 6 m, h = 4 m, Ic = 1e-4 m⁴, Ib = 1000·Ic, E = 200 GPa; V/2 on each knee and a
+/// 50 kN lateral load. Returns the checked case and the left column's index.
+fn ec3_portal(v: f64) -> (CaseCheck, usize) {
+    let (l, h, ic) = (6.0, 4.0, 1e-4);
+    let (mut f, [_, n1, n2, _, c1, _, _]) = portal(l, h, ic, 1000.0 * ic, true);
+    f.model.analysis.method = SecondOrderMethod::Ec3AlphaCr;
+    f.model.analysis.notional = NotionalLoads::None;
+    let d = f.case("G", ActionCategory::Dead);
+    f.nodal(d, n1, 0.0, -0.5 * v, 0.0);
+    f.nodal(d, n2, 0.0, -0.5 * v, 0.0);
+    let w = f.case("W", ActionCategory::Wind);
+    f.nodal(w, n1, 50e3, 0.0, 0.0);
+    (
+        only_case(&f.model, &strength("G+W", &[(d, 1.0), (w, 1.0)])),
+        c1,
+    )
+}
+
+#[test]
+fn ec3_judges_the_structure_by_its_lowest_alpha_cr() {
+    // Issue 8 item 5. EN 1993-1-1:2005 §5.2.1(3)/(4)B and §5.2.2(5)B/(6)B (from memory,
+    // reference notes §8.2): one α_cr for the structure, the lowest story value of (5.2)
+    // or the buckling analysis when lower; sway effects × 1/(1 − 1/α_cr) for
+    // 3 ≤ α_cr < 10, nothing for α_cr ≥ 10, a second-order analysis below 3.
+    // By hand for `ec3_portal` (rigid girder, axially rigid columns):
+    // * story (5.2): α_cr = (H/δ)·h/V with H/δ = 2·12EIc/h³·(6k + 1)/(6k + 4),
+    //   k = (Ib/Ic)(h/L) = 666.7 (slope-deflection, `tests/check.rs` portal_stiffness):
+    //   α_story = 24EIc/(h²V)·0.99925 = 29.98e6/V (V in N);
+    // * buckling: each column sways with both ends fixed against rotation,
+    //   Pcr = π²EIc/h² (Timoshenko & Gere, Theory of Elastic Stability §2.2), so
+    //   α_frame = 2π²EIc/(h²V) = 24.67e6/V ≈ 0.823·α_story: the lower value governs;
+    // * V = 2.6 MN: α_story = 11.5 ≥ 10 (a story-by-story check would stop at first
+    //   order), α_frame = 9.49 < 10 → sway effects × 1/(1 − 1/9.49) = 1.118;
+    // * V = 8.6 MN: α_story = 3.49 ≥ 3 (a story-by-story check would use the amplified
+    //   method), α_frame = 2.87 < 3 → second-order analysis required: the sway effects
+    //   take Δ2nd/Δ1st of the direct analysis, never 1/(1 − 1/α_story).
+    let (h, ic, e) = (4.0, 1e-4, 200e9);
+    let alpha_frame = |v: f64| 2.0 * PI * PI * e * ic / (h * h * v);
+    let alpha_story = |v: f64| {
+        24.0 * e * ic / (h * h * v) * (6.0 * 2000.0 / 3.0 + 1.0) / (6.0 * 2000.0 / 3.0 + 4.0)
+    };
+
+    let v = 2.6e6;
+    let (case, c1) = ec3_portal(v);
+    let s = &case.stories[0];
+    assert_relative_eq!(s.alpha_cr_story, alpha_story(v), max_relative = 1e-5);
+    assert!(s.alpha_cr_story >= 10.0);
+    let a = case.alpha_cr.unwrap();
+    assert_relative_eq!(a, alpha_frame(v), max_relative = 5e-3);
+    assert!(a < 10.0);
+    let amp = 1.0 / (1.0 - 1.0 / a);
+    assert_eq!(s.classification, Classification::Sway, "{}", s.criterion);
+    assert_relative_eq!(s.sway_amplifier.unwrap(), amp, max_relative = 1e-12);
+    assert!(s.criterion.contains("buckling analysis"), "{}", s.criterion);
+    let mc = &case.members[c1];
+    for end in &mc.ends {
+        assert_relative_eq!(
+            end.design,
+            end.no_sway + amp * end.sway,
+            max_relative = 1e-9
+        );
+    }
+
+    let v = 8.6e6;
+    let (case, c1) = ec3_portal(v);
+    let s = &case.stories[0];
+    assert!(s.alpha_cr_story >= 3.0, "{}", s.alpha_cr_story);
+    let a = case.alpha_cr.unwrap();
+    assert!(a < 3.0 && a > 1.0, "{a}");
+    assert!(case.direct.converged);
+    let r = s.drift_amplification.unwrap();
+    assert_eq!(s.sway_amplifier, Some(r), "{}", s.criterion);
+    assert!(
+        s.criterion.contains("second-order analysis required"),
+        "{}",
+        s.criterion
+    );
+    // Δ2nd/Δ1st is close to the exact 1/(1 − 1/α_frame) here, and well above the
+    // story-based 1/(1 − 1/α_story) that the amplified method would have used.
+    assert!(r > 1.0 / (1.0 - 1.0 / s.alpha_cr_story) * 1.05, "{r}");
+    let mc = &case.members[c1];
+    for end in &mc.ends {
+        assert_relative_eq!(end.design, end.no_sway + r * end.sway, max_relative = 1e-9);
+    }
+}
