@@ -58,9 +58,12 @@ pub struct DesignMoment {
     pub first_order: f64,
     /// `no-sway` or `sway`: the larger amplified part here.
     pub governs: String,
-    /// Concurrent mean axial force, N, tension positive.
+    /// Concurrent first-order axial force at the most compressed section, N, tension
+    /// positive.
     pub axial: f64,
-    /// Concurrent required axial compressive strength Pr (Pu), N; 0 in tension.
+    /// Concurrent required axial compressive strength, N, 0 in tension: Pr = Pnt + B2·Plt
+    /// (AISC 360-16 A-8-2) with the AISC method, else the largest first-order compression
+    /// (Pu of ACI 318, N_Ed of EN 1993-1-1).
     pub p_r: f64,
     /// Concurrent largest end shear, N.
     pub shear: f64,
@@ -82,7 +85,7 @@ pub struct SectionEnvelope {
 pub struct AxialExtreme {
     /// Axial force, N, tension positive (so a compression is negative).
     pub axial: f64,
-    /// Required compressive strength Pr (Pu), N; 0 in tension.
+    /// Required compressive strength (as [`DesignMoment::p_r`]), N; 0 in tension.
     pub p_r: f64,
     pub case: String,
     pub expression: String,
@@ -183,18 +186,23 @@ fn keep<T>(slot: &mut Option<T>, candidate: T, better: impl Fn(&T, &T) -> bool) 
     }
 }
 
-/// The sections of a member in one case at which moments are enveloped: the two ends and
-/// the span extreme, unless the span extreme lies at an end with that end's value.
+/// The sections of a member in one case at which moments are enveloped: the two ends;
+/// the reported span moment unless it lies at an end with that end's value; and the
+/// largest and smallest moments of the design diagram where they lie inside the span.
 pub fn sections(m: &MemberCheck) -> Vec<(Location, &MomentCheck)> {
     let mut out = vec![(Location::EndI, &m.ends[0]), (Location::EndJ, &m.ends[1])];
     let l = m.ends[1].x;
+    let at = |s: &MomentCheck, e: &MomentCheck| (s.x - e.x).abs() <= 1e-9 * l.max(1e-9);
     let repeats = |s: &MomentCheck, e: &MomentCheck| {
-        (s.x - e.x).abs() <= 1e-9 * l.max(1e-9)
-            && (s.design - e.design).abs() <= 1e-9 * s.design.abs().max(1e-9)
+        at(s, e) && (s.design - e.design).abs() <= 1e-9 * s.design.abs().max(1e-9)
     };
-    let s = &m.span;
-    if !repeats(s, &m.ends[0]) && !repeats(s, &m.ends[1]) {
-        out.push((Location::Span, s));
+    if !repeats(&m.span, &m.ends[0]) && !repeats(&m.span, &m.ends[1]) {
+        out.push((Location::Span, &m.span));
+    }
+    for s in [&m.span_max, &m.span_min] {
+        if !at(s, &m.ends[0]) && !at(s, &m.ends[1]) {
+            out.push((Location::Span, s));
+        }
     }
     out.retain(|(_, s)| s.design.is_finite());
     out
@@ -212,7 +220,7 @@ fn design_moment(case: &CaseCheck, m: &MemberCheck, s: &MomentCheck) -> DesignMo
         first_order: s.first_order,
         governs: s.governs.to_string(),
         axial: m.axial,
-        p_r: m.compression,
+        p_r: m.p_r.unwrap_or(m.compression),
         shear: m.shear,
         non_sway_amplifier: m.non_sway_amplifier,
         sway_amplifier: m.sway_amplifier,
@@ -290,7 +298,7 @@ fn member_case(env: &mut MemberEnvelope, case: &CaseCheck, m: &MemberCheck, tiny
     }
     let extreme = AxialExtreme {
         axial: m.axial,
-        p_r: m.compression,
+        p_r: m.p_r.unwrap_or(m.compression),
         case: case.id.clone(),
         expression: case.expression.clone(),
         moment_i: m.ends[0].design,
@@ -298,7 +306,7 @@ fn member_case(env: &mut MemberEnvelope, case: &CaseCheck, m: &MemberCheck, tiny
         moment_span: m.span.design,
         shear: m.shear,
     };
-    if m.compression > 0.0 {
+    if extreme.p_r > 0.0 {
         keep(&mut env.compression, extreme, |a, b| a.p_r > b.p_r);
     } else if m.axial > 0.0 {
         keep(&mut env.tension, extreme, |a, b| a.axial > b.axial);

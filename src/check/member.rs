@@ -85,7 +85,15 @@ pub struct MemberCheck {
     /// story), 1/(1 − 1/α_cr) or Δ2nd/Δ1st.
     pub sway_amplifier: Option<f64>,
     pub governs: Part,
+    /// False when the member (or its story) is unstable under the case: AISC α·Pr ≥ Pe1
+    /// (A-8-3), an unstable story, a direct analysis that did not converge. The case is
+    /// then unstable.
     pub stable: bool,
+    /// False when a limit of the standard rules out this member's design as sized under
+    /// the case, without the frame being unstable: ACI 318-19 Pu ≥ 0.75·Pc (6.6.4.5.2, no
+    /// δ exists; Mc is then not given) or a second-order moment above 1.4 × first-order
+    /// (6.2.5.3, from memory). The notes say which; the case's other results stand.
+    pub within_limits: bool,
     pub notes: Vec<String>,
 }
 
@@ -340,6 +348,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
 
     let mut notes = Vec::new();
     let mut stable = true;
+    let mut within_limits = true;
     // Sway amplifier: the largest of the stories the member belongs to.
     let in_stories = member_stories(model, input.stories, m);
     let story_amp = if in_stories.is_empty() {
@@ -409,8 +418,11 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             );
             let delta = aci::delta_ns(col.c_m, compression, pc);
             if delta.is_none() {
-                stable = false;
-                notes.push("Pu ≥ 0.75·Pc: the member is unstable (ACI 318-19 6.6.4.5.2)".into());
+                within_limits = false;
+                notes.push(
+                    "Pu ≥ 0.75·Pc: ACI 318-19 6.6.4.5.2 gives no δ and does not permit this                      column as sized; Mc is not given (the frame's stability is judged by                      the story and buckling figures)"
+                        .into(),
+                );
             }
             (Some(col.c_m), Some(pc), delta)
         }
@@ -498,6 +510,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
                 s.first_order.abs()
             };
             if let Some(r) = above_aci_limit(mc, reference) {
+                within_limits = false;
                 notes.push(format!(
                     "Mc = δ·M2 is {r:.2} × the first-order moment, above the 1.4 limit of \
                      ACI 318-19 6.2.5.3 (from memory): that clause does not permit this design"
@@ -512,6 +525,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             .iter()
             .find_map(|e| above_aci_limit(e.design, e.first_order))
         {
+            within_limits = false;
             notes.push(format!(
                 "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
                  (ACI 318-19 6.2.5.3, from memory)"
@@ -531,6 +545,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     // The part that governs at the section with the largest design moment.
     let governs = [ends[0], ends[1], span, span_max, span_min]
         .into_iter()
+        .filter(|s| s.design.is_finite())
         .max_by(|a, b| a.design.abs().total_cmp(&b.design.abs()))
         .map_or(Part::NoSway, |g| g.governs);
     MemberCheck {
@@ -550,6 +565,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         sway_amplifier: sway_amp,
         governs,
         stable,
+        within_limits,
         notes,
     }
 }
@@ -557,6 +573,72 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
 mod tests {
     use super::*;
     use approx::assert_relative_eq;
+
+    #[test]
+    fn extremes_at_a_concentrated_moment_take_the_parts_of_their_own_side() {
+        // Closed form (simply supported beam with a couple C at mid-span, any
+        // strength-of-materials text): the moment is linear from 0 to ∓C/2 left of the
+        // couple and jumps by C to ±C/2 right of it, so both extremes sit at x = L/2, one
+        // on each side. A sway part with end moments (−S, +S) adds the line S·(2x/L − 1),
+        // zero at mid-span: the combined extremes are ±C/2 there, each with the parts of
+        // its own side.
+        let (l, c, s) = (6.0, 10e3, 3e3);
+        let loads = [LocalLoad::Moment { a: l / 2.0, m: c }];
+        let ns = crate::solve::beam::condensed_fixed_end_forces(l, &loads, true, true);
+        let sw = EndForces {
+            i: [0.0, 2.0 * s / l, s],
+            j: [0.0, -2.0 * s / l, s],
+        };
+        let d = Diagram {
+            length: l,
+            no_sway: &ns,
+            sway: &sw,
+            loads: &loads,
+            k_ns: 1.3,
+            k_s: 1.7,
+        };
+        // The sway diagram alone: M(0) = −Mz_i = −S, M(L) = Mz_j = +S.
+        assert_relative_eq!(d.parts(0.0, Side::Right).1, -s, max_relative = 1e-12);
+        assert_relative_eq!(d.parts(l, Side::Left).1, s, max_relative = 1e-12);
+        let e = d.extremes();
+        for p in [e.max, e.min] {
+            assert_relative_eq!(p.0, l / 2.0, max_relative = 1e-12);
+            assert_relative_eq!(p.1.abs(), 1.3 * c / 2.0, max_relative = 1e-9);
+            let parts = d.parts_at(p);
+            assert_relative_eq!(d.design(parts), p.1, max_relative = 1e-9);
+            assert_relative_eq!(parts.0.abs(), c / 2.0, max_relative = 1e-9);
+        }
+    }
+
+    #[test]
+    fn least_axial_of_a_column_with_a_linear_axial_load() {
+        // Statics (closed form): a member with end action Fx_i = +F (the node pushes end i
+        // towards j) and an axial load qx from q0 at i to 0 at j has N(x) = −F − Σ px,
+        // i.e. N(0) = −F and N(L) = −F − q0·L/2 (loads along +x): the least is at j.
+        let (l, f, q0) = (4.0, 100e3, 20e3);
+        let loads = [LocalLoad::Linear {
+            a: 0.0,
+            b: l,
+            qx_a: q0,
+            qy_a: 0.0,
+            qx_b: 0.0,
+            qy_b: 0.0,
+        }];
+        let ns = EndForces {
+            i: [f, 0.0, 0.0],
+            j: [-f - q0 * l / 2.0, 0.0, 0.0],
+        };
+        let zero = EndForces::default();
+        let d = Diagram {
+            length: l,
+            no_sway: &ns,
+            sway: &zero,
+            loads: &loads,
+            k_ns: 1.0,
+            k_s: 1.0,
+        };
+        assert_relative_eq!(d.least_axial(), -f - q0 * l / 2.0, max_relative = 1e-12);
+    }
 
     #[test]
     fn cm_follows_curvature() {

@@ -21,19 +21,28 @@ pub fn design_diagram(
     loads: &[LocalLoad],
     count: usize,
 ) -> Vec<(f64, f64)> {
+    let mut xs = stations(l, count);
+    xs.extend(breakpoints(l, loads));
+    xs.sort_by(f64::total_cmp);
+    xs.dedup_by(|a, b| (*a - *b).abs() <= 1e-9 * l);
+    diagram_at(l, m_i, m_j, loads, &xs)
+}
+
+/// `count` equal steps over `0..=l` (`count + 1` positions).
+pub fn stations(l: f64, count: usize) -> Vec<f64> {
+    let n = count.max(1);
+    (0..=n).map(|k| l * k as f64 / n as f64).collect()
+}
+
+/// `(x, M)` at the positions `xs` (see [`design_diagram`]).
+pub fn diagram_at(l: f64, m_i: f64, m_j: f64, loads: &[LocalLoad], xs: &[f64]) -> Vec<(f64, f64)> {
     let zero = EndForces::default();
     // Moment of the loads left of x on a free body with no end forces: m_raw(x). The
     // simple span adds the reaction at i, which makes M0(L) = 0.
     let m_raw = |x: f64| internal_forces(x, &zero, loads).m;
     let m_raw_l = m_raw(l);
-    let mut xs: Vec<f64> = (0..=count.max(1))
-        .map(|k| l * k as f64 / count.max(1) as f64)
-        .collect();
-    xs.extend(breakpoints(l, loads));
-    xs.sort_by(f64::total_cmp);
-    xs.dedup_by(|a, b| (*a - *b).abs() <= 1e-9 * l);
-    xs.into_iter()
-        .map(|x| {
+    xs.iter()
+        .map(|&x| {
             let t = if l > 0.0 { x / l } else { 0.0 };
             let m0 = m_raw(x) - m_raw_l * t;
             (x, m_i * (1.0 - t) + m_j * t + m0)
