@@ -104,6 +104,15 @@ struct CheckCli {
     /// model's [analysis] method.
     #[arg(long = "second-order", value_name = "METHOD", value_parser = method_parser())]
     method: Option<SecondOrderMethod>,
+    /// Analysis stiffness: gross, aci-cracked, aisc-direct, or auto (what the method calls
+    /// for: AISC 360-16 §C2.3 for aisc-b1b2 and direct, ACI 318-19 Table 6.6.3.1.1(a) for
+    /// aci-magnifier, gross for ec3-alpha-cr); overrides the model.
+    #[arg(long, value_name = "PRESET")]
+    stiffness: Option<String>,
+    /// Notional loads: auto (what the method calls for), none, aisc, ec3-imperfection, or an
+    /// AISC coefficient such as 0.003; overrides the model.
+    #[arg(long, value_name = "KIND")]
+    notional: Option<String>,
     /// Only the factored cases whose id starts with this (implies --detail).
     #[arg(long)]
     case: Option<String>,
@@ -114,6 +123,11 @@ struct CheckCli {
     /// csv: one file per table (-o DIR writes them into DIR); md: a calculation-package page.
     #[arg(long, value_enum, default_value_t)]
     format: CheckFormat,
+    /// Also estimate every member's first-order moments by the hand methods (beams with
+    /// inflection points at 0.1 L, columns by joint unbalance, portal method for lateral
+    /// load) beside the computed ones, and flag members far off.
+    #[arg(long)]
+    approximate: bool,
     #[command(flatten)]
     out: Output,
 }
@@ -168,6 +182,8 @@ struct CompletionsCli {
 struct Done {
     rendered: Rendered,
     output: Option<PathBuf>,
+    /// `check` found an unstable case (exit status 3).
+    unstable: bool,
 }
 
 /// A progress bar on standard error for runs longer than about a second; indicatif draws
@@ -204,6 +220,7 @@ fn run(cli: Cli) -> Result<Done, AppError> {
     let text = |t: String, output| Done {
         rendered: Rendered::text(t),
         output,
+        unstable: false,
     };
     Ok(match cli.command {
         Command::Solve(a) => text(app::solve(&a.model, &a.case, a.format)?, a.out.output),
@@ -217,13 +234,19 @@ fn run(cli: Cli) -> Result<Done, AppError> {
                 combos: a.combos,
                 sets: a.sets,
                 method: a.method,
+                stiffness: a.stiffness,
+                notional: a.notional,
                 case: a.case,
                 format: a.format,
                 detail: a.detail,
+                approximate: a.approximate,
             };
+            let (rendered, unstable) =
+                app::check_output_status(&a.model, &args, &mut progress_bar())?;
             Done {
-                rendered: app::check_output(&a.model, &args, &mut progress_bar())?,
+                rendered,
                 output: a.out.output,
+                unstable,
             }
         }
         Command::Report(a) => {
@@ -259,17 +282,27 @@ fn run(cli: Cli) -> Result<Done, AppError> {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
-    let result = run(cli).and_then(|done| app::emit(&done.rendered, done.output.as_deref()));
-    match result {
-        Ok(written) => {
+    let result = run(cli).and_then(|done| {
+        app::emit(&done.rendered, done.output.as_deref()).map(|w| (w, done.unstable))
+    });
+    ExitCode::from(match result {
+        Ok((written, unstable)) => {
             for p in written {
                 eprintln!("plumbline: wrote {}", p.display());
             }
-            ExitCode::SUCCESS
+            if unstable {
+                app::exit::UNSTABLE
+            } else {
+                app::exit::OK
+            }
         }
         Err(e) => {
+            let code = match e {
+                AppError::Usage(_) => app::exit::USAGE,
+                _ => app::exit::FAILED,
+            };
             eprintln!("{:?}", miette::Report::new(e));
-            ExitCode::FAILURE
+            code
         }
-    }
+    })
 }

@@ -18,8 +18,8 @@ use crate::diag::{FileError, line_col};
 use crate::model::{
     ActionCategory, AnalysisOptions, ComboChoice, LevelConversion, LoadCase, LoadDirection,
     LoadLevel, Material, Measure, Member, MemberLoad, MemberLoadKind, Model, ModelSpans, NodalLoad,
-    Node, NotionalLoads, Restraint, Role, SecondOrderMethod, Section, StiffnessPreset,
-    StoryDeclaration, Support,
+    Node, NotionalLoads, Restraint, Role, SecondOrderMethod, Section, SettingOrigin,
+    StiffnessPreset, StoryDeclaration, Support,
 };
 use crate::units::{Dimension, UnitSystem, parse_quantity};
 
@@ -756,13 +756,20 @@ fn analysis(
     raw: Option<&S<RawAnalysis>>,
 ) -> Result<(AnalysisOptions, Option<StoryDeclaration>), FileError> {
     let mut out = AnalysisOptions::default();
-    let Some(a) = raw else { return Ok((out, None)) };
+    // Settings the model does not give follow the method (issue 7 item 8).
+    out.origin.stiffness = SettingOrigin::MethodDefault;
+    out.origin.notional = SettingOrigin::MethodDefault;
+    let Some(a) = raw else {
+        out.apply_method_defaults();
+        return Ok((out, None));
+    };
     let a = a.get_ref();
     if let Some(m) = &a.method {
         out.method = ctx.choice::<SecondOrderMethod>(m, "analysis.method", &METHOD_NAMES)?;
     }
-    if let Some(s) = &a.stiffness {
+    if let Some(s) = a.stiffness.as_ref().filter(|s| s.get_ref() != "auto") {
         out.stiffness = ctx.choice::<StiffnessPreset>(s, "analysis.stiffness", &STIFFNESS_NAMES)?;
+        out.origin.stiffness = SettingOrigin::Model;
     }
     for (role, v) in &a.inertia_factor {
         let field = format!("analysis.inertia_factor.{role}");
@@ -789,6 +796,9 @@ fn analysis(
         None => None,
     };
     if let Some(n) = &a.notional {
+        if n.get_ref() != "auto" {
+            out.origin.notional = SettingOrigin::Model;
+        }
         out.notional = match n.get_ref().as_str() {
             "auto" => NotionalLoads::Auto,
             "none" => NotionalLoads::None,
@@ -816,11 +826,18 @@ fn analysis(
         ));
     }
     if let Some(s) = &a.segments {
-        if *s.get_ref() < 1 || *s.get_ref() > 1000 {
+        // Fewer than 2 elements per member lose P-δ (issue 7 item 6): refused.
+        let min = crate::solve::second_order::MIN_SEGMENTS as i64;
+        if *s.get_ref() < min || *s.get_ref() > 1000 {
             return Err(ctx.err(
                 s.span(),
                 "analysis.segments",
-                format!("expected an integer from 1 to 1000, got {}", s.get_ref()),
+                format!(
+                    "expected an integer from {min} to 1000, got {}: with fewer than {min} \
+                     elements per member the second-order analysis loses the P-δ effect of \
+                     each member's own curvature",
+                    s.get_ref()
+                ),
             ));
         }
         out.segments = *s.get_ref() as usize;
@@ -836,6 +853,7 @@ fn analysis(
         }
         out.beta_dns = v;
     }
+    out.apply_method_defaults();
     let stories = match &a.story_levels {
         None => None,
         Some(list) => {
