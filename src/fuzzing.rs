@@ -91,6 +91,8 @@ fn sample_cases() -> Vec<LoadCase> {
             nodal: Vec::new(),
             member: Vec::new(),
             arrange: false,
+            level: None,
+            reverse: false,
         })
         .collect();
     for side in ["W-left", "W-right"] {
@@ -102,6 +104,8 @@ fn sample_cases() -> Vec<LoadCase> {
             nodal: Vec::new(),
             member: Vec::new(),
             arrange: false,
+            level: None,
+            reverse: false,
         });
     }
     cases
