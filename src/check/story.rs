@@ -381,7 +381,10 @@ pub fn drift_of(st: &Story, u: &[[f64; 3]]) -> f64 {
 /// the first story's bottom nodes, m.
 pub fn top_drift(stories: &[Story], s: &Solution) -> f64 {
     match (stories.first(), stories.last()) {
-        (Some(bottom), Some(top)) => mean_ux(s, &top.top_nodes) - mean_ux(s, &bottom.bottom_nodes),
+        (Some(bottom), Some(top)) => {
+            mean_x(&s.displacements, &top.top_nodes)
+                - mean_x(&s.displacements, &bottom.bottom_nodes)
+        }
         _ => 0.0,
     }
 }
