@@ -27,6 +27,7 @@ fn one(case: usize) -> Expansion {
         merged: vec![],
         skipped: vec![],
         warnings: vec![],
+        notices: vec![],
     }
 }
 
