@@ -123,6 +123,11 @@ struct CheckCli {
     /// csv: one file per table (-o DIR writes them into DIR); md: a calculation-package page.
     #[arg(long, value_enum, default_value_t)]
     format: CheckFormat,
+    /// Also estimate every member's first-order moments by the hand methods (beams with
+    /// inflection points at 0.1 L, columns by joint unbalance, portal method for lateral
+    /// load) beside the computed ones, and flag members far off.
+    #[arg(long)]
+    approximate: bool,
     #[command(flatten)]
     out: Output,
 }
@@ -234,6 +239,7 @@ fn run(cli: Cli) -> Result<Done, AppError> {
                 case: a.case,
                 format: a.format,
                 detail: a.detail,
+                approximate: a.approximate,
             };
             let (rendered, unstable) =
                 app::check_output_status(&a.model, &args, &mut progress_bar())?;
