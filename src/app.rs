@@ -163,6 +163,12 @@ pub struct CheckArgs {
     pub combos: Option<String>,
     pub sets: Vec<String>,
     pub method: Option<SecondOrderMethod>,
+    /// `--stiffness`: `gross`, `aci-cracked`, `aisc-direct`, or `auto` (the method's
+    /// default); overrides the model.
+    pub stiffness: Option<String>,
+    /// `--notional`: `auto`, `none`, `aisc`, `ec3-imperfection`, or a number (the AISC
+    /// coefficient); overrides the model.
+    pub notional: Option<String>,
     /// Only the factored cases whose id starts with this (notional-load variants such as
     /// `2.3.1-2a/N+` included). Implies `detail`.
     pub case: Option<String>,
@@ -170,6 +176,94 @@ pub struct CheckArgs {
     /// Add the per-case detail to the summary (text and Markdown; JSON and CSV always
     /// carry it).
     pub detail: bool,
+}
+
+/// Exit status of the program (documented in the README, "Exit status").
+pub mod exit {
+    /// The command ran and every factored case is stable.
+    pub const OK: u8 = 0;
+    /// The command failed: bad input (file, line and field named), an analysis that could
+    /// not run, or an output that could not be written. Nothing was written.
+    pub const FAILED: u8 = 1;
+    /// The command line itself is wrong (unknown option, missing argument, bad value).
+    pub const USAGE: u8 = 2;
+    /// `check` ran and wrote its report, but at least one factored case is unstable.
+    pub const UNSTABLE: u8 = 3;
+}
+
+/// Apply the command line's `--stiffness` and `--notional` to `model`'s analysis options,
+/// then the method's defaults to every setting neither the model nor the command line gave.
+pub fn apply_settings(
+    model: &mut Model,
+    stiffness: Option<&str>,
+    notional: Option<&str>,
+) -> Result<(), AppError> {
+    use crate::model::{NotionalLoads, SettingOrigin, StiffnessPreset};
+    use std::str::FromStr;
+    let a = &mut model.analysis;
+    if let Some(s) = stiffness {
+        if s == "auto" {
+            a.origin.stiffness = SettingOrigin::MethodDefault;
+        } else {
+            a.stiffness = StiffnessPreset::from_str(s).map_err(|_| {
+                AppError::Usage(format!(
+                    "--stiffness: expected gross, aci-cracked, aisc-direct or auto, got \"{s}\""
+                ))
+            })?;
+            a.origin.stiffness = SettingOrigin::CommandLine;
+        }
+    }
+    if let Some(n) = notional {
+        a.notional = match n {
+            "auto" => NotionalLoads::Auto,
+            "none" => NotionalLoads::None,
+            "aisc" => NotionalLoads::Aisc {
+                coefficient: crate::check::aisc::NOTIONAL_COEFFICIENT,
+            },
+            "ec3-imperfection" => NotionalLoads::Ec3Imperfection,
+            other => match other.parse::<f64>() {
+                Ok(c) if c.is_finite() && c > 0.0 && c < 0.1 => {
+                    NotionalLoads::Aisc { coefficient: c }
+                }
+                _ => {
+                    return Err(AppError::Usage(format!(
+                        "--notional: expected auto, none, aisc, ec3-imperfection or an AISC \
+                         coefficient between 0 and 0.1 (e.g. 0.003), got \"{other}\""
+                    )));
+                }
+            },
+        };
+        a.origin.notional = if n == "auto" {
+            SettingOrigin::MethodDefault
+        } else {
+            SettingOrigin::CommandLine
+        };
+    }
+    a.apply_method_defaults();
+    Ok(())
+}
+
+/// Where a method-dependent setting came from, in the words of the settings table.
+fn origin_source(o: crate::model::SettingOrigin, key: &str, method: SecondOrderMethod) -> String {
+    match o {
+        crate::model::SettingOrigin::Model => format!("model file ({key})"),
+        crate::model::SettingOrigin::MethodDefault => format!("method default ({method})"),
+        crate::model::SettingOrigin::CommandLine => "command line".into(),
+    }
+}
+
+/// Plain words for a stiffness preset, with its clause.
+fn stiffness_words(p: crate::model::StiffnessPreset) -> &'static str {
+    use crate::model::StiffnessPreset;
+    match p {
+        StiffnessPreset::Gross => "gross: gross section properties",
+        StiffnessPreset::AciCracked => {
+            "aci-cracked: ACI 318-19 Table 6.6.3.1.1(a), 0.70 Ig columns, 0.35 Ig beams, 1.0 Ag"
+        }
+        StiffnessPreset::AiscDirect => {
+            "aisc-direct: AISC 360-16 §C2.3 direct-analysis rules, 0.8·τb·EI with τb = 1.0, 0.8·EA"
+        }
+    }
 }
 
 /// Everything one `check` run found, before rendering.
@@ -305,8 +399,8 @@ fn settings(
     });
     out.push(Setting {
         setting: "analysis stiffness".into(),
-        value: a.stiffness.to_string(),
-        source: from(false, "analysis.stiffness"),
+        value: stiffness_words(a.stiffness).into(),
+        source: origin_source(a.origin.stiffness, "analysis.stiffness", a.method),
     });
     for (role, f) in &a.inertia_factor {
         out.push(Setting {
@@ -315,19 +409,28 @@ fn settings(
             source: from(false, "analysis.inertia_factor"),
         });
     }
+    let tau_b_term = if a.stiffness == crate::model::StiffnessPreset::AiscDirect {
+        ", plus 0.001·α·Yi of §C2.3(c) (τb = 1.0) shown as its own term"
+    } else {
+        ""
+    };
     out.push(Setting {
         setting: "notional loads".into(),
-        value: match a.notional {
-            crate::model::NotionalLoads::Auto => "auto (as the method calls for)".to_string(),
+        value: match crate::check::effective_notional(model) {
             crate::model::NotionalLoads::None => "none".to_string(),
             crate::model::NotionalLoads::Aisc { coefficient } => {
-                format!("aisc, Ni = {}·α·Yi", crate::report::num(coefficient, 4))
+                format!(
+                    "aisc, Ni = {}·α·Yi (AISC 360-16 §C2.2b){}",
+                    crate::report::num(coefficient, 4),
+                    tau_b_term
+                )
             }
             crate::model::NotionalLoads::Ec3Imperfection => {
                 "ec3-imperfection (EN 1993-1-1 §5.3.2)".to_string()
             }
+            crate::model::NotionalLoads::Auto => "none (as the method calls for)".to_string(),
         },
-        source: from(false, "analysis.notional"),
+        source: origin_source(a.origin.notional, "analysis.notional", a.method),
     });
     out.push(Setting {
         setting: "elements per member (second-order)".into(),
@@ -365,6 +468,11 @@ pub fn run_check(
     if let Some(m) = args.method {
         model.analysis.method = m;
     }
+    apply_settings(
+        &mut model,
+        args.stiffness.as_deref(),
+        args.notional.as_deref(),
+    )?;
     let table = resolve_table(&model, model_path, args.combos.as_deref())?;
     let cli_params = parse_sets(&args.sets)?;
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
@@ -484,12 +592,19 @@ pub fn check_output(
     args: &CheckArgs,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<Rendered, AppError> {
+    Ok(check_output_status(model_path, args, progress)?.0)
+}
+
+/// [`check_output`], and whether some factored case is unstable (for the exit status).
+pub fn check_output_status(
+    model_path: &Path,
+    args: &CheckArgs,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<(Rendered, bool), AppError> {
     let run = run_check(model_path, args, progress)?;
-    Ok(render_check(
-        &run,
-        args.format,
-        args.detail || args.case.is_some(),
-    ))
+    let unstable = run.report.cases.iter().any(|c| !c.stable);
+    let rendered = render_check(&run, args.format, args.detail || args.case.is_some());
+    Ok((rendered, unstable))
 }
 
 /// [`check_output`] as one text, without progress.

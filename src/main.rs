@@ -88,8 +88,9 @@ struct CombosArgs {
     table: Option<String>,
 }
 
+/// The model and analysis options shared by `check` and `report`.
 #[derive(Debug, Args)]
-struct CheckCli {
+struct RunCli {
     /// The model file (TOML).
     model: PathBuf,
     /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
@@ -104,9 +105,41 @@ struct CheckCli {
     /// model's [analysis] method.
     #[arg(long = "second-order", value_name = "METHOD", value_parser = method_parser())]
     method: Option<SecondOrderMethod>,
+    /// Analysis stiffness: gross, aci-cracked, aisc-direct, or auto (what the method calls
+    /// for: AISC 360-16 §C2.3 for aisc-b1b2 and direct, ACI 318-19 Table 6.6.3.1.1(a) for
+    /// aci-magnifier, gross for ec3-alpha-cr); overrides the model.
+    #[arg(long, value_name = "PRESET")]
+    stiffness: Option<String>,
+    /// Notional loads: auto (what the method calls for), none, aisc, ec3-imperfection, or an
+    /// AISC coefficient such as 0.003; overrides the model.
+    #[arg(long, value_name = "KIND")]
+    notional: Option<String>,
     /// Only the factored cases whose id starts with this (implies --detail).
     #[arg(long)]
     case: Option<String>,
+}
+
+impl RunCli {
+    /// The library's options, with `format` and `detail`.
+    fn args(self, format: CheckFormat, detail: bool) -> (PathBuf, CheckArgs) {
+        let args = CheckArgs {
+            combos: self.combos,
+            sets: self.sets,
+            method: self.method,
+            stiffness: self.stiffness,
+            notional: self.notional,
+            case: self.case,
+            format,
+            detail,
+        };
+        (self.model, args)
+    }
+}
+
+#[derive(Debug, Args)]
+struct CheckCli {
+    #[command(flatten)]
+    run: RunCli,
     /// Add the per-case story and member tables to the summary.
     #[arg(long)]
     detail: bool,
@@ -120,21 +153,8 @@ struct CheckCli {
 
 #[derive(Debug, Args)]
 struct ReportCli {
-    /// The model file (TOML).
-    model: PathBuf,
-    /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
-    /// model's own choice.
-    #[arg(long)]
-    combos: Option<String>,
-    /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
-    #[arg(long = "set", value_name = "PARAM=VALUE")]
-    sets: Vec<String>,
-    /// Second-order method (see `plumbline help check`); overrides the model's.
-    #[arg(long = "second-order", value_name = "METHOD", value_parser = method_parser())]
-    method: Option<SecondOrderMethod>,
-    /// Only the factored cases whose id starts with this.
-    #[arg(long)]
-    case: Option<String>,
+    #[command(flatten)]
+    run: RunCli,
     /// The HTML file to write (default: the model file's name with .html, beside it).
     #[arg(long, short)]
     output: Option<PathBuf>,
@@ -168,6 +188,8 @@ struct CompletionsCli {
 struct Done {
     rendered: Rendered,
     output: Option<PathBuf>,
+    /// `check` found an unstable case (exit status 3).
+    unstable: bool,
 }
 
 /// A progress bar on standard error for runs longer than about a second; indicatif draws
@@ -204,6 +226,7 @@ fn run(cli: Cli) -> Result<Done, AppError> {
     let text = |t: String, output| Done {
         rendered: Rendered::text(t),
         output,
+        unstable: false,
     };
     Ok(match cli.command {
         Command::Solve(a) => text(app::solve(&a.model, &a.case, a.format)?, a.out.output),
@@ -213,30 +236,20 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         ),
         Command::Combos(a) => text(app::combos(a.table.as_deref())?, None),
         Command::Check(a) => {
-            let args = CheckArgs {
-                combos: a.combos,
-                sets: a.sets,
-                method: a.method,
-                case: a.case,
-                format: a.format,
-                detail: a.detail,
-            };
+            let (model, args) = a.run.args(a.format, a.detail);
+            let (rendered, unstable) =
+                app::check_output_status(&model, &args, &mut progress_bar())?;
             Done {
-                rendered: app::check_output(&a.model, &args, &mut progress_bar())?,
+                rendered,
                 output: a.out.output,
+                unstable,
             }
         }
         Command::Report(a) => {
-            let args = CheckArgs {
-                combos: a.combos,
-                sets: a.sets,
-                method: a.method,
-                case: a.case,
-                ..Default::default()
-            };
-            let output = a.output.unwrap_or_else(|| a.model.with_extension("html"));
+            let (model, args) = a.run.args(CheckFormat::Table, false);
+            let output = a.output.unwrap_or_else(|| model.with_extension("html"));
             text(
-                app::report(&a.model, &args, &mut progress_bar())?,
+                app::report(&model, &args, &mut progress_bar())?,
                 Some(output),
             )
         }
@@ -259,17 +272,27 @@ fn run(cli: Cli) -> Result<Done, AppError> {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
-    let result = run(cli).and_then(|done| app::emit(&done.rendered, done.output.as_deref()));
-    match result {
-        Ok(written) => {
+    let result = run(cli).and_then(|done| {
+        app::emit(&done.rendered, done.output.as_deref()).map(|w| (w, done.unstable))
+    });
+    ExitCode::from(match result {
+        Ok((written, unstable)) => {
             for p in written {
                 eprintln!("plumbline: wrote {}", p.display());
             }
-            ExitCode::SUCCESS
+            if unstable {
+                app::exit::UNSTABLE
+            } else {
+                app::exit::OK
+            }
         }
         Err(e) => {
+            let code = match e {
+                AppError::Usage(_) => app::exit::USAGE,
+                _ => app::exit::FAILED,
+            };
             eprintln!("{:?}", miette::Report::new(e));
-            ExitCode::FAILURE
+            code
         }
-    }
+    })
 }

@@ -59,8 +59,19 @@ pub fn b2(alpha: f64, p_story: f64, p_e_story: f64) -> Option<f64> {
 /// τb = 1.0 taken for all members, §C2.3(c) adds `0.001·α·Yi` likewise
 /// [C: reference notes §9].
 pub fn notional_coefficient(base: f64, tau_b_one: bool) -> f64 {
-    base + if tau_b_one { 0.001 } else { 0.0 }
+    base + if tau_b_one {
+        NOTIONAL_TAU_B_ADDITION
+    } else {
+        0.0
+    }
 }
+
+/// The default notional-load coefficient of §C2.2b, C2-1: `Ni = 0.002·α·Yi` [C1].
+pub const NOTIONAL_COEFFICIENT: f64 = 0.002;
+
+/// The additional notional load of §C2.3(c) when τb = 1.0 is taken for all members:
+/// `0.001·α·Yi` [C: reference notes §9].
+pub const NOTIONAL_TAU_B_ADDITION: f64 = 0.001;
 
 /// Classification threshold on B2 (or Δ2nd/Δ1st): at or below 1.1 the sway effects are
 /// small enough that K = 1.0 may be used for moment-frame columns — AISC 360-16

@@ -24,7 +24,7 @@ pub mod story;
 use serde::Serialize;
 
 use crate::combos::{Basis, FactoredCase};
-use crate::model::{Model, NotionalLoads, SecondOrderMethod, StiffnessPreset};
+use crate::model::{Model, NotionalLoads, SecondOrderMethod, SettingOrigins, StiffnessPreset};
 use crate::solve::beam::SpanExtremes;
 use crate::solve::first_order::combined_member_loads;
 use crate::solve::linear::MeshLoads;
@@ -86,8 +86,11 @@ pub struct CaseCheck {
     pub id: String,
     pub expression: String,
     pub basis: Basis,
-    /// Notional or imperfection forces added at each story's top level, N (+X).
+    /// Notional or imperfection forces added at each story's top level, N (+X): the sum
+    /// of `notional_terms`.
     pub notional: Vec<f64>,
+    /// The terms of `notional`, each with its rule.
+    pub notional_terms: Vec<NotionalTerm>,
     /// Elastic critical load factor from the buckling analysis (None: nothing buckles).
     pub alpha_cr: Option<f64>,
     /// Buckled shape, largest translation 1.
@@ -102,6 +105,18 @@ pub struct CaseCheck {
     pub residual: f64,
     /// `residual` relative to the largest applied load component.
     pub residual_relative: f64,
+}
+
+/// One term of a case's notional or imperfection forces, shown on its own line so that a
+/// coefficient is never increased silently (issue 7 item 8).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct NotionalTerm {
+    /// What the term is, with its clause.
+    pub rule: String,
+    /// Coefficient on the level gravity loads Yi (φ for EN 1993-1-1).
+    pub coefficient: f64,
+    /// Forces at each story's top level, N (+X).
+    pub forces: Vec<f64>,
 }
 
 /// One node's displacement in a buckled shape (dimensionless, largest translation 1).
@@ -119,6 +134,10 @@ pub struct CheckReport {
     pub title: String,
     pub method: SecondOrderMethod,
     pub stiffness: StiffnessPreset,
+    /// The notional-load setting (`auto` resolves per method).
+    pub notional: NotionalLoads,
+    /// Where the stiffness and notional settings came from.
+    pub origin: SettingOrigins,
     pub stories: Vec<StoryInfo>,
     pub cases: Vec<CaseCheck>,
     pub caution: String,
@@ -163,6 +182,8 @@ pub fn check_with_progress(
         title: model.title.clone(),
         method: model.analysis.method,
         stiffness: model.analysis.stiffness,
+        notional: model.analysis.notional,
+        origin: model.analysis.origin,
         stories: stories
             .iter()
             .map(|s| StoryInfo {
@@ -236,7 +257,13 @@ impl Context<'_> {
         );
 
         let mut out = Vec::with_capacity(variants.len());
-        for (suffix, notional) in variants {
+        for (suffix, terms) in variants {
+            let mut notional = vec![0.0; self.stories.len()];
+            for t in &terms {
+                for (n, f) in notional.iter_mut().zip(&t.forces) {
+                    *n += f;
+                }
+            }
             let sway = if notional.iter().any(|&n| n != 0.0) {
                 let mut s = combined.sway.clone();
                 s.add_scaled(1.0, &self.split.lateral(&notional));
@@ -295,6 +322,7 @@ impl Context<'_> {
                 expression: fc.expression.clone(),
                 basis: fc.basis,
                 notional,
+                notional_terms: terms,
                 alpha_cr: buckling.as_ref().map(|b| b.alpha_cr),
                 buckled_shape: buckling.as_ref().map(|b| {
                     model
@@ -396,18 +424,34 @@ impl Context<'_> {
     }
 }
 
-/// The notional-load variants of one case: `(id suffix, force per story level)`.
+/// The notional-load kind in effect: `auto` resolved for the model's method — AISC notional
+/// loads for the AISC and direct methods (AISC 360-16 §C2.2b), the EN 1993-1-1 sway
+/// imperfection for its method, none for ACI 318's moment magnification.
+pub fn effective_notional(model: &Model) -> NotionalLoads {
+    match model.analysis.notional {
+        NotionalLoads::Auto => match model.analysis.method {
+            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => NotionalLoads::Aisc {
+                coefficient: aisc::NOTIONAL_COEFFICIENT,
+            },
+            SecondOrderMethod::Ec3AlphaCr => NotionalLoads::Ec3Imperfection,
+            SecondOrderMethod::AciMagnifier => NotionalLoads::None,
+        },
+        k => k,
+    }
+}
+
+/// The notional-load variants of one case: `(id suffix, terms)`, each term with its rule
+/// and its force per story level.
 ///
 /// Forces are given at the level of the case's own loads; the direct analysis scales them
 /// by α with the loads.
 ///
-/// * AISC 360-16 §C2.2b: `Ni = 0.002·α·Yi` (+0.001·α·Yi with τb = 1, §C2.3(c)); in
-///   gravity-only cases in both directions; in cases with lateral load only when
+/// * AISC 360-16 §C2.2b: `Ni = c·α·Yi` with c = 0.002 unless the model says otherwise;
+///   with τb = 1 (stiffness `aisc-direct`) §C2.3(c) adds `0.001·α·Yi` as a term of its own;
+///   in gravity-only cases in both directions; in cases with lateral load only when
 ///   Δ2nd/Δ1st (estimated by B2) exceeds 1.7, in the direction of the lateral load [C1].
 /// * EN 1993-1-1 §5.3.2: `φ·N` at each level with φ from (5.5); omitted when
 ///   `H_Ed ≥ 0.15·V_Ed` (§5.3.2(4)B) [M].
-/// * `auto` picks AISC notional loads for the AISC and direct methods, the EN 1993-1-1
-///   imperfection for its method, and none for ACI 318's moment magnification.
 #[allow(clippy::too_many_arguments)]
 fn notional_variants(
     model: &Model,
@@ -417,29 +461,27 @@ fn notional_variants(
     gravity: &story::Gravity,
     total: &Solution,
     estimate: &[StoryFigures],
-) -> Vec<(&'static str, Vec<f64>)> {
-    let none = vec![("", vec![0.0; stories.len()])];
-    let kind = match model.analysis.notional {
-        NotionalLoads::Auto => match model.analysis.method {
-            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => {
-                NotionalLoads::Aisc { coefficient: 0.002 }
-            }
-            SecondOrderMethod::Ec3AlphaCr => NotionalLoads::Ec3Imperfection,
-            SecondOrderMethod::AciMagnifier => NotionalLoads::None,
-        },
-        k => k,
-    };
+) -> Vec<(&'static str, Vec<NotionalTerm>)> {
+    let none = vec![("", Vec::new())];
     let gravity_only = lateral.abs() <= 1e-9 * v_total.max(1.0);
-    let coefficient = match kind {
+    let rules: Vec<(String, f64)> = match effective_notional(model) {
         NotionalLoads::None | NotionalLoads::Auto => return none,
         NotionalLoads::Aisc { coefficient } => {
-            let tau_b_one = model.analysis.stiffness == StiffnessPreset::AiscDirect;
-            let c = aisc::notional_coefficient(coefficient, tau_b_one);
             let ratio = estimate.iter().filter_map(|f| f.b2).fold(1.0, f64::max);
             if !gravity_only && ratio <= aisc::NOTIONAL_GRAVITY_ONLY_LIMIT {
                 return none;
             }
-            c
+            let mut rules = vec![(format!("{coefficient}·Yi, AISC 360-16 §C2.2b"), coefficient)];
+            if model.analysis.stiffness == StiffnessPreset::AiscDirect {
+                rules.push((
+                    format!(
+                        "{}·Yi, AISC 360-16 §C2.3(c): τb = 1.0 in the reduced stiffness",
+                        aisc::NOTIONAL_TAU_B_ADDITION
+                    ),
+                    aisc::NOTIONAL_TAU_B_ADDITION,
+                ));
+            }
+            rules
         }
         NotionalLoads::Ec3Imperfection => {
             if !gravity_only && ec3::imperfection_negligible(lateral, v_total) {
@@ -448,14 +490,26 @@ fn notional_variants(
             let height =
                 stories.last().map_or(0.0, |s| s.top) - stories.first().map_or(0.0, |s| s.bottom);
             let m = story::loaded_columns(model, &stories[0], total);
-            ec3::sway_imperfection(height, m)
+            let phi = ec3::sway_imperfection(height, m);
+            vec![(
+                format!("φ = {phi:.6}, EN 1993-1-1 §5.3.2(3)a (5.5), m = {m}"),
+                phi,
+            )]
         }
     };
-    let level =
-        |sign: f64| -> Vec<f64> { gravity.y.iter().map(|y| sign * coefficient * y).collect() };
+    let terms = |sign: f64| -> Vec<NotionalTerm> {
+        rules
+            .iter()
+            .map(|(rule, c)| NotionalTerm {
+                rule: rule.clone(),
+                coefficient: *c,
+                forces: gravity.y.iter().map(|y| sign * c * y).collect(),
+            })
+            .collect()
+    };
     if gravity_only {
-        vec![("/N+", level(1.0)), ("/N-", level(-1.0))]
+        vec![("/N+", terms(1.0)), ("/N-", terms(-1.0))]
     } else {
-        vec![("", level(lateral.signum()))]
+        vec![("", terms(lateral.signum()))]
     }
 }

@@ -18,7 +18,7 @@ use crate::diag::{FileError, line_col};
 use crate::model::{
     ActionCategory, AnalysisOptions, ComboChoice, LoadCase, LoadDirection, Material, Measure,
     Member, MemberLoad, MemberLoadKind, Model, NodalLoad, Node, NotionalLoads, Restraint, Role,
-    SecondOrderMethod, Section, StiffnessPreset, StoryDeclaration, Support,
+    SecondOrderMethod, Section, SettingOrigin, StiffnessPreset, StoryDeclaration, Support,
 };
 use crate::units::{Dimension, UnitSystem, parse_quantity};
 
@@ -706,13 +706,20 @@ fn analysis(
     raw: Option<&S<RawAnalysis>>,
 ) -> Result<(AnalysisOptions, Option<StoryDeclaration>), FileError> {
     let mut out = AnalysisOptions::default();
-    let Some(a) = raw else { return Ok((out, None)) };
+    // Settings the model does not give follow the method (issue 7 item 8).
+    out.origin.stiffness = SettingOrigin::MethodDefault;
+    out.origin.notional = SettingOrigin::MethodDefault;
+    let Some(a) = raw else {
+        out.apply_method_defaults();
+        return Ok((out, None));
+    };
     let a = a.get_ref();
     if let Some(m) = &a.method {
         out.method = ctx.choice::<SecondOrderMethod>(m, "analysis.method", &METHOD_NAMES)?;
     }
-    if let Some(s) = &a.stiffness {
+    if let Some(s) = a.stiffness.as_ref().filter(|s| s.get_ref() != "auto") {
         out.stiffness = ctx.choice::<StiffnessPreset>(s, "analysis.stiffness", &STIFFNESS_NAMES)?;
+        out.origin.stiffness = SettingOrigin::Model;
     }
     for (role, v) in &a.inertia_factor {
         let field = format!("analysis.inertia_factor.{role}");
@@ -739,6 +746,9 @@ fn analysis(
         None => None,
     };
     if let Some(n) = &a.notional {
+        if n.get_ref() != "auto" {
+            out.origin.notional = SettingOrigin::Model;
+        }
         out.notional = match n.get_ref().as_str() {
             "auto" => NotionalLoads::Auto,
             "none" => NotionalLoads::None,
@@ -786,6 +796,7 @@ fn analysis(
         }
         out.beta_dns = v;
     }
+    out.apply_method_defaults();
     let stories = match &a.story_levels {
         None => None,
         Some(list) => {

@@ -163,6 +163,60 @@ pub struct AnalysisOptions {
     pub segments: usize,
     /// ACI 318-19 §6.6.4.4.4: βdns, ratio of sustained to total factored axial load.
     pub beta_dns: f64,
+    /// Where the stiffness and notional settings came from.
+    pub origin: SettingOrigins,
+}
+
+/// Where an analysis setting came from, for the report's heading.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Display, Default)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum SettingOrigin {
+    /// Written in the model (or set by the program that built the model).
+    #[default]
+    Model,
+    /// Not given: what the second-order method calls for.
+    MethodDefault,
+    /// Given on the command line.
+    CommandLine,
+}
+
+/// Where each method-dependent setting came from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Default)]
+pub struct SettingOrigins {
+    pub stiffness: SettingOrigin,
+    pub notional: SettingOrigin,
+}
+
+impl SecondOrderMethod {
+    /// The stiffness the method calls for when the model does not say:
+    /// * `aisc-b1b2` and `direct`: AISC 360-16 §C2.3 (0.8·τb·EI, 0.8·EA; τb = 1.0 with the
+    ///   additional notional load of §C2.3(c)). App. 8 figures of the direct analysis
+    ///   method use the reduced stiffness (App. 8.2, from memory);
+    /// * `aci-magnifier`: ACI 318-19 Table 6.6.3.1.1(a) cracked-section moments of inertia
+    ///   for the elastic analysis at factored loads (§6.6.3.1.1, from memory);
+    /// * `ec3-alpha-cr`: gross section stiffness (EN 1993-1-1 §5.2 makes no reduction).
+    pub fn default_stiffness(self) -> StiffnessPreset {
+        match self {
+            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => StiffnessPreset::AiscDirect,
+            SecondOrderMethod::AciMagnifier => StiffnessPreset::AciCracked,
+            SecondOrderMethod::Ec3AlphaCr => StiffnessPreset::Gross,
+        }
+    }
+}
+
+impl AnalysisOptions {
+    /// Give every setting whose origin is [`SettingOrigin::MethodDefault`] the value the
+    /// method calls for ([`SecondOrderMethod::default_stiffness`]; notional loads `auto`,
+    /// resolved per method by `check`). Call again after the method changes.
+    pub fn apply_method_defaults(&mut self) {
+        if self.origin.stiffness == SettingOrigin::MethodDefault {
+            self.stiffness = self.method.default_stiffness();
+        }
+        if self.origin.notional == SettingOrigin::MethodDefault {
+            self.notional = NotionalLoads::Auto;
+        }
+    }
 }
 
 impl Default for AnalysisOptions {
@@ -174,6 +228,7 @@ impl Default for AnalysisOptions {
             notional: NotionalLoads::Auto,
             segments: 4,
             beta_dns: 0.6,
+            origin: SettingOrigins::default(),
         }
     }
 }

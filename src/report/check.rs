@@ -128,11 +128,19 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
         "  elastic buckling: {buckling}; direct second-order analysis: {direct}\n"
     ));
     if c.notional.iter().any(|&n| n != 0.0) {
-        let list: Vec<String> = c.notional.iter().map(|&n| f(n)).collect();
+        let list = |v: &[f64]| v.iter().map(|&n| f(n)).collect::<Vec<String>>().join(", ");
         out.push_str(&format!(
             "  notional loads at story tops ({lf}): {}\n",
-            list.join(", ")
+            list(&c.notional)
         ));
+        // Each rule on its own line, so that no coefficient is raised silently.
+        if c.notional_terms.len() > 1 {
+            for t in &c.notional_terms {
+                out.push_str(&format!("    of which {}: {}\n", t.rule, list(&t.forces)));
+            }
+        } else if let Some(t) = c.notional_terms.first() {
+            out.push_str(&format!("    rule: {}\n", t.rule));
+        }
     }
     if !c.stable {
         out.push_str("  UNSTABLE: the loads exceed a critical load; no design values are given\n");
