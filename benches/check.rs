@@ -1,18 +1,34 @@
-//! Timing of the whole `check` job on invented regular frames of growing size.
+//! Timing and peak memory of the whole `check` job on invented regular frames.
 //!
-//! Run with `cargo bench --bench check` (or `cargo bench --bench check -- quick` for the
-//! smallest frame only). Each frame is generated from a model file written here: `bays` ×
-//! `stories`, fixed bases, dead, live and wind (two directions) load cases, the ASCE/SEI 7-16
-//! strength table, the AISC Appendix 8 method and notional loads. The program prints the
-//! size, the number of factored cases checked and the times of the stages. Timings are
-//! printed, never asserted.
+//! Run with `cargo bench --bench check`. Every frame is generated from a model file written
+//! here: `bays` × `stories`, 8 m bays, 4 m stories, fixed bases, dead, live and wind (both
+//! ways) load cases, the shipped ASCE/SEI 7-16 strength table and the AISC Appendix 8
+//! method with notional loads (each case: the no-sway/sway split, B1/B2 figures, the direct
+//! P-Δ/P-δ analysis and the elastic critical load factor α_cr). Timings are printed, never
+//! asserted.
+//!
+//! * `cargo bench --bench check` — the standard frames (10×25, 20×50, 20×100, 1×2000),
+//!   each run in its own process (so that its peak memory is its own), 3 runs each, median
+//!   time and largest peak printed; then the cases × time curve on the 20×50 frame and the
+//!   dense baseline.
+//! * `cargo bench --bench check -- quick` — one small frame.
+//! * `cargo bench --bench check -- frame BAYS STORIES [CASES]` — one run of one frame
+//!   (optionally only the first CASES factored cases), one line of figures.
+//! * `cargo bench --bench check -- dense` — the dense baseline only.
+//!
+//! Peak memory is the process's resident high-water mark (`VmHWM` in `/proc/self/status`,
+//! Linux); elsewhere it prints as 0.
 
+use std::process::Command;
 use std::time::Instant;
 
 use plumbline::check::check;
-use plumbline::combos::{expand, load_table};
+use plumbline::combos::{FactoredCase, expand, load_table};
 use plumbline::input::parse_model;
+use plumbline::model::Model;
+use plumbline::solve::first_order::FirstOrder;
 
+/// The model file of an invented `bays` × `stories` frame (illustrative sections).
 fn model_text(bays: usize, stories: usize) -> String {
     let list = |n: usize, v: f64| vec![format!("{v}"); n].join(", ");
     format!(
@@ -46,7 +62,7 @@ self_weight = true
 [[case.member_load]]
 members = "B*"
 kind = "uniform"
-direction = "down"
+direction = "{down}"
 w = 20
 [[case]]
 id = "L"
@@ -54,7 +70,7 @@ category = "live"
 [[case.member_load]]
 members = "B*"
 kind = "uniform"
-direction = "down"
+direction = "{down}"
 w = 10
 [[case]]
 id = "WL"
@@ -73,40 +89,192 @@ fx = -10
 "#,
         list(bays, 8.0),
         list(stories, 4.0),
-        bays + 1
+        bays + 1,
+        down = DOWN,
     )
 }
 
+/// The member-load direction key for gravity loads (renamed by issue 10 item 6).
+const DOWN: &str = "down";
+
+/// The model and its factored cases under the shipped ASCE/SEI 7-16 strength table.
+fn frame(bays: usize, stories: usize) -> (Model, Vec<FactoredCase>) {
+    let text = model_text(bays, stories);
+    let model = parse_model(&text, "bench.toml").expect("bench model parses");
+    let table = load_table("asce7-16-strength", None).expect("shipped table");
+    let cases = expand(&table, &model.load_cases, &Default::default())
+        .expect("expands")
+        .cases;
+    (model, cases)
+}
+
+/// Peak resident memory of this process, MB (Linux `VmHWM`; 0 elsewhere).
+fn peak_mb() -> f64 {
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| {
+            s.lines()
+                .find(|l| l.starts_with("VmHWM:"))
+                .and_then(|l| l.split_whitespace().nth(1))
+                .and_then(|v| v.parse::<f64>().ok())
+        })
+        .map_or(0.0, |kb| kb / 1024.0)
+}
+
+/// One run of one frame: prints `members cases checked time_ms peak_mb`.
+fn run_frame(bays: usize, stories: usize, limit: Option<usize>) {
+    let (model, mut cases) = frame(bays, stories);
+    if let Some(k) = limit {
+        cases.truncate(k);
+    }
+    let t = Instant::now();
+    let report = check(&model, &cases).expect("bench frame checks");
+    let ms = t.elapsed().as_secs_f64() * 1e3;
+    println!(
+        "{} {} {} {:.1} {:.1}",
+        model.members.len(),
+        cases.len(),
+        report.cases.len(),
+        ms,
+        peak_mb()
+    );
+}
+
+/// Figures of one child run.
+struct Run {
+    members: usize,
+    cases: usize,
+    checked: usize,
+    ms: f64,
+    mb: f64,
+}
+
+/// Run one frame in a child process (its own peak memory).
+fn child(bays: usize, stories: usize, limit: Option<usize>) -> Run {
+    let exe = std::env::current_exe().expect("own path");
+    let mut cmd = Command::new(exe);
+    cmd.args(["frame", &bays.to_string(), &stories.to_string()]);
+    if let Some(k) = limit {
+        cmd.arg(k.to_string());
+    }
+    let out = cmd.output().expect("child runs");
+    assert!(
+        out.status.success(),
+        "child failed: {}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let text = String::from_utf8_lossy(&out.stdout);
+    let v: Vec<f64> = text
+        .split_whitespace()
+        .map(|w| w.parse().expect("number"))
+        .collect();
+    Run {
+        members: v[0] as usize,
+        cases: v[1] as usize,
+        checked: v[2] as usize,
+        ms: v[3],
+        mb: v[4],
+    }
+}
+
+/// Median of `runs` children of one frame.
+fn measured(bays: usize, stories: usize, limit: Option<usize>, runs: usize) -> (Run, Vec<f64>) {
+    let all: Vec<Run> = (0..runs).map(|_| child(bays, stories, limit)).collect();
+    let mut times: Vec<f64> = all.iter().map(|r| r.ms).collect();
+    times.sort_by(f64::total_cmp);
+    let mb = all.iter().map(|r| r.mb).fold(0.0, f64::max);
+    let first = &all[0];
+    (
+        Run {
+            ms: times[times.len() / 2],
+            mb,
+            ..*first
+        },
+        times,
+    )
+}
+
+/// Skyline LDLᵀ against nalgebra's dense Cholesky on the free frame's first-order stiffness.
+fn dense_baseline(sizes: &[(usize, usize)]) {
+    println!("\ndense baseline: one factorization of the free frame's stiffness");
+    println!("frame        equations   skyline (ms)   dense Cholesky (ms)   ratio");
+    for &(bays, stories) in sizes {
+        let (model, _) = frame(bays, stories);
+        let first = FirstOrder::new(&model, &[]).expect("frame factors");
+        let matrix = &first.system.matrix;
+        let t = Instant::now();
+        let reps = 20;
+        for _ in 0..reps {
+            std::hint::black_box(matrix.factor().expect("factors"));
+        }
+        let sky = t.elapsed().as_secs_f64() * 1e3 / reps as f64;
+        let dense = matrix.to_dense();
+        let t = Instant::now();
+        let chol = dense.cholesky().expect("positive definite");
+        let dense_ms = t.elapsed().as_secs_f64() * 1e3;
+        std::hint::black_box(chol);
+        println!(
+            "{:>3} x {:<6} {:>10} {:>14.2} {:>21.1} {:>7.0}",
+            bays,
+            stories,
+            matrix.n(),
+            sky,
+            dense_ms,
+            dense_ms / sky
+        );
+    }
+}
+
 fn main() {
-    let quick = std::env::args().any(|a| a == "quick");
+    let args: Vec<String> = std::env::args().skip(1).collect();
+    let num = |k: usize| args.get(k).and_then(|s| s.parse::<usize>().ok());
+    if let Some(at) = args.iter().position(|a| a == "frame") {
+        let (b, s) = (num(at + 1).expect("BAYS"), num(at + 2).expect("STORIES"));
+        run_frame(b, s, num(at + 3));
+        return;
+    }
+    if args.iter().any(|a| a == "dense") {
+        dense_baseline(&[(10, 25), (20, 50), (20, 100), (1, 1000)]);
+        return;
+    }
+    let quick = args.iter().any(|a| a == "quick");
     let sizes: &[(usize, usize)] = if quick {
         &[(3, 8)]
     } else {
-        &[(3, 8), (8, 25), (10, 50), (20, 50)]
+        &[(3, 8), (10, 25), (20, 50), (20, 100), (1, 2000)]
     };
-    println!("bays x stories   members   cases   parse (ms)   check (ms)   per case (ms)");
+    let runs = if quick { 1 } else { 3 };
+    println!("whole check, ASCE/SEI 7-16 strength table, AISC App. 8 with notional loads");
+    println!("median of {runs} runs (wall clock), peak = largest resident high-water mark");
+    println!("frame        members   cases   checked   time (ms)   peak (MB)   runs (ms)");
     for &(bays, stories) in sizes {
-        let text = model_text(bays, stories);
-        let t0 = Instant::now();
-        let model = parse_model(&text, "bench.toml").expect("bench model parses");
-        let t_parse = t0.elapsed();
-        let table = load_table("asce7-16-strength", None).expect("shipped table");
-        let cases = expand(&table, &model.load_cases, &Default::default())
-            .expect("expands")
-            .cases;
-        let t1 = Instant::now();
-        let report = check(&model, &cases).expect("bench frame checks");
-        let t_check = t1.elapsed();
-        let n = report.cases.len();
+        let (r, times) = measured(bays, stories, None, runs);
         println!(
-            "{:>4} x {:<9} {:>9} {:>7} {:>12.1} {:>12.1} {:>15.1}",
+            "{:>3} x {:<6} {:>9} {:>7} {:>9} {:>11.0} {:>11.0}   {:?}",
             bays,
             stories,
-            model.members.len(),
-            n,
-            t_parse.as_secs_f64() * 1e3,
-            t_check.as_secs_f64() * 1e3,
-            t_check.as_secs_f64() * 1e3 / n as f64
+            r.members,
+            r.cases,
+            r.checked,
+            r.ms,
+            r.mb,
+            times.iter().map(|t| t.round()).collect::<Vec<_>>()
         );
     }
+    if quick {
+        return;
+    }
+    println!("\ncases x time on the 20 x 50 frame (first k factored cases)");
+    println!("cases   checked   time (ms)");
+    for k in [3, 6, 12, 24] {
+        let (r, _) = measured(20, 50, Some(k), runs);
+        println!("{:>5} {:>9} {:>11.0}", r.cases, r.checked, r.ms);
+    }
+    println!("\nmembers x time, 20 bays (all factored cases)");
+    println!("stories   members   time (ms)   peak (MB)");
+    for s in [10, 25, 50, 75, 100] {
+        let (r, _) = measured(20, s, None, runs);
+        println!("{:>7} {:>9} {:>11.0} {:>11.0}", s, r.members, r.ms, r.mb);
+    }
+    dense_baseline(&[(10, 25), (20, 50), (20, 100), (1, 1000)]);
 }

@@ -176,6 +176,8 @@ pub struct CheckArgs {
     /// Add the per-case detail to the summary (text and Markdown; JSON and CSV always
     /// carry it).
     pub detail: bool,
+    /// Add the approximate check (hand methods beside the stiffness solution).
+    pub approximate: bool,
 }
 
 /// Exit status of the program (documented in the README, "Exit status").
@@ -279,6 +281,8 @@ pub struct CheckRun {
     pub settings: Vec<Setting>,
     pub selection: Selection,
     pub envelope: Envelope,
+    /// The approximate check of the same cases, when asked for.
+    pub approximate: Option<crate::approx::ApproxReport>,
 }
 
 impl CheckRun {
@@ -513,6 +517,22 @@ pub fn run_check(
     };
     let settings = settings(&model, model_path, &table, args, &cli_params);
     let envelope = crate::envelope::envelope(&report);
+    let approximate = if args.approximate {
+        let th = crate::approx::Thresholds::default();
+        Some(
+            crate::approx::approximate_check(&model, &cases, &th).map_err(|e| {
+                analysis(
+                    model_path,
+                    match e {
+                        crate::approx::ApproxError::Stories(s) => CheckError::Stories(s),
+                        crate::approx::ApproxError::System(s) => CheckError::System(s),
+                    },
+                )
+            })?,
+        )
+    } else {
+        None
+    };
     Ok(CheckRun {
         model_file: model_path.display().to_string(),
         model_sha256: sha256_hex(&bytes),
@@ -523,6 +543,7 @@ pub fn run_check(
         settings,
         selection,
         envelope,
+        approximate,
     })
 }
 
@@ -558,7 +579,7 @@ impl Rendered {
 /// Markdown).
 pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
     let s = run.summary();
-    match format {
+    let rendered = match format {
         CheckFormat::Table => {
             let mut text = summary::text(&s);
             if detail {
@@ -582,7 +603,49 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
         CheckFormat::Csv => Rendered {
             files: summary::csv_files(&s),
         },
+    };
+    match &run.approximate {
+        Some(a) => with_approximate(&run.model, a, format, rendered),
+        None => rendered,
     }
+}
+
+/// `rendered` with the approximate check added: a section after the text and Markdown, an
+/// `approximate` key in the JSON document, an `approximate.csv` file.
+fn with_approximate(
+    model: &Model,
+    a: &crate::approx::ApproxReport,
+    format: CheckFormat,
+    mut rendered: Rendered,
+) -> Rendered {
+    use crate::report::approx;
+    match (format, rendered.files.as_mut_slice()) {
+        (CheckFormat::Table, [(_, text)]) => {
+            text.push('\n');
+            text.push_str(&approx::render_text(model, a));
+        }
+        (CheckFormat::Md, [(_, text)]) => {
+            text.push_str(&format!(
+                "\n## Approximate check\n\n```text\n{}```\n",
+                approx::render_text(model, a)
+            ));
+        }
+        (CheckFormat::Json, [(_, text)]) => {
+            if let Ok(serde_json::Value::Object(mut doc)) =
+                serde_json::from_str::<serde_json::Value>(text)
+            {
+                doc.insert("approximate".into(), approx::to_json(a));
+                if let Ok(t) = serde_json::to_string_pretty(&doc) {
+                    *text = t + "\n";
+                }
+            }
+        }
+        _ => rendered.files.push((
+            "approximate.csv".into(),
+            summary::csv_text(&approx::table(model, a)),
+        )),
+    }
+    rendered
 }
 
 /// `plumbline check MODEL`: every factored case with and without sway, amplified for

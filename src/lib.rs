@@ -5,7 +5,7 @@
 //! [`input`] (model file) → [`model`] (validated frame and load cases) → [`arrange`] (live-load arrangements) → [`combos`]
 //! (factored cases from a combination table) → [`solve`] (first-order, no-sway/sway,
 //! second-order and buckling solutions) → [`check`] (amplification and story
-//! classification) → [`envelope`] (governing moments over the cases) → [`report`]
+//! classification) → [`approx`] (approximate hand-method check, on request) → [`envelope`] (governing moments over the cases) → [`report`]
 //! (tables, CSV and JSON) → [`app`] (the commands).
 //!
 //! Results assist a licensed engineer; local codes and the adopted edition of each
@@ -21,6 +21,7 @@ design belongs to a licensed engineer under the local building code, and the ado
 of each standard governs.";
 
 pub mod app;
+pub mod approx;
 pub mod arrange;
 pub mod check;
 pub mod combos;

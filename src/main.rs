@@ -131,6 +131,7 @@ impl RunCli {
             case: self.case,
             format,
             detail,
+            ..Default::default()
         };
         (self.model, args)
     }
@@ -147,6 +148,11 @@ struct CheckCli {
     /// csv: one file per table (-o DIR writes them into DIR); md: a calculation-package page.
     #[arg(long, value_enum, default_value_t)]
     format: CheckFormat,
+    /// Also estimate every member's first-order moments by the hand methods (beams with
+    /// inflection points at 0.1 L, columns by joint unbalance, portal method for lateral
+    /// load) beside the computed ones, and flag members far off.
+    #[arg(long)]
+    approximate: bool,
     #[command(flatten)]
     out: Output,
 }
@@ -236,7 +242,8 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         ),
         Command::Combos(a) => text(app::combos(a.table.as_deref())?, None),
         Command::Check(a) => {
-            let (model, args) = a.run.args(a.format, a.detail);
+            let (model, mut args) = a.run.args(a.format, a.detail);
+            args.approximate = a.approximate;
             let (rendered, unstable) =
                 app::check_output_status(&model, &args, &mut progress_bar())?;
             Done {

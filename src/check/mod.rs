@@ -173,10 +173,11 @@ pub fn check_with_progress(
         second: &second,
         stiffness: &stiffness,
     };
+    // Factored cases are independent: every core, results in the order of `cases`.
     let mut out = Vec::new();
-    for (k, fc) in cases.iter().enumerate() {
-        out.extend(ctx.case(fc, &parts)?);
-        progress(k + 1, cases.len());
+    let checked = crate::solve::parallel::map_in_order(cases, |fc| ctx.case(fc, &parts), progress);
+    for c in checked {
+        out.extend(c?);
     }
     Ok(CheckReport {
         title: model.title.clone(),

@@ -21,7 +21,7 @@ use serde::Serialize;
 use super::{aci, aisc, ec3};
 use crate::model::{Model, Restraint, SecondOrderMethod};
 use crate::solve::Solution;
-use crate::solve::sway::{SwaySplit, mean_ux};
+use crate::solve::sway::{SwaySplit, mean_x};
 use crate::stories::Story;
 
 /// Verdict for one story.
@@ -110,10 +110,15 @@ pub struct StoryFlexibility {
 impl StoryFlexibility {
     /// From the unit level solutions of `split`.
     pub fn new(stories: &[Story], split: &SwaySplit) -> StoryFlexibility {
-        let drift = stories
-            .iter()
-            .map(|st| split.unit.iter().map(|u| story_drift(st, u)).collect())
-            .collect();
+        // One unit solve per level (displacements only, not kept).
+        let nl = split.level_nodes.len();
+        let mut drift = vec![vec![0.0; nl]; stories.len()];
+        for l in 0..nl {
+            let u = split.unit_displacements(l);
+            for (row, st) in drift.iter_mut().zip(stories) {
+                row[l] = drift_of(st, &u);
+            }
+        }
         let held = split.level_nodes.iter().map(Vec::is_empty).collect();
         StoryFlexibility { drift, held }
     }
@@ -356,7 +361,13 @@ pub fn loaded_columns(model: &Model, story: &Story, s: &Solution) -> usize {
 /// Interstory drift of story `st` in `s`: mean X translation of its top nodes less that of
 /// its bottom nodes, m.
 pub fn story_drift(st: &Story, s: &Solution) -> f64 {
-    mean_ux(s, &st.top_nodes) - mean_ux(s, &st.bottom_nodes)
+    drift_of(st, &s.displacements)
+}
+
+/// Interstory drift of `st` from node displacements `u` (mean X translation of its top
+/// level less that of its bottom level), m.
+pub fn drift_of(st: &Story, u: &[[f64; 3]]) -> f64 {
+    mean_x(u, &st.top_nodes) - mean_x(u, &st.bottom_nodes)
 }
 
 /// Story figures before classification. `level_forces` are the case's net lateral forces

@@ -776,11 +776,18 @@ fn analysis(
         ));
     }
     if let Some(s) = &a.segments {
-        if *s.get_ref() < 1 || *s.get_ref() > 1000 {
+        // Fewer than 2 elements per member lose P-δ (issue 7 item 6): refused.
+        let min = crate::solve::second_order::MIN_SEGMENTS as i64;
+        if *s.get_ref() < min || *s.get_ref() > 1000 {
             return Err(ctx.err(
                 s.span(),
                 "analysis.segments",
-                format!("expected an integer from 1 to 1000, got {}", s.get_ref()),
+                format!(
+                    "expected an integer from {min} to 1000, got {}: with fewer than {min} \
+                     elements per member the second-order analysis loses the P-δ effect of \
+                     each member's own curvature",
+                    s.get_ref()
+                ),
             ));
         }
         out.segments = *s.get_ref() as usize;

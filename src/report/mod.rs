@@ -3,6 +3,7 @@
 //!
 //! Every report carries [`CAUTION`].
 
+pub mod approx;
 pub mod check;
 pub mod diagram;
 pub mod html;

@@ -442,8 +442,82 @@ fn quadratic_roots_in(c0: f64, c1: f64, c2: f64, h: f64) -> Vec<f64> {
 /// inside the member), both sides of every breakpoint (a concentrated moment makes M jump)
 /// and the zeros of V.
 pub fn span_extremes(length: f64, end: &EndForces, loads: &[LocalLoad]) -> SpanExtremes {
-    let m_at = |x: f64, side: Side| internal_forces_at(x, side, end, loads).m;
-    let v_at = |x: f64, side: Side| internal_forces_at(x, side, end, loads).v;
+    moment_extremes(length, end, loads, None)
+}
+
+/// The P-δ part of an element's bending moment in a second-order analysis.
+///
+/// Moment equilibrium of the deformed part `0..x` of an element adds the moment of the
+/// axial force about the displaced section: `M(x) = M₁(x) + N·(v(x) − v_i)`, with M₁ the
+/// statics of [`internal_forces_at`] on the element's end actions, N the axial force of its
+/// geometric stiffness (tension positive) and v(x) its transverse displacement (local y).
+/// v(x) is the element's own cubic (Hermite) shape, the one its consistent geometric
+/// stiffness is built from (McGuire, Gallagher & Ziemian, *Matrix Structural Analysis*,
+/// 2nd ed. (2000), §9.3, from memory). With those end actions the consistent geometric
+/// stiffness satisfies `Mz_i + Mz_j + Fy_j·L = N·(v_j − v_i)` (closed form, summing its
+/// rows), so `M(L)` equals the end moment `Mz_j` and the diagram is continuous from
+/// element to element.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct PDelta {
+    /// Axial force of the geometric stiffness, N, tension positive.
+    pub n: f64,
+    /// Element length, m.
+    pub length: f64,
+    /// Local `[v_i, θ_i, v_j, θ_j]` (m, rad) of the element's ends.
+    pub ends: [f64; 4],
+}
+
+impl PDelta {
+    /// `(v(x) − v_i, v'(x))` of the Hermite cubic.
+    fn shape(&self, x: f64) -> (f64, f64) {
+        let l = self.length;
+        let [v_i, t_i, v_j, t_j] = self.ends;
+        let xi = x / l;
+        let (xi2, xi3) = (xi * xi, xi * xi * xi);
+        let v = (-3.0 * xi2 + 2.0 * xi3) * v_i
+            + l * (xi - 2.0 * xi2 + xi3) * t_i
+            + (3.0 * xi2 - 2.0 * xi3) * v_j
+            + l * (-xi2 + xi3) * t_j;
+        let dv = (-6.0 * xi + 6.0 * xi2) / l * v_i
+            + (1.0 - 4.0 * xi + 3.0 * xi2) * t_i
+            + (6.0 * xi - 6.0 * xi2) / l * v_j
+            + (-2.0 * xi + 3.0 * xi2) * t_j;
+        (v, dv)
+    }
+
+    /// The moment `N·(v(x) − v_i)` and its derivative.
+    pub fn moment(&self, x: f64) -> (f64, f64) {
+        let (v, dv) = self.shape(x);
+        (self.n * v, self.n * dv)
+    }
+}
+
+/// Bending moment at `x` ([`internal_forces_at`]) plus the P-δ part `p_delta`, if any.
+pub fn moment_at(
+    x: f64,
+    side: Side,
+    end: &EndForces,
+    loads: &[LocalLoad],
+    p_delta: Option<&PDelta>,
+) -> f64 {
+    internal_forces_at(x, side, end, loads).m + p_delta.map_or(0.0, |p| p.moment(x).0)
+}
+
+/// Exact maximum and minimum of [`moment_at`] along an element, with their positions.
+///
+/// As [`span_extremes`]: dM/dx is the shear plus `N·v'(x)`, both polynomials of degree ≤ 2
+/// between breakpoints, so the quadratic through three values of dM/dx on each piece is
+/// exact and its zeros are found in closed form.
+pub fn moment_extremes(
+    length: f64,
+    end: &EndForces,
+    loads: &[LocalLoad],
+    p_delta: Option<&PDelta>,
+) -> SpanExtremes {
+    let m_at = |x: f64, side: Side| moment_at(x, side, end, loads, p_delta);
+    let v_at = |x: f64, side: Side| {
+        internal_forces_at(x, side, end, loads).v + p_delta.map_or(0.0, |p| p.moment(x).1)
+    };
     let bps = breakpoints(length, loads);
     let mut cands: Vec<(f64, f64)> = vec![(0.0, m_at(0.0, Side::Right))];
     for w in bps.windows(2) {
@@ -453,7 +527,7 @@ pub fn span_extremes(length: f64, end: &EndForces, loads: &[LocalLoad]) -> SpanE
             continue;
         }
         cands.push((x0, m_at(x0, Side::Right)));
-        // V(x0 + t) = c0 + c1·t + c2·t² through (0, v0), (h/2, vm), (h, v1).
+        // dM/dx(x0 + t) = c0 + c1·t + c2·t² through (0, v0), (h/2, vm), (h, v1).
         let (v0, vm, v1) = (
             v_at(x0, Side::Right),
             v_at(x0 + 0.5 * h, Side::Left),

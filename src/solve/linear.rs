@@ -8,9 +8,7 @@ use super::beam::{Side, fixed_end_forces, internal_forces_at, split_loads};
 use super::element::transformation;
 use super::forces::EndForces;
 use super::mesh::Mesh;
-use super::system::{
-    Direction, Dof, FreeDirection, System, SystemError, element_equations, element_matrices,
-};
+use super::system::{Direction, Dof, FreeDirection, System, SystemError, element_matrices};
 use crate::model::{LocalLoad, Model};
 
 /// Loads applied to a mesh: nodal forces (global axes) and element loads (local axes).
@@ -150,40 +148,15 @@ pub fn respond(
     system: &System,
     loads: &MeshLoads,
 ) -> Result<Response, SystemError> {
-    let n = system.n;
-    let mut f = vec![0.0; n];
-    // Unresisted loads on idle rotations make the frame a mechanism for this load.
-    let mut idle_loaded = Vec::new();
-    for (node, p) in loads.nodal.iter().enumerate() {
-        for (d, (&dof, &pd)) in system.dofs[node].iter().zip(p).enumerate() {
-            match dof {
-                Dof::Free(q) | Dof::Spring(q, _) => f[q] += pd,
-                Dof::Idle if pd != 0.0 => idle_loaded.push(FreeDirection {
-                    node,
-                    direction: Direction::ALL[d],
-                    place: mesh.describe_node(model, node),
-                }),
-                _ => {}
+    let axial = system.axial.as_deref();
+    let p = equivalent_nodal_loads(model, mesh, &system.dofs, axial, loads)?;
+    let mut f = vec![0.0; system.n];
+    for (node, d) in system.dofs.iter().enumerate() {
+        for k in 0..3 {
+            if let Some(q) = d[k].equation() {
+                f[q] += p[node][k];
             }
         }
-    }
-    if !idle_loaded.is_empty() {
-        return Err(SystemError::Mechanism(idle_loaded));
-    }
-    // Condensed fixed-end actions of every element; their negatives load the nodes.
-    let mut fixed = Vec::with_capacity(mesh.elements.len());
-    for (ie, e) in mesh.elements.iter().enumerate() {
-        let f0 = Vector6::from(fixed_end_forces(e.length, &loads.element[ie]).to_array());
-        let axial = system.axial.as_ref().map(|a| a[ie]);
-        let (kl, fl) = element_matrices(e, axial, &f0);
-        let t = transformation(e.c, e.s);
-        let fg = t.transpose() * fl;
-        for (r, q) in element_equations(&system.dofs, e).iter().enumerate() {
-            if let Some(q) = q {
-                f[*q] -= fg[r];
-            }
-        }
-        fixed.push((kl, fl, t));
     }
     let u = system.solve(&f);
     let displacements: Vec<[f64; 3]> = system
@@ -194,10 +167,72 @@ pub fn respond(
             [g(0), g(1), g(2)]
         })
         .collect();
+    Ok(recover(mesh, &system.dofs, axial, loads, displacements))
+}
+
+/// The nodal loads (global axes, per mesh node) equivalent to `loads`: the applied nodal
+/// forces less every element's condensed fixed-end actions, for element stiffness with
+/// the axial forces `axial` (geometric stiffness) if given.
+///
+/// A load on a rotation that nothing resists ([`Dof::Idle`]) makes the frame a mechanism
+/// for this load: an error naming the node.
+pub fn equivalent_nodal_loads(
+    model: &Model,
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    axial: Option<&[f64]>,
+    loads: &MeshLoads,
+) -> Result<Vec<[f64; 3]>, SystemError> {
+    let mut p = loads.nodal.clone();
+    // Unresisted loads on idle rotations make the frame a mechanism for this load.
+    let mut idle_loaded = Vec::new();
+    for (node, load) in loads.nodal.iter().enumerate() {
+        for (d, (&dof, &pd)) in dofs[node].iter().zip(load).enumerate() {
+            if dof == Dof::Idle && pd != 0.0 {
+                idle_loaded.push(FreeDirection {
+                    node,
+                    direction: Direction::ALL[d],
+                    place: mesh.describe_node(model, node),
+                });
+            }
+        }
+    }
+    if !idle_loaded.is_empty() {
+        return Err(SystemError::Mechanism(idle_loaded));
+    }
+    // Condensed fixed-end actions of every element; their negatives load the nodes.
+    for (ie, e) in mesh.elements.iter().enumerate() {
+        if loads.element[ie].is_empty() {
+            continue;
+        }
+        let f0 = Vector6::from(fixed_end_forces(e.length, &loads.element[ie]).to_array());
+        let (_, fl) = element_matrices(e, axial.map(|a| a[ie]), &f0);
+        let fg = transformation(e.c, e.s).transpose() * fl;
+        for k in 0..3 {
+            p[e.i][k] -= fg[k];
+            p[e.j][k] -= fg[3 + k];
+        }
+    }
+    Ok(p)
+}
+
+/// Element end actions, reactions and the equilibrium residual from the displacements of
+/// every mesh node (global axes), for element stiffness with the axial forces `axial`
+/// (geometric stiffness) if given. `dofs` tells supports, springs and free directions.
+pub fn recover(
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    axial: Option<&[f64]>,
+    loads: &MeshLoads,
+    displacements: Vec<[f64; 3]>,
+) -> Response {
     // Element end actions and the forces they put on the nodes.
     let mut on_nodes = vec![[0.0; 3]; mesh.nodes.len()];
     let mut element_forces = Vec::with_capacity(mesh.elements.len());
-    for (e, (kl, fl, t)) in mesh.elements.iter().zip(&fixed) {
+    for (ie, e) in mesh.elements.iter().enumerate() {
+        let f0 = Vector6::from(fixed_end_forces(e.length, &loads.element[ie]).to_array());
+        let (kl, fl) = element_matrices(e, axial.map(|a| a[ie]), &f0);
+        let t = transformation(e.c, e.s);
         let (a, b) = (displacements[e.i], displacements[e.j]);
         let ug = Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
         let end = kl * (t * ug) + fl;
@@ -211,13 +246,13 @@ pub fn respond(
     // Node balance: applied + reaction = Σ element end actions (global).
     let mut reactions = vec![[0.0; 3]; mesh.nodes.len()];
     let mut nodal = vec![[0.0; 3]; mesh.nodes.len()];
-    for (node, d) in system.dofs.iter().enumerate() {
+    for (node, d) in dofs.iter().enumerate() {
         for k in 0..3 {
             let out_of_balance = on_nodes[node][k] - loads.nodal[node][k];
             match d[k] {
                 Dof::Held => reactions[node][k] = out_of_balance,
-                Dof::Spring(q, ks) => {
-                    reactions[node][k] = -ks * u[q];
+                Dof::Spring(_, ks) => {
+                    reactions[node][k] = -ks * displacements[node][k];
                     nodal[node][k] = reactions[node][k] - out_of_balance;
                 }
                 Dof::Free(_) | Dof::Idle => nodal[node][k] = -out_of_balance,
@@ -241,7 +276,7 @@ pub fn respond(
             px.hypot(py)
         }))
         .fold(0.0, f64::max);
-    Ok(Response {
+    Response {
         displacements,
         element_forces,
         reactions,
@@ -251,5 +286,5 @@ pub fn respond(
             nodal,
             applied,
         },
-    })
+    }
 }

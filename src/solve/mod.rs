@@ -12,6 +12,7 @@ pub mod forces;
 pub mod linear;
 pub mod mesh;
 pub mod ordering;
+pub mod parallel;
 pub mod second_order;
 pub mod skyline;
 pub mod sway;

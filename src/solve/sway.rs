@@ -12,13 +12,15 @@
 //! Everything rests on one factorization of the free frame: a load's free solution `F`,
 //! the unit solutions `U_l` (a unit X force shared equally by the nodes of level l), and
 //! the small system `Σ_m A_lm·λ_m = −ū_l(F)` with `A_lm` the mean X translation of level l
-//! under `U_m`. Then no-sway = `F + Σ λ_m·U_m` and sway = `−Σ λ_m·U_m`.
+//! under `U_m`. Then no-sway = `F + Σ λ_m·U_m` and sway = `−Σ λ_m·U_m`. Only `A` is kept
+//! (factored once); `Σ λ_m·U_m` is solved as one load vector when needed.
 
 use nalgebra::{DMatrix, DVector};
 use serde::Serialize;
 
 use super::first_order::{FirstOrder, Solution};
-use super::linear::MeshLoads;
+use super::linear::{MeshLoads, recover};
+use super::mesh::Mesh;
 use super::system::SystemError;
 use crate::model::{Model, Restraint};
 use crate::stories::Story;
@@ -63,22 +65,25 @@ impl SwayParts {
     }
 }
 
-/// The factored free frame and the unit level solutions of the split.
+/// The factored free frame and the level flexibility of the split.
+///
+/// Memory grows linearly with the frame plus one row of the level flexibility per level:
+/// the unit level solutions are not kept, only their mean level translations. A lateral
+/// load at the levels is solved on the free frame's factorization when asked for.
 #[derive(Debug, Clone)]
 pub struct SwaySplit {
     pub free: FirstOrder,
     /// Per story: the nodes of its top level that the split holds (those not held in X by
     /// a support). Empty for a level the supports already hold.
     pub level_nodes: Vec<Vec<usize>>,
-    /// Per story: the free frame under a unit X force (1 N) shared equally by its level
-    /// nodes.
-    pub unit: Vec<Solution>,
-    /// `A_lm`: mean X translation of level l under `unit[m]`.
-    flexibility: DMatrix<f64>,
+    /// `A_lm`: mean X translation of level l under a unit X force (1 N) shared equally by
+    /// the nodes of level m, LU-factored once.
+    flexibility: nalgebra::LU<f64, nalgebra::Dyn, nalgebra::Dyn>,
 }
 
 impl SwaySplit {
-    /// Factor the free frame of `model` and solve the unit level loads of `stories`.
+    /// Factor the free frame of `model` and find the level flexibility of `stories`: one
+    /// solve per level on the free frame's factorization.
     pub fn new(model: &Model, stories: &[Story]) -> Result<SwaySplit, SystemError> {
         let free = FirstOrder::new(model, &[])?;
         let held_by_support = |n: usize| {
@@ -98,20 +103,18 @@ impl SwaySplit {
                 }
             })
             .collect();
-        let mut unit = Vec::with_capacity(stories.len());
-        for nodes in &level_nodes {
-            let mut loads = MeshLoads::zero(&free.mesh);
-            for &n in nodes {
-                loads.add_nodal(n, [1.0 / nodes.len() as f64, 0.0, 0.0]);
-            }
-            unit.push(free.solve_loads(model, &loads)?);
-        }
         let nl = stories.len();
         let mut flexibility = DMatrix::zeros(nl, nl);
-        for l in 0..nl {
-            for m in 0..nl {
-                flexibility[(l, m)] = mean_ux(&unit[m], &level_nodes[l]);
+        for m in 0..nl {
+            let mut h = vec![0.0; nl];
+            h[m] = 1.0;
+            let u = level_displacements(&free, &level_nodes, &h);
+            // (the same solve as `unit_displacements`, before `self` exists)
+            for l in 0..nl {
+                flexibility[(l, m)] = mean_x(&u, &level_nodes[l]);
             }
+        }
+        for l in 0..nl {
             if level_nodes[l].is_empty() {
                 flexibility[(l, l)] = 1.0;
             }
@@ -119,8 +122,7 @@ impl SwaySplit {
         Ok(SwaySplit {
             free,
             level_nodes,
-            unit,
-            flexibility,
+            flexibility: flexibility.lu(),
         })
     }
 
@@ -138,8 +140,6 @@ impl SwaySplit {
         );
         let holding: Vec<f64> = self
             .flexibility
-            .clone()
-            .lu()
             .solve(&ubar)
             .map(|v| v.iter().copied().collect())
             .unwrap_or_else(|| vec![0.0; self.level_nodes.len()]);
@@ -159,16 +159,68 @@ impl SwaySplit {
         self.split(model, &loads)
     }
 
+    /// Node displacements of the free frame under a unit X force (1 N) at level `l`, shared
+    /// equally by its nodes (one solve; nothing is stored).
+    pub fn unit_displacements(&self, l: usize) -> Vec<[f64; 3]> {
+        let mut h = vec![0.0; self.level_nodes.len()];
+        h[l] = 1.0;
+        level_displacements(&self.free, &self.level_nodes, &h)
+    }
+
     /// The free frame under lateral forces `h[l]` (N, +X) at the story levels, each shared
-    /// equally among the level's nodes.
+    /// equally among the level's nodes (one solve on the free frame's factorization).
     pub fn lateral(&self, h: &[f64]) -> Solution {
-        let mut out = Solution::zero_like(&self.unit[0]);
-        for (u, &f) in self.unit.iter().zip(h) {
-            out.add_scaled(f, u);
-        }
+        let mesh = &self.free.mesh;
+        let loads = level_loads(mesh, &self.level_nodes, h);
+        let system = &self.free.system;
+        let u = level_displacements(&self.free, &self.level_nodes, h);
+        let r = recover(mesh, &system.dofs, None, &loads, u);
+        let mut out = Solution::from_response(mesh, &r);
         out.residual = Default::default();
         out
     }
+}
+
+/// Nodal loads of lateral forces `h[l]` at the levels, each shared equally among the
+/// level's nodes.
+fn level_loads(mesh: &Mesh, level_nodes: &[Vec<usize>], h: &[f64]) -> MeshLoads {
+    let mut loads = MeshLoads::zero(mesh);
+    for (nodes, &f) in level_nodes.iter().zip(h) {
+        for &n in nodes {
+            loads.add_nodal(n, [f / nodes.len() as f64, 0.0, 0.0]);
+        }
+    }
+    loads
+}
+
+/// Displacements of every node of the free frame under lateral forces `h[l]` at the levels.
+fn level_displacements(free: &FirstOrder, level_nodes: &[Vec<usize>], h: &[f64]) -> Vec<[f64; 3]> {
+    let system = &free.system;
+    let mut f = vec![0.0; system.n];
+    for (nodes, &hl) in level_nodes.iter().zip(h) {
+        for &n in nodes {
+            if let Some(q) = system.dofs[n][0].equation() {
+                f[q] += hl / nodes.len() as f64;
+            }
+        }
+    }
+    let u = system.solve(&f);
+    system
+        .dofs
+        .iter()
+        .map(|d| {
+            let g = |k: usize| d[k].equation().map_or(0.0, |q| u[q]);
+            [g(0), g(1), g(2)]
+        })
+        .collect()
+}
+
+/// Mean X translation of `nodes` in the node displacements `u` (0 for no nodes), m.
+pub fn mean_x(u: &[[f64; 3]], nodes: &[usize]) -> f64 {
+    if nodes.is_empty() {
+        return 0.0;
+    }
+    nodes.iter().map(|&n| u[n][0]).sum::<f64>() / nodes.len() as f64
 }
 
 /// Mean X translation of `nodes` in `s` (0 for no nodes), m.
@@ -176,5 +228,5 @@ pub fn mean_ux(s: &Solution, nodes: &[usize]) -> f64 {
     if nodes.is_empty() {
         return 0.0;
     }
-    nodes.iter().map(|&n| s.displacements[n][0]).sum::<f64>() / nodes.len() as f64
+    mean_x(&s.displacements, nodes)
 }

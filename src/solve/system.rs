@@ -179,22 +179,14 @@ impl System {
     ) -> Result<System, SystemError> {
         let (dofs, n) = number_dofs(mesh, restraints);
         let matrix = assemble(mesh, &dofs, n, axial);
-        match matrix.factor() {
-            Ok(factor) => Ok(System {
-                dofs,
-                n,
-                axial: axial.map(<[f64]>::to_vec),
-                matrix,
-                factor,
-            }),
-            Err(err) => {
-                let free = locate_free(mesh, model, &dofs, n, axial, err);
-                Err(match axial {
-                    None => SystemError::Mechanism(free),
-                    Some(_) => SystemError::Unstable(free),
-                })
-            }
-        }
+        let factor = factor_or_locate(model, mesh, &dofs, &matrix, axial.is_some())?;
+        Ok(System {
+            dofs,
+            n,
+            axial: axial.map(<[f64]>::to_vec),
+            matrix,
+            factor,
+        })
     }
 
     /// Solve `K·u = f` for one load vector (length `n`).
@@ -219,6 +211,21 @@ pub fn element_equations(dofs: &[[Dof; 3]], e: &super::mesh::Element) -> [Option
 }
 
 fn assemble(mesh: &Mesh, dofs: &[[Dof; 3]], n: usize, axial: Option<&[f64]>) -> SkylineMatrix {
+    assemble_with(mesh, dofs, n, |ie, e| {
+        let (kl, _) = element_matrices(e, axial.map(|a| a[ie]), &Vector6::zeros());
+        let t = transformation(e.c, e.s);
+        t.transpose() * kl * t
+    })
+}
+
+/// Assemble `K` on the skyline profile of `mesh` from each element's stiffness in global
+/// axes, `global(index, element)`, plus the support springs of `dofs`.
+pub fn assemble_with(
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    n: usize,
+    global: impl Fn(usize, &super::mesh::Element) -> Matrix6<f64>,
+) -> SkylineMatrix {
     // Profile: first equation coupled to each equation.
     let mut first_row: Vec<usize> = (0..n).collect();
     for e in &mesh.elements {
@@ -232,9 +239,7 @@ fn assemble(mesh: &Mesh, dofs: &[[Dof; 3]], n: usize, axial: Option<&[f64]>) -> 
     }
     let mut k = SkylineMatrix::new(first_row);
     for (ie, e) in mesh.elements.iter().enumerate() {
-        let (kl, _) = element_matrices(e, axial.map(|a| a[ie]), &Vector6::zeros());
-        let t = transformation(e.c, e.s);
-        let kg = t.transpose() * kl * t;
+        let kg = global(ie, e);
         let eqs = element_equations(dofs, e);
         for (r, er) in eqs.iter().enumerate() {
             let Some(er) = *er else { continue };
@@ -254,6 +259,26 @@ fn assemble(mesh: &Mesh, dofs: &[[Dof; 3]], n: usize, axial: Option<&[f64]>) -> 
     k
 }
 
+/// Factor an assembled `matrix` of `mesh`; on failure, name the directions free to move:
+/// a mechanism of the elastic frame, or (`geometric`, the matrix includes `K_G`) the place
+/// where stability is lost.
+pub fn factor_or_locate(
+    model: &Model,
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    matrix: &SkylineMatrix,
+    geometric: bool,
+) -> Result<SkylineFactor, SystemError> {
+    matrix.factor().map_err(|err| {
+        let free = locate_free(mesh, model, dofs, matrix.n(), geometric, err);
+        if geometric {
+            SystemError::Unstable(free)
+        } else {
+            SystemError::Mechanism(free)
+        }
+    })
+}
+
 /// After a failed factorization, find the directions free to move: the near-null vector of
 /// `K` (by inverse iteration on `K` with a tiny multiple of its diagonal added) names the
 /// nodes and directions that move in the mechanism, largest first.
@@ -262,7 +287,7 @@ fn locate_free(
     model: &Model,
     dofs: &[[Dof; 3]],
     n: usize,
-    axial: Option<&[f64]>,
+    geometric: bool,
     first: FactorError,
 ) -> Vec<FreeDirection> {
     let FactorError::NotPositiveDefinite { index, .. } = first;
@@ -276,7 +301,7 @@ fn locate_free(
             .into_iter()
             .collect::<Vec<_>>()
     };
-    if axial.is_some() {
+    if geometric {
         // Loss of stability under K + K_G: the failing pivot's place is enough (the
         // buckling analysis gives the mode), and bisection on α_cr meets this often.
         return fallback();

@@ -1,0 +1,605 @@
+//! Approximate check: every member's first-order moments estimated by the classical hand
+//! methods, beside the stiffness solution, to catch input mistakes (a wrong unit, a wrong
+//! sign, a missing load, a wrong release or support).
+//!
+//! Methods (all common practice, no source; written as the textbooks of approximate
+//! analysis write them):
+//! * **Beams under gravity**: inflection points at [`INFLECTION`]·L from each continuous
+//!   end (none at a released end). The part between them is simply supported, the end parts
+//!   are cantilevers carrying it: with both ends continuous the end moments are
+//!   −0.045 wL² and the mid-span moment +0.08 wL² ([`beam_gravity`]). A beam's loads are
+//!   taken as their total transverse load spread uniformly over the span.
+//! * **Columns under gravity, no sway**: the beam-end moments at a joint that do not
+//!   balance (with any applied nodal moment) go into the columns at the joint in proportion
+//!   to their stiffness EI/L, and each column carries half of its share to its other end
+//!   (carry-over factor 1/2: a fixed base, or the joint above or below, one cycle of
+//!   moment distribution); a pinned base or released end takes none.
+//! * **Lateral load, portal method**: each story's shear is shared by its columns, an
+//!   interior column taking twice the share of an exterior one ([`portal_shares`]);
+//!   inflection points at mid-height of the columns give end moments V·h/2 (at a pinned
+//!   base or released end the inflection point is there, and the other end takes V·h); the beams
+//!   balance the column moments joint by joint from the left with inflection points at
+//!   mid-span.
+//!
+//! Both parts are superposed for each factored case and compared with the first-order
+//! solution of the same loads (the case's own loads: no notional loads and no
+//! amplification on either side). Flags and thresholds are in [`Thresholds`].
+//!
+//! Results assist a licensed engineer; local codes and the adopted edition of each
+//! standard govern.
+
+use serde::Serialize;
+
+use crate::combos::FactoredCase;
+use crate::model::{LocalLoad, Model, Restraint, Role};
+use crate::solve::beam::internal_forces;
+use crate::solve::first_order::combined_member_loads;
+use crate::solve::{FirstOrder, Solution, SystemError};
+use crate::stories::{LEVEL_TOLERANCE, Story, StoryError, stories};
+
+/// Inflection points of a beam under gravity, as a fraction of the span from each
+/// continuous end (common practice, no source: between 0 for pinned ends and 0.211 for
+/// fixed ends under uniform load).
+pub const INFLECTION: f64 = 0.1;
+
+/// When a member is flagged.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Thresholds {
+    /// A location is compared only where the approximate moment reaches this fraction of
+    /// the largest computed moment of the case's members of the same role (where the hand
+    /// method says "small", as for interior columns under gravity, it is not judged).
+    pub significant: f64,
+    /// Ratio computed/approximate flagged above this or below its inverse. Not judged where
+    /// the estimate's gravity and lateral parts cancel to less than half their sum.
+    pub ratio: f64,
+    /// A beam's downward load per length flagged when it is more than this many times the
+    /// median of the case's loaded beams, less than the median over it, or of the opposite
+    /// sense.
+    pub load: f64,
+}
+
+impl Default for Thresholds {
+    /// 0.25, 4 and 10 (common practice, no source): the hand methods are within a factor
+    /// of about 2 of the stiffness solution on regular frames (on seeded random frames with
+    /// unequal bays 4–9 m, point loads and releases, about 1 % of the judged member results
+    /// are flagged: `tests/approx.rs`), and roof beams carry down to
+    /// about a sixth of a floor beam's load, while the usual unit mistakes change a load by
+    /// 1000 (N for kN, kN/mm for kN/m) or 12 (per inch for per foot). Mistakes by 9.81,
+    /// 4.45 (kip for kN) or 3.28 (ft for m) are within the spread of real loads and are
+    /// not caught by the load test.
+    fn default() -> Self {
+        Thresholds {
+            significant: 0.25,
+            ratio: 4.0,
+            load: 10.0,
+        }
+    }
+}
+
+/// Where along a member a value is compared.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Location {
+    EndI,
+    EndJ,
+    /// Between the gravity inflection points of a beam (mid-span for two continuous ends).
+    Span,
+}
+
+/// What is wrong with a member, by the thresholds.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(rename_all = "kebab-case", tag = "kind")]
+pub enum Flag {
+    /// Computed and approximate moments of opposite sign at a location.
+    Sign { at: Location },
+    /// Computed/approximate beyond the ratio threshold at a location.
+    Ratio { at: Location, ratio: f64 },
+    /// The beam's load is far from the median beam load of the case, or of the opposite
+    /// sense (factor = load/median, negative for the opposite sense).
+    Load { factor: f64 },
+}
+
+/// One compared location: internal moments, N·m, positive sagging (local −y in tension).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Row {
+    pub at: Location,
+    /// Distance from end i, m.
+    pub x: f64,
+    /// First-order stiffness solution.
+    pub computed: f64,
+    /// Approximate method: gravity part plus lateral part.
+    pub approximate: f64,
+    pub gravity: f64,
+    pub lateral: f64,
+    /// Whether the location is large enough to be judged.
+    pub significant: bool,
+}
+
+/// A member's comparison in one factored case.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MemberEstimate {
+    pub member: String,
+    pub role: Role,
+    pub rows: Vec<Row>,
+    /// Column shear of the lateral part by the portal method (columns only; N, the force
+    /// the column carries from the level above in +X).
+    pub portal_shear: Option<f64>,
+    /// False where the hand methods do not apply (see [`estimable`]). Such members are not
+    /// judged.
+    pub estimated: bool,
+    pub flags: Vec<Flag>,
+}
+
+/// The steepest beam the hand methods are applied to, rad (5°): they assume the horizontal
+/// beams of a rectangular frame, not the rafters of a gable frame.
+pub const MAX_SLOPE: f64 = 5.0 * std::f64::consts::PI / 180.0;
+
+/// Members the hand methods apply to: not a sloped beam (over [`MAX_SLOPE`]) or a beam
+/// with a released end, nor any other member meeting the end of one (the portal method
+/// and the joint balance assume continuous horizontal beams).
+pub fn estimable(model: &Model) -> Vec<bool> {
+    let outside = |m: usize| {
+        let mem = &model.members[m];
+        let (c, s) = model.cosines(m);
+        mem.role == Role::Beam
+            && (s.abs() > MAX_SLOPE.sin() * c.hypot(s) || mem.release_i || mem.release_j)
+    };
+    let mut bad_node = vec![false; model.nodes.len()];
+    for m in (0..model.members.len()).filter(|&m| outside(m)) {
+        bad_node[model.members[m].i] = true;
+        bad_node[model.members[m].j] = true;
+    }
+    (0..model.members.len())
+        .map(|m| {
+            let mem = &model.members[m];
+            !bad_node[mem.i] && !bad_node[mem.j]
+        })
+        .collect()
+}
+
+/// The approximate check of one factored case.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CaseEstimate {
+    pub id: String,
+    pub expression: String,
+    pub members: Vec<MemberEstimate>,
+}
+
+/// The whole approximate check.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ApproxReport {
+    pub inflection: f64,
+    pub thresholds: Thresholds,
+    pub cases: Vec<CaseEstimate>,
+    /// One line on what usually causes a flag.
+    pub hint: &'static str,
+}
+
+/// The hint printed with flags.
+pub const HINT: &str = "usual causes: a wrong unit on a load or section, a load in the wrong \
+direction or on the wrong member, a missing load, a wrong release or support";
+
+/// Why the approximate check could not run.
+#[derive(Debug, thiserror::Error)]
+pub enum ApproxError {
+    #[error(transparent)]
+    Stories(#[from] StoryError),
+    #[error(transparent)]
+    System(#[from] SystemError),
+}
+
+/// Beam moments under a uniform load `w` (positive toward local −y) on span `l` with
+/// inflection points at `a_i`·l and `a_j`·l from the ends (0 at a released end): internal
+/// moments (end i, between the inflection points, end j) and the x of the middle value.
+///
+/// Closed form: the part between the inflection points, of length `lc = l − a_i·l − a_j·l`,
+/// is simply supported, `M = w·lc²/8` at its middle; an end part of length `p` is a
+/// cantilever under `w` carrying the reaction `w·lc/2` at its tip,
+/// `M = −(w·p²/2 + w·lc/2·p)`.
+pub fn beam_gravity(w: f64, l: f64, a_i: f64, a_j: f64) -> (f64, f64, f64, f64) {
+    let (p_i, p_j) = (a_i * l, a_j * l);
+    let lc = l - p_i - p_j;
+    let end = |p: f64| -(w * p * p / 2.0 + w * lc / 2.0 * p);
+    (end(p_i), w * lc * lc / 8.0, end(p_j), p_i + lc / 2.0)
+}
+
+/// Portal method: the shears of `n` columns in a row carrying story shear `v`, an interior
+/// column taking twice an exterior one (exterior `v/(2(n−1))`, interior `v/(n−1)`).
+pub fn portal_shares(n: usize, v: f64) -> Vec<f64> {
+    if n <= 1 {
+        return vec![v; n];
+    }
+    let exterior = v / (2.0 * (n - 1) as f64);
+    (0..n)
+        .map(|k| {
+            if k == 0 || k == n - 1 {
+                exterior
+            } else {
+                2.0 * exterior
+            }
+        })
+        .collect()
+}
+
+/// Carry-over to a far end that is fixed against rotation: half the near-end moment, same
+/// sense (moment distribution, prismatic member).
+pub fn carry_over(m_near: f64) -> f64 {
+    0.5 * m_near
+}
+
+/// Total local (x, y) components of a member's local loads, N.
+fn local_total(loads: &[LocalLoad]) -> (f64, f64) {
+    loads.iter().fold((0.0, 0.0), |(fx, fy), l| match *l {
+        LocalLoad::Linear {
+            a,
+            b,
+            qx_a,
+            qy_a,
+            qx_b,
+            qy_b,
+        } => (
+            fx + 0.5 * (qx_a + qx_b) * (b - a),
+            fy + 0.5 * (qy_a + qy_b) * (b - a),
+        ),
+        LocalLoad::Point { px, py, .. } => (fx + px, fy + py),
+        LocalLoad::Moment { .. } => (fx, fy),
+    })
+}
+
+/// Whether end `end` (0 = i, 1 = j) of member `m` cannot take moment: released, or at a
+/// support that leaves rotation free with no other member there (a pinned base).
+fn hinged_end(model: &Model, m: usize, end: usize) -> bool {
+    let mem = &model.members[m];
+    let (node, released) = if end == 0 {
+        (mem.i, mem.release_i)
+    } else {
+        (mem.j, mem.release_j)
+    };
+    released
+        || model.supports.iter().any(|s| {
+            s.node == node
+                && matches!(s.dofs[2], Restraint::Free)
+                && model
+                    .members
+                    .iter()
+                    .filter(|o| o.i == node || o.j == node)
+                    .count()
+                    == 1
+        })
+}
+
+/// Approximate internal moments of every member for loads `factors`: per member, the rows
+/// (end i, end j, and for beams the span) as (location, x, gravity, lateral).
+pub fn approximate(
+    model: &Model,
+    stories: &[Story],
+    factors: &[(usize, f64)],
+) -> Vec<Vec<(Location, f64, f64, f64)>> {
+    let nm = model.members.len();
+    let loads = combined_member_loads(model, factors);
+    // End actions Mz (node on member, CCW) of the gravity part, per member [i, j].
+    let mut mz = vec![[0.0_f64; 2]; nm];
+    let mut span: Vec<Option<(f64, f64)>> = vec![None; nm];
+    for m in (0..nm).filter(|&m| model.members[m].role == Role::Beam) {
+        let l = model.length(m);
+        let w = -local_total(&loads[m]).1 / l;
+        let mem = &model.members[m];
+        let a = |released: bool| if released { 0.0 } else { INFLECTION };
+        let (mi, mid, mj, x) = beam_gravity(w, l, a(mem.release_i), a(mem.release_j));
+        // Internal M(0) = −Mz_i, M(L) = +Mz_j (DEVELOPERS.md, sign convention).
+        mz[m] = [-mi, mj];
+        span[m] = Some((x, mid));
+    }
+    // Joint unbalance into the columns, by stiffness EI/L; carry-over to fixed bases.
+    let mut applied = vec![0.0; model.nodes.len()];
+    for &(k, f) in factors {
+        for nl in &model.load_cases[k].nodal {
+            applied[nl.node] += f * nl.mz;
+        }
+    }
+    let columns: Vec<usize> = (0..nm)
+        .filter(|&m| model.members[m].role != Role::Beam)
+        .collect();
+    for (v, &applied_v) in applied.iter().enumerate() {
+        let beams: f64 = (0..nm)
+            .filter(|&m| model.members[m].role == Role::Beam)
+            .map(|m| end_at(model, m, v).map_or(0.0, |e| mz[m][e]))
+            .sum();
+        let share: Vec<(usize, usize, f64)> = columns
+            .iter()
+            .filter_map(|&c| {
+                let e = end_at(model, c, v)?;
+                let mem = &model.members[c];
+                let released = if e == 0 { mem.release_i } else { mem.release_j };
+                (!released).then(|| (c, e, model.gross_stiffness(c).1 / model.length(c)))
+            })
+            .collect();
+        let total: f64 = share.iter().map(|s| s.2).sum();
+        if total <= 0.0 {
+            continue;
+        }
+        for (c, e, k) in share {
+            let near = k / total * (applied_v - beams);
+            mz[c][e] += near;
+            let far = 1 - e;
+            if !hinged_end(model, c, far) {
+                mz[c][far] += carry_over(near);
+            }
+        }
+    }
+    let lateral = portal(model, stories, factors, &loads);
+    (0..nm)
+        .map(|m| {
+            let l = model.length(m);
+            let mut rows = vec![
+                (Location::EndI, 0.0, -mz[m][0], lateral[m].0),
+                (Location::EndJ, l, mz[m][1], lateral[m].1),
+            ];
+            if let Some((x, mid)) = span[m] {
+                // Lateral beam moments are linear, zero at mid-span.
+                let lat = lateral[m].0 + (lateral[m].1 - lateral[m].0) * x / l;
+                rows.push((Location::Span, x, mid, lat));
+            }
+            rows
+        })
+        .collect()
+}
+
+/// 0 when member `m` has end i at `node`, 1 for end j.
+fn end_at(model: &Model, m: usize, node: usize) -> Option<usize> {
+    let mem = &model.members[m];
+    if mem.i == node {
+        Some(0)
+    } else if mem.j == node {
+        Some(1)
+    } else {
+        None
+    }
+}
+
+/// Lateral loads of the case lumped at the nodes: global X, N (nodal loads, and each member
+/// load's X resultant shared between its end nodes by the lever rule).
+fn lateral_at_nodes(model: &Model, factors: &[(usize, f64)], loads: &[Vec<LocalLoad>]) -> Vec<f64> {
+    let mut fx = vec![0.0; model.nodes.len()];
+    for &(k, f) in factors {
+        for nl in &model.load_cases[k].nodal {
+            fx[nl.node] += f * nl.fx;
+        }
+    }
+    for (m, ls) in loads.iter().enumerate() {
+        let (c, s) = model.cosines(m);
+        let l = model.length(m);
+        for load in ls {
+            let (px, py) = local_total(std::slice::from_ref(load));
+            let x_global = px * c - py * s;
+            let at = match *load {
+                LocalLoad::Linear { a, b, .. } => 0.5 * (a + b),
+                LocalLoad::Point { a, .. } | LocalLoad::Moment { a, .. } => a,
+            };
+            let mem = &model.members[m];
+            fx[mem.i] += x_global * (1.0 - at / l);
+            fx[mem.j] += x_global * at / l;
+        }
+    }
+    fx
+}
+
+/// Portal method: lateral internal moments (end i, end j) of every member.
+fn portal(
+    model: &Model,
+    stories: &[Story],
+    factors: &[(usize, f64)],
+    loads: &[Vec<LocalLoad>],
+) -> Vec<(f64, f64)> {
+    let fx = lateral_at_nodes(model, factors, loads);
+    let mut out = vec![(0.0, 0.0); model.members.len()];
+    let mut column_mz_at = vec![0.0; model.nodes.len()];
+    for st in stories {
+        // Story shear: everything applied at or above the story top.
+        let v: f64 = (0..model.nodes.len())
+            .filter(|&n| model.nodes[n].y >= st.top - LEVEL_TOLERANCE)
+            .map(|n| fx[n])
+            .sum();
+        let mut cols = st.columns.clone();
+        cols.sort_by(|&a, &b| column_x(model, a).total_cmp(&column_x(model, b)));
+        for (&c, vc) in cols.iter().zip(portal_shares(cols.len(), v)) {
+            let l = model.length(c);
+            let x0 = inflection_height(model, c);
+            // Inflection at x0: M(x) = V·(x − x0), since Fy_i = V for either orientation
+            // of the column (the node above pushes it with V in +X) and M(x0) = 0.
+            out[c] = (-vc * x0, vc * (l - x0));
+            let mem = &model.members[c];
+            // End actions: Mz_i = −M(0), Mz_j = M(L).
+            column_mz_at[mem.i] += vc * x0;
+            column_mz_at[mem.j] += vc * (l - x0);
+        }
+    }
+    // Beams: balance the column moments joint by joint from the left of each beam line,
+    // inflection at mid-span (Mz_i = Mz_j).
+    let spans = crate::arrange::spans(model);
+    let mut carried: Vec<f64> = vec![0.0; model.nodes.len()];
+    for s in spans.iter().filter(|s| s.members.len() == 1) {
+        let m = s.members[0];
+        let mem = &model.members[m];
+        let left = if model.nodes[mem.i].x <= model.nodes[mem.j].x {
+            mem.i
+        } else {
+            mem.j
+        };
+        let right = if left == mem.i { mem.j } else { mem.i };
+        let mz = -column_mz_at[left] - carried[left];
+        carried[right] += mz;
+        out[m] = (-mz, mz);
+    }
+    out
+}
+
+/// Where a column's lateral inflection point lies, from end i: at a released end or a
+/// pinned base (rotation free, no other member there), else at mid-height (portal method).
+fn inflection_height(model: &Model, c: usize) -> f64 {
+    let l = model.length(c);
+    match (hinged_end(model, c, 0), hinged_end(model, c, 1)) {
+        (true, false) => 0.0,
+        (false, true) => l,
+        _ => l / 2.0,
+    }
+}
+
+/// Mean X of a column.
+fn column_x(model: &Model, m: usize) -> f64 {
+    let mem = &model.members[m];
+    0.5 * (model.nodes[mem.i].x + model.nodes[mem.j].x)
+}
+
+/// First-order internal moments at the rows' locations, from the solution of the case.
+fn computed_at(solution: &Solution, loads: &[Vec<LocalLoad>], m: usize, x: f64) -> f64 {
+    internal_forces(x, &solution.end_forces[m], &loads[m]).m
+}
+
+/// Compare the approximate and computed moments of one factored case.
+pub fn compare_case(
+    model: &Model,
+    stories: &[Story],
+    solved: &[Solution],
+    fc: &FactoredCase,
+    th: &Thresholds,
+) -> CaseEstimate {
+    let parts: Vec<(f64, &Solution)> = fc.factors.iter().map(|&(k, f)| (f, &solved[k])).collect();
+    let solution = Solution::combine(&parts);
+    let loads = combined_member_loads(model, &fc.factors);
+    let approx = approximate(model, stories, &fc.factors);
+    let fits = estimable(model);
+    let mut members: Vec<MemberEstimate> = approx
+        .iter()
+        .enumerate()
+        .map(|(m, rows)| MemberEstimate {
+            member: model.members[m].id.clone(),
+            role: model.members[m].role,
+            rows: rows
+                .iter()
+                .map(|&(at, x, g, lat)| Row {
+                    at,
+                    x,
+                    computed: computed_at(&solution, &loads, m, x),
+                    approximate: g + lat,
+                    gravity: g,
+                    lateral: lat,
+                    significant: false,
+                })
+                .collect(),
+            portal_shear: (model.members[m].role != Role::Beam)
+                .then(|| (rows[1].3 - rows[0].3) / model.length(m)),
+            estimated: fits[m],
+            flags: Vec::new(),
+        })
+        .collect();
+    // Reference moment per role: the largest computed moment of the case.
+    let reference = |role: Role, members: &[MemberEstimate]| -> f64 {
+        members
+            .iter()
+            .filter(|e| e.role == role)
+            .flat_map(|e| e.rows.iter().map(|r| r.computed.abs()))
+            .fold(0.0, f64::max)
+    };
+    let refs: Vec<f64> = members
+        .iter()
+        .map(|e| reference(e.role, &members))
+        .collect();
+    for (e, r) in members.iter_mut().zip(refs) {
+        for row in &mut e.rows {
+            // Judged where large enough, and where the estimate's gravity and lateral parts
+            // do not cancel to less than half their sum.
+            row.significant = e.estimated
+                && r > 0.0
+                && row.approximate.abs() >= th.significant * r
+                && row.approximate.abs() >= 0.5 * (row.gravity.abs() + row.lateral.abs());
+            if !row.significant {
+                continue;
+            }
+            if row.computed * row.approximate < 0.0 {
+                e.flags.push(Flag::Sign { at: row.at });
+            } else {
+                let ratio = if row.approximate == 0.0 {
+                    f64::INFINITY
+                } else {
+                    row.computed / row.approximate
+                };
+                if ratio > th.ratio || ratio < 1.0 / th.ratio {
+                    e.flags.push(Flag::Ratio { at: row.at, ratio });
+                }
+            }
+        }
+    }
+    for (m, factor) in load_outliers(model, &loads, th.load)
+        .into_iter()
+        .filter(|&(m, _)| fits[m])
+    {
+        members[m].flags.push(Flag::Load { factor });
+    }
+    CaseEstimate {
+        id: fc.id.clone(),
+        expression: fc.expression.clone(),
+        members,
+    }
+}
+
+/// Beams whose downward load per length (total global −Y load over the length) is more
+/// than `limit` times the median of the case's loaded beams, less than the median over
+/// `limit`, or of the opposite sense: (member, load/median).
+pub fn load_outliers(model: &Model, loads: &[Vec<LocalLoad>], limit: f64) -> Vec<(usize, f64)> {
+    let w: Vec<(usize, f64)> = (0..model.members.len())
+        .filter(|&m| model.members[m].role == Role::Beam)
+        .map(|m| {
+            let (c, s) = model.cosines(m);
+            let (px, py) = local_total(&loads[m]);
+            (m, -(px * s + py * c) / model.length(m))
+        })
+        .collect();
+    let mut loaded: Vec<f64> = w.iter().map(|p| p.1).filter(|&x| x != 0.0).collect();
+    if loaded.len() < 3 {
+        return Vec::new();
+    }
+    loaded.sort_by(f64::total_cmp);
+    let median = loaded[loaded.len() / 2];
+    w.into_iter()
+        .map(|(m, x)| (m, x / median))
+        .filter(|&(_, f)| f > limit || f < 1.0 / limit)
+        .collect()
+}
+
+/// The approximate check of `cases` on `model` (each service load case solved once on one
+/// factorization of the free frame).
+pub fn approximate_check(
+    model: &Model,
+    cases: &[FactoredCase],
+    th: &Thresholds,
+) -> Result<ApproxReport, ApproxError> {
+    let stories = stories(model)?;
+    let fo = FirstOrder::new(model, &[])?;
+    let solved: Vec<Solution> = (0..model.load_cases.len())
+        .map(|k| fo.solve_case(model, k))
+        .collect::<Result<_, _>>()?;
+    Ok(ApproxReport {
+        inflection: INFLECTION,
+        thresholds: *th,
+        cases: cases
+            .iter()
+            .map(|fc| compare_case(model, &stories, &solved, fc, th))
+            .collect(),
+        hint: HINT,
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn portal_shares_add_up_to_the_story_shear() {
+        // Portal method (common practice, no source): exterior v/(2(n−1)), interior v/(n−1).
+        assert_eq!(portal_shares(3, 4.0), vec![1.0, 2.0, 1.0]);
+        assert_eq!(portal_shares(1, 4.0), vec![4.0]);
+        let s: f64 = portal_shares(5, 8.0).iter().sum();
+        assert!((s - 8.0).abs() < 1e-12);
+    }
+}

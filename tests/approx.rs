@@ -1,0 +1,438 @@
+//! The approximate check (hand methods beside the stiffness solution): the methods' own
+//! closed forms, the portal method against the stiffness solution of a regular frame, and
+//! input mistakes flagged. The hand methods themselves are common practice, no source;
+//! each check below names how its expected value is obtained.
+
+mod common;
+
+use approx::assert_relative_eq;
+use common::{Frame, portal};
+use plumbline::approx::{
+    Flag, INFLECTION, Location, Thresholds, approximate, approximate_check, beam_gravity,
+    carry_over, portal_shares,
+};
+use plumbline::combos::{Basis, FactoredCase};
+use plumbline::model::{ActionCategory, LoadDirection, Model};
+use plumbline::solve::FirstOrder;
+use plumbline::stories::stories;
+
+/// A factored case on the strength basis with `factors` on the model's load cases.
+fn case(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
+    FactoredCase {
+        id: id.into(),
+        expression: id.into(),
+        basis: Basis::Strength,
+        combination: id.into(),
+        factors: factors.to_vec(),
+        note: None,
+    }
+}
+
+#[test]
+fn beam_gravity_follows_the_inflection_point_closed_form() {
+    let (w, l) = (12e3, 7.5);
+    let wl2 = w * l * l;
+    // Closed form, inflection points at 0.1 L from each end (common practice, no source):
+    // the middle 0.8 L is simply supported, M_mid = w(0.8L)²/8 = 0.64/8 wL² = 0.08 wL².
+    // Each end 0.1 L is a cantilever carrying its own load and the middle part's reaction
+    // w·0.8L/2 = 0.4 wL at its tip: M_end = −(w(0.1L)²/2 + 0.4wL·0.1L)
+    // = −(0.005 + 0.04) wL² = −0.045 wL². Check: 0.08 + 0.045 = 0.125 = wL²/8, the
+    // simple-span moment, as statics requires.
+    let (mi, mid, mj, x) = beam_gravity(w, l, INFLECTION, INFLECTION);
+    assert_relative_eq!(mi, -0.045 * wl2, max_relative = 1e-12);
+    assert_relative_eq!(mj, -0.045 * wl2, max_relative = 1e-12);
+    assert_relative_eq!(mid, 0.08 * wl2, max_relative = 1e-12);
+    assert_relative_eq!(x, 0.5 * l, max_relative = 1e-12);
+
+    // End i released: the simply supported part runs from end i to 0.1 L from end j,
+    // length 0.9 L: M_mid = w(0.9L)²/8 = 0.10125 wL² at x = 0.45 L; end j carries
+    // −(w(0.1L)²/2 + 0.45wL·0.1L) = −0.05 wL² (closed form, same statics).
+    let (mi, mid, mj, x) = beam_gravity(w, l, 0.0, INFLECTION);
+    assert_eq!(mi, 0.0);
+    assert_relative_eq!(mid, 0.10125 * wl2, max_relative = 1e-12);
+    assert_relative_eq!(mj, -0.05 * wl2, max_relative = 1e-12);
+    assert_relative_eq!(x, 0.45 * l, max_relative = 1e-12);
+}
+
+#[test]
+fn portal_shares_and_carry_over_follow_their_definitions() {
+    // Portal method (common practice, no source): n columns, exterior V/(2(n−1)),
+    // interior V/(n−1); for four columns and V = 6: 1, 2, 2, 1.
+    assert_eq!(portal_shares(4, 6.0), vec![1.0, 2.0, 2.0, 1.0]);
+    // Moment distribution, prismatic member with the far end fixed (common practice, no
+    // source): carry-over factor 1/2.
+    assert_eq!(carry_over(-8.0), -4.0);
+}
+
+#[test]
+fn single_bay_portal_takes_the_methods_values() {
+    // One bay L = 8 m, h = 4 m, fixed bases; gravity w on the beam, H at the left top.
+    let (l, h, w, big_h) = (8.0, 4.0, 10e3, 20e3);
+    let (mut f, [_, top_l, _, _, col_l, beam, col_r]) = portal(l, h, 1e-4, 2e-4, true);
+    let g = f.case("G", ActionCategory::Dead);
+    f.udl(g, beam, w, LoadDirection::Gravity);
+    let lat = f.case("H", ActionCategory::Wind);
+    f.nodal(lat, top_l, big_h, 0.0, 0.0);
+    let st = stories(&f.model).expect("one story");
+    let wl2 = w * l * l;
+
+    // Gravity: beam ends −0.045 wL², mid-span +0.08 wL² (closed form above). Each top
+    // joint has one column, which takes the whole unbalance: internal moment at the
+    // column top equal to the beam's end moment, −0.045 wL² (joint equilibrium: the end
+    // actions Mz of beam and column at the joint sum to zero; left column drawn up, so
+    // M(L) = Mz_j = −Mz_i(beam) = M(0)(beam)); its fixed base gets half of the column
+    // top's end action (carry-over 1/2), internal M(0) = −Mz_i = +0.0225 wL².
+    let a = approximate(&f.model, &st, &[(g, 1.0)]);
+    let value = |m: usize, at: Location| {
+        a[m].iter()
+            .find(|r| r.0 == at)
+            .map(|r| r.2 + r.3)
+            .expect("row")
+    };
+    assert_relative_eq!(
+        value(beam, Location::EndI),
+        -0.045 * wl2,
+        max_relative = 1e-12
+    );
+    assert_relative_eq!(
+        value(beam, Location::EndJ),
+        -0.045 * wl2,
+        max_relative = 1e-12
+    );
+    assert_relative_eq!(
+        value(beam, Location::Span),
+        0.08 * wl2,
+        max_relative = 1e-12
+    );
+    assert_relative_eq!(
+        value(col_l, Location::EndJ),
+        -0.045 * wl2,
+        max_relative = 1e-12
+    );
+    assert_relative_eq!(
+        value(col_l, Location::EndI),
+        0.0225 * wl2,
+        max_relative = 1e-12
+    );
+
+    // Lateral, portal method: two exterior columns, V = H/2 each; inflection at
+    // mid-height, M(0) = −V·h/2 = −Hh/4, M(h) = +Hh/4 (M(x) = V·(x − h/2)). The beam
+    // balances the column top at each joint, inflection at mid-span: end moments ∓Hh/4.
+    let a = approximate(&f.model, &st, &[(lat, 1.0)]);
+    let value = |m: usize, at: Location| {
+        a[m].iter()
+            .find(|r| r.0 == at)
+            .map(|r| r.2 + r.3)
+            .expect("row")
+    };
+    for c in [col_l, col_r] {
+        assert_relative_eq!(
+            value(c, Location::EndI),
+            -big_h * h / 4.0,
+            max_relative = 1e-12
+        );
+        assert_relative_eq!(
+            value(c, Location::EndJ),
+            big_h * h / 4.0,
+            max_relative = 1e-12
+        );
+    }
+    assert_relative_eq!(
+        value(beam, Location::EndI).abs(),
+        big_h * h / 4.0,
+        max_relative = 1e-12
+    );
+    assert_relative_eq!(
+        value(beam, Location::EndJ),
+        -value(beam, Location::EndI),
+        max_relative = 1e-12
+    );
+    assert!(value(beam, Location::Span).abs() < 1e-9 * big_h * h);
+
+    // The correct model raises no flag against its own stiffness solution.
+    let r = approximate_check(
+        &f.model,
+        &[case("G+H", &[(g, 1.0), (lat, 1.0)])],
+        &Thresholds::default(),
+    )
+    .expect("check runs");
+    assert!(
+        r.cases[0].members.iter().all(|e| e.flags.is_empty()),
+        "{:?}",
+        r.cases[0]
+    );
+}
+
+/// A regular frame: `bays` bays of 6 m, `stories` stories of 3.5 m, fixed bases, columns
+/// I = 2e-4 m⁴, beams I = 4e-4 m⁴, E = 200 GPa, 50 kN at every level on the left.
+fn regular(bays: usize, n_stories: usize) -> (Frame, usize, Vec<Vec<usize>>) {
+    let mut f = Frame::new();
+    let nodes: Vec<Vec<usize>> = (0..=bays)
+        .map(|g| {
+            (0..=n_stories)
+                .map(|k| f.node(6.0 * g as f64, 3.5 * k as f64))
+                .collect()
+        })
+        .collect();
+    let mut columns = vec![vec![0; bays + 1]; n_stories];
+    for (g, line) in nodes.iter().enumerate() {
+        f.fixed(line[0]);
+        for s in 0..n_stories {
+            columns[s][g] = f.member(line[s], line[s + 1], 200e9, 0.02, 2e-4);
+        }
+    }
+    for pair in nodes.windows(2) {
+        for (&a, &b) in pair[0].iter().zip(&pair[1]).skip(1) {
+            f.member(a, b, 200e9, 0.02, 4e-4);
+        }
+    }
+    let h = f.case("H", ActionCategory::Wind);
+    for &n in nodes[0].iter().skip(1) {
+        f.nodal(h, n, 50e3, 0.0, 0.0);
+    }
+    (f, h, columns)
+}
+
+#[test]
+fn portal_column_shears_lie_in_a_band_around_the_stiffness_solution() {
+    let (f, h, columns) = regular(3, 4);
+    let model: &Model = &f.model;
+    let st = stories(model).expect("regular stories");
+    let approx = approximate(model, &st, &[(h, 1.0)]);
+    let solution = FirstOrder::new(model, &[])
+        .and_then(|fo| fo.solve_case(model, h))
+        .expect("solves");
+    for (s, row) in columns.iter().enumerate() {
+        // Story shear: the loads at and above the story top, 50 kN per level.
+        let v_story = 50e3 * (columns.len() - s) as f64;
+        let mut sum_portal = 0.0;
+        let mut sum_stiff = 0.0;
+        for &c in row {
+            // Portal shear from the end moments: V = (M(L) − M(0))/h.
+            let portal_v = (approx[c][1].3 - approx[c][0].3) / 3.5;
+            // Stiffness shear: Fy_i, the local-y force of the base node on the column, is
+            // the shear the column carries in +X (DEVELOPERS.md sign convention, local y of
+            // an upward column is −X, and the node below pushes back in −X).
+            let stiff_v = solution.end_forces[c].i[1];
+            sum_portal += portal_v;
+            sum_stiff += stiff_v;
+            // Band (common practice, no source): on a regular frame with beams stiffer
+            // than the columns, the portal shear of each column lies within ±30 % of the
+            // stiffness solution's (its exterior/interior 1:2 split against the actual
+            // split, which depends on the joint stiffness; the ground story, whose fixed
+            // bases make the exterior columns relatively stiffer, is the widest).
+            let ratio = portal_v / stiff_v;
+            assert!(
+                (0.7..=1.3).contains(&ratio),
+                "story {} column {c}: portal {portal_v:.0} N, stiffness {stiff_v:.0} N",
+                s + 1
+            );
+        }
+        // Statics (closed form): both share the whole story shear.
+        assert_relative_eq!(sum_portal, v_story, max_relative = 1e-12);
+        assert_relative_eq!(sum_stiff, v_story, max_relative = 1e-6);
+    }
+}
+
+/// A three-bay, two-story frame in the N-mm preset (bare loads are N/mm, i.e. kN/m), dead
+/// load 20 on every beam and live load `live_b2` on beam B2.1, 10 on the others.
+fn n_mm_frame(live_b2: &str, dead_b3: &str) -> String {
+    format!(
+        r#"
+units = "N-mm"
+[[material]]
+id = "S"
+E = 200000
+[[section]]
+id = "col"
+A = 12000
+I = 2e8
+[[section]]
+id = "beam"
+A = 10000
+I = 4e8
+[frame]
+bays = [6000, 6000, 6000]
+stories = [4000, 3500]
+base = "fixed"
+material = "S"
+columns = ["col"]
+beams = ["beam"]
+[[case]]
+id = "D"
+category = "dead"
+[[case.member_load]]
+members = ["B1.*", "B2.*", "B3.2"]
+kind = "uniform"
+direction = "down"
+w = 20
+[[case.member_load]]
+members = "B3.1"
+kind = "uniform"
+direction = "down"
+w = {dead_b3}
+[[case]]
+id = "L"
+category = "live"
+[[case.member_load]]
+members = ["B1.*", "B3.*", "B2.2"]
+kind = "uniform"
+direction = "down"
+w = 10
+[[case.member_load]]
+members = "B2.1"
+kind = "uniform"
+direction = "down"
+w = {live_b2}
+"#
+    )
+}
+
+/// Flags of every member in the cases 1.4D and 1.2D + 1.6L of a model text.
+fn flags_of(text: &str) -> Vec<Vec<(String, Vec<Flag>)>> {
+    let model = plumbline::input::parse_model(text, "frame.toml").expect("valid model");
+    let (d, l) = (
+        model.case_index("D").expect("D"),
+        model.case_index("L").expect("L"),
+    );
+    let cases = [
+        case("1.4D", &[(d, 1.4)]),
+        case("1.2D+1.6L", &[(d, 1.2), (l, 1.6)]),
+    ];
+    let r = approximate_check(&model, &cases, &Thresholds::default()).expect("check runs");
+    r.cases
+        .iter()
+        .map(|c| {
+            c.members
+                .iter()
+                .filter(|e| !e.flags.is_empty())
+                .map(|e| (e.member.clone(), e.flags.clone()))
+                .collect()
+        })
+        .collect()
+}
+
+#[test]
+fn a_wrong_unit_on_one_load_is_flagged() {
+    // The correct model: nothing flagged.
+    assert_eq!(flags_of(&n_mm_frame("10", "20")), vec![vec![], vec![]]);
+
+    // Live load on B2.1 written as 10000, meant as 10000 N/m: in the N-mm preset a bare
+    // number is N/mm, so the load is 1000 times too large (units preset table, README).
+    // 1.2D + 1.6L on B2.1: 1.2·20 + 1.6·10000 = 16024 N/mm against the median beam
+    // 1.2·20 + 1.6·10 = 40 N/mm: 400.6 times, beyond the threshold of 10.
+    let flags = flags_of(&n_mm_frame("10000", "20"));
+    assert!(flags[0].is_empty(), "1.4D has no live load: {:?}", flags[0]);
+    assert_eq!(flags[1].len(), 1, "{:?}", flags[1]);
+    let (member, f) = &flags[1][0];
+    assert_eq!(member, "B2.1");
+    match f[..] {
+        [Flag::Load { factor }] => assert_relative_eq!(factor, 16024.0 / 40.0, max_relative = 1e-9),
+        _ => panic!("expected one load flag, got {f:?}"),
+    }
+}
+
+#[test]
+fn a_wrong_sign_on_one_load_is_flagged() {
+    // Dead load on B3.1 written −20 with direction "down": it acts upward. Its 1.4D load
+    // is −28 N/mm against the median +28: factor −1, the opposite sense.
+    let flags = flags_of(&n_mm_frame("10", "-20"));
+    let b31: Vec<&Flag> = flags[0]
+        .iter()
+        .filter(|(m, _)| m == "B3.1")
+        .flat_map(|(_, f)| f)
+        .collect();
+    assert!(
+        b31.iter()
+            .any(|f| matches!(f, Flag::Load { factor } if (*factor + 1.0).abs() < 1e-9)),
+        "{:?}",
+        flags[0]
+    );
+}
+
+#[test]
+fn random_frames_keep_statics_and_raise_few_flags() {
+    use common::random_frame::RandomFrame;
+    let (mut judged, mut flagged) = (0usize, 0usize);
+    for seed in 0..100 {
+        let rf = RandomFrame::new(seed);
+        let st = stories(&rf.model).expect("regular stories");
+        let r =
+            approximate_check(&rf.model, &rf.cases, &Thresholds::default()).expect("check runs");
+        for (fc, c) in rf.cases.iter().zip(&r.cases) {
+            // Statics (closed form): the portal shears of a story add up to the story shear,
+            // the lateral loads applied at and above its top (the random frames load the
+            // left node of each level).
+            for s in &st {
+                let v_story: f64 = fc
+                    .factors
+                    .iter()
+                    .flat_map(|&(k, f)| {
+                        rf.model.load_cases[k]
+                            .nodal
+                            .iter()
+                            .filter(|nl| rf.model.nodes[nl.node].y >= s.top - 1e-3)
+                            .map(move |nl| f * nl.fx)
+                    })
+                    .sum();
+                let sum: f64 = s
+                    .columns
+                    .iter()
+                    .map(|&m| c.members[m].portal_shear.expect("column"))
+                    .sum();
+                assert!((sum - v_story).abs() <= 1e-9 * v_story.abs().max(1.0));
+            }
+            for e in c.members.iter().filter(|e| e.estimated) {
+                judged += 1;
+                flagged += usize::from(!e.flags.is_empty());
+                if !e.flags.is_empty() && std::env::var("APPROX_DEBUG").is_ok() {
+                    println!("{seed} {} {} {:?} {:?}", c.id, e.member, e.role, e.flags);
+                }
+            }
+        }
+    }
+    // Correct frames: the hand methods agree with the stiffness solution within the
+    // thresholds for nearly every judged member result. Measured: 80 of 7125 (1.1 %) with
+    // the default thresholds; the bound of 3 % is the tool's own acceptance figure
+    // (common practice, no source). The flags left come from short spans between long ones
+    // and point loads near a support, where the hand methods are known to be poor.
+    let rate = flagged as f64 / judged as f64;
+    println!(
+        "approximate check on 100 random frames: {flagged} of {judged} member results flagged ({:.2} %)",
+        100.0 * rate
+    );
+    assert!(rate < 0.03, "{flagged} of {judged}");
+}
+
+#[test]
+fn check_option_prints_the_side_by_side_table_in_every_format() {
+    // Command-line contract (project requirement, no external source): the table, the
+    // JSON key and the CSV file, each with the caution.
+    let run = |format: &str| {
+        let o = std::process::Command::new(env!("CARGO_BIN_EXE_plumbline"))
+            .args([
+                "check",
+                "examples/office-3story.toml",
+                "--approximate",
+                "--format",
+                format,
+            ])
+            .current_dir(env!("CARGO_MANIFEST_DIR"))
+            .output()
+            .expect("runs");
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8_lossy(&o.stdout).into_owned()
+    };
+    let text = run("table");
+    assert!(text.contains("Approximate check"));
+    assert!(text.contains("M computed") && text.contains("M approx"));
+    assert!(text.trim_end().ends_with(plumbline::CAUTION));
+    let json: serde_json::Value = serde_json::from_str(&run("json")).expect("JSON");
+    assert!(
+        json["approximate"]["cases"]
+            .as_array()
+            .is_some_and(|c| !c.is_empty())
+    );
+    let csv = run("csv");
+    assert!(csv.contains("# approximate.csv"));
+}
