@@ -7,8 +7,8 @@ use std::path::{Path, PathBuf};
 
 use crate::check::{CheckError, CheckReport};
 use crate::combos::{
-    ComboTable, FactoredCase, expand, expansion_summary, load_table, render_expansion,
-    render_table, render_table_list,
+    ComboTable, FactoredCase, Settings, expand_with, expansion_summary, load_table,
+    render_expansion, render_table, render_table_list,
 };
 use crate::diag::FileError;
 use crate::envelope::Envelope;
@@ -65,6 +65,12 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
         let (k, v) = s
             .split_once('=')
             .ok_or_else(|| AppError::Usage(format!("--set expects PARAM=VALUE, got \"{s}\"")))?;
+        let k = k.trim();
+        if k.is_empty() {
+            return Err(AppError::Usage(format!(
+                "--set \"{s}\": the parameter name before `=` is missing (expected PARAM=VALUE, e.g. --set l_companion=0.5)"
+            )));
+        }
         let v: f64 = v.trim().parse().map_err(|_| {
             AppError::Usage(format!(
                 "--set {k}: expected a number, got \"{}\"",
@@ -76,9 +82,40 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
                 "--set {k}: the value must be finite"
             )));
         }
-        out.insert(k.trim().to_string(), v);
+        out.insert(k.to_string(), v);
     }
     Ok(out)
+}
+
+/// The folder of the model file (tables named in the model are relative to it).
+fn model_dir(model_path: &Path) -> PathBuf {
+    model_path
+        .parent()
+        .map(Path::to_path_buf)
+        .unwrap_or_else(|| PathBuf::from("."))
+}
+
+/// The model's own table (`[combinations] table`), when it names one; an error reading it
+/// points at the model's line.
+pub fn own_table(model: &Model, model_path: &Path) -> Result<Option<ComboTable>, AppError> {
+    let Some(name) = model.combos.table.as_deref() else {
+        return Ok(None);
+    };
+    load_table(name, Some(&model_dir(model_path)))
+        .map(Some)
+        .map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e); // an error inside the table file itself
+            }
+            let w = &model.combos.written;
+            let mut located = w.error(
+                w.table.clone(),
+                "combinations.table",
+                format!("{} ({})", e.message, e.file),
+            );
+            located.help = e.help;
+            AppError::from(located)
+        })
 }
 
 /// The combination table a command uses: `--combos` if given, else the model's
@@ -88,26 +125,44 @@ pub fn resolve_table(
     model_path: &Path,
     combos: Option<&str>,
 ) -> Result<ComboTable, AppError> {
-    let base = model_path
-        .parent()
-        .map(Path::to_path_buf)
-        .unwrap_or_else(|| PathBuf::from("."));
-    match (combos, model.combos.table.as_deref()) {
-        (Some(name), _) => Ok(load_table(name, Some(Path::new(".")))?),
-        (None, Some(name)) => Ok(load_table(name, Some(&base))?),
-        (None, None) => Err(AppError::Usage(format!(
-            "{}: no combination table: name one with --combos NAME|PATH or with \
-             [combinations] table = \"...\" in the model (`plumbline combos` lists the shipped ones)",
-            model_path.display()
-        ))),
+    match combos {
+        Some(name) => load_table(name, Some(Path::new("."))).map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e);
+            }
+            AppError::from(FileError {
+                file: "command line".to_string(),
+                field: format!("--combos {name}"),
+                ..e
+            })
+        }),
+        None => own_table(model, model_path)?.ok_or_else(|| {
+            AppError::Usage(format!(
+                "{}: no combination table: name one with --combos NAME|PATH or with \
+                 [combinations] table = \"...\" in the model (`plumbline combos` lists the shipped ones)",
+                model_path.display()
+            ))
+        }),
     }
 }
 
-/// The model's parameter overrides, then the command line's on top.
-fn overrides(model: &Model, sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
-    let mut params = model.combos.params.clone();
-    params.extend(parse_sets(sets)?);
-    Ok(params)
+/// The table a command uses and the settings the model and `--set` give it: parameters with
+/// their locations, load-level conversions, and the levels of the model's own table for
+/// load cases that state none.
+fn table_and_settings(
+    model: &Model,
+    model_path: &Path,
+    combos: Option<&str>,
+    sets: &[String],
+) -> Result<(ComboTable, Settings), AppError> {
+    let sets = parse_sets(sets)?;
+    let table = resolve_table(model, model_path, combos)?;
+    let own = match combos {
+        Some(_) => own_table(model, model_path)?,
+        None => Some(table.clone()),
+    };
+    let settings = Settings::for_model(model, own.as_ref(), &sets);
+    Ok((table, settings))
 }
 
 /// `plumbline solve MODEL --case ID`: the first-order solution of one load case.
@@ -130,7 +185,16 @@ pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Stri
 pub fn combos(table: Option<&str>) -> Result<String, AppError> {
     Ok(match table {
         None => render_table_list()?,
-        Some(name) => render_table(&load_table(name, Some(Path::new(".")))?),
+        Some(name) => render_table(&load_table(name, Some(Path::new("."))).map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e);
+            }
+            AppError::from(FileError {
+                file: "command line".to_string(),
+                field: format!("combos {name}"),
+                ..e
+            })
+        })?),
     })
 }
 
@@ -142,13 +206,9 @@ pub fn cases(
     format: OutputFormat,
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
-    let table = resolve_table(&model, model_path, combos)?;
+    let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
     let arranged = crate::arrange::arrange(&model);
-    let expansion = arranged.apply(expand(
-        &table,
-        &model.load_cases,
-        &overrides(&model, sets)?,
-    )?);
+    let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     Ok(render_expansion(
         &table,
         &expansion,
@@ -477,15 +537,12 @@ pub fn run_check(
         args.stiffness.as_deref(),
         args.notional.as_deref(),
     )?;
-    let table = resolve_table(&model, model_path, args.combos.as_deref())?;
+    let (table, combo_settings) =
+        table_and_settings(&model, model_path, args.combos.as_deref(), &args.sets)?;
     let cli_params = parse_sets(&args.sets)?;
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
     let arranged = crate::arrange::arrange(&model);
-    let expansion = arranged.apply(expand(
-        &table,
-        &model.load_cases,
-        &overrides(&model, &args.sets)?,
-    )?);
+    let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {

@@ -344,6 +344,8 @@ fn piece(case: &LoadCase, what: &str, description: &str) -> LoadCase {
         description: format!("{}: {description} (arrangement piece)", case.id),
         category: case.category,
         alternative_group: None,
+        level: case.level,
+        reverse: false,
         arrange: false,
         nodal: Vec::new(),
         member: Vec::new(),

@@ -27,6 +27,7 @@ fn one(case: usize) -> Expansion {
         merged: vec![],
         skipped: vec![],
         warnings: vec![],
+        notices: vec![],
     }
 }
 
@@ -307,4 +308,43 @@ fn arranging_other_than_live_load_on_beams_is_an_input_error() {
         "{}",
         err.message
     );
+}
+
+#[test]
+fn cases_and_check_name_the_arrangement() {
+    // Command-line contract (project requirement, no external source): every arrangement
+    // is listed by `cases` with its loaded spans, and the governing case named by `check`
+    // carries the arrangement in its id.
+    let text = generated("live", BEAM_LOAD)
+        + "[[case]]\nid = \"D\"\ncategory = \"dead\"\n"
+        + &BEAM_LOAD.replace("w = 10", "w = 20")
+        + "[combinations]\ntable = \"asce7-16-strength\"\n";
+    let path = std::env::temp_dir().join(format!("plumbline-arrange-{}.toml", std::process::id()));
+    std::fs::write(&path, text).expect("temp file");
+    let run = |args: &[&str]| {
+        let o = std::process::Command::new(env!("CARGO_BIN_EXE_plumbline"))
+            .args(args)
+            .arg(&path)
+            .output()
+            .expect("runs");
+        assert!(o.status.success(), "{}", String::from_utf8_lossy(&o.stderr));
+        String::from_utf8_lossy(&o.stdout).into_owned()
+    };
+    let cases = run(&["cases"]);
+    for tag in [
+        "/L:full",
+        "/L:alt-a",
+        "/L:alt-b",
+        "/L:adj-N2.1",
+        "/L:adj-N2.2",
+    ] {
+        assert!(
+            cases.contains(&format!("2.3.1-2a{tag}")),
+            "{tag} missing:\n{cases}"
+        );
+    }
+    assert!(cases.contains("L on B1.1, B2.2"));
+    let check = run(&["check"]);
+    assert!(check.contains("/L:adj-N2.1"), "{check}");
+    let _ = std::fs::remove_file(&path);
 }

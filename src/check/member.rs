@@ -428,12 +428,12 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         }
         _ => (None, None, Some(1.0)),
     };
-    if method == SecondOrderMethod::AciMagnifier && compression > 0.0 && !is_column {
-        notes.push(format!(
-            "no non-sway magnifier δ: ACI 318-19 6.6.4.5 magnifies columns, not {}s \
-             (common practice, no source)",
-            mem.role
-        ));
+    if method == SecondOrderMethod::AciMagnifier && compression > 0.0 && mem.role == Role::Brace {
+        notes.push(
+            "no non-sway magnifier δ: ACI 318-19 6.6.4.5 magnifies columns; a brace is left \
+             to its own member checks (common practice, no source)"
+                .into(),
+        );
     }
     let b1 = amp_ns.unwrap_or(f64::NAN);
     // The factor on the no-sway part of the diagram: B1 (AISC); 1 for ACI (δ acts on the
@@ -520,24 +520,16 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         }
         None => span,
     };
-    if method == SecondOrderMethod::AciMagnifier {
-        if let Some(r) = ends
+    if method == SecondOrderMethod::AciMagnifier
+        && let Some(r) = ends
             .iter()
             .find_map(|e| above_aci_limit(e.design, e.first_order))
-        {
-            within_limits = false;
-            notes.push(format!(
-                "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
-                 (ACI 318-19 6.2.5.3, from memory)"
-            ));
-        }
-        if aci_non_sway && is_column && compression > 0.0 {
-            notes.push(
-                "non-sway story: M1, M2 are the first-order end moments (ACI 318-19 6.6.4.3, \
-                 6.6.4.5)"
-                    .into(),
-            );
-        }
+    {
+        within_limits = false;
+        notes.push(format!(
+            "second-order end moment is {r:.2} × first-order, above the 1.4 limit \
+             (ACI 318-19 6.2.5.3, from memory)"
+        ));
     }
     if method == SecondOrderMethod::Ec3AlphaCr && compression > 0.0 {
         notes.push("member imperfections and P-δ are left to the member buckling checks (EN 1993-1-1 5.2.2(3)c, 6.3)".into());

@@ -49,12 +49,31 @@ pub enum EvalError {
     NotFinite,
 }
 
+/// The longest factor expression accepted, in bytes. A load factor is a short formula
+/// (`"1.2 + 0.2*s_ds"`); the limit bounds the work and the depth of the parsed tree.
+pub const MAX_EXPR_LEN: usize = 256;
+
+/// The deepest nesting of parentheses and unary signs accepted in a factor expression.
+pub const MAX_EXPR_DEPTH: usize = 16;
+
 impl Expr {
-    /// Parse an expression; the whole text must be consumed.
+    /// Parse an expression; the whole text must be consumed. Expressions longer than
+    /// [`MAX_EXPR_LEN`] bytes or nested deeper than [`MAX_EXPR_DEPTH`] are refused, so the
+    /// work (and the recursion) is bounded whatever the input.
     pub fn parse(text: &str) -> Result<Expr, ExprError> {
+        if text.len() > MAX_EXPR_LEN {
+            return Err(ExprError {
+                offset: MAX_EXPR_LEN,
+                message: format!(
+                    "the expression is {} bytes long; a factor expression is limited to {MAX_EXPR_LEN}",
+                    text.len()
+                ),
+            });
+        }
         let mut p = Parser {
             s: text.as_bytes(),
             pos: 0,
+            depth: 0,
         };
         let e = p.expr()?;
         p.skip_ws();
@@ -125,6 +144,8 @@ impl Expr {
 struct Parser<'a> {
     s: &'a [u8],
     pos: usize,
+    /// Current nesting of parentheses and unary signs.
+    depth: usize,
 }
 
 impl Parser<'_> {
@@ -172,6 +193,18 @@ impl Parser<'_> {
 
     /// unary := ('-' | '+') unary | number | name | '(' expr ')'
     fn unary(&mut self) -> Result<Expr, ExprError> {
+        self.depth += 1;
+        if self.depth > MAX_EXPR_DEPTH {
+            return Err(self.error(&format!(
+                "the expression is nested more than {MAX_EXPR_DEPTH} levels deep (parentheses and signs)"
+            )));
+        }
+        let e = self.unary_inner();
+        self.depth -= 1;
+        e
+    }
+
+    fn unary_inner(&mut self) -> Result<Expr, ExprError> {
         match self.peek() {
             Some(b'-') => {
                 self.pos += 1;
@@ -344,6 +377,20 @@ mod tests {
         assert_eq!(Expr::parse("1.2 x").unwrap_err().offset, 4);
         assert_eq!(Expr::parse("(1").unwrap_err().offset, 2);
         assert_eq!(Expr::parse("1 $ 2").unwrap_err().offset, 2);
+    }
+
+    #[test]
+    fn nesting_and_length_are_bounded() {
+        // Bounded work: 20 000 parentheses used to overflow the stack.
+        let deep = format!("{}1{}", "(".repeat(20_000), ")".repeat(20_000));
+        let e = Expr::parse(&deep).unwrap_err();
+        assert!(e.message.contains("limited to"), "{}", e.message);
+        let nested = format!("{}1{}", "(".repeat(40), ")".repeat(40));
+        assert!(Expr::parse(&nested).unwrap_err().message.contains("nested"));
+        let signs = format!("{}1", "-".repeat(40));
+        assert!(Expr::parse(&signs).unwrap_err().message.contains("nested"));
+        let ok = format!("{}1{}", "(".repeat(10), ")".repeat(10));
+        assert_eq!(Expr::parse(&ok).unwrap().constant(), Some(1.0));
     }
 
     #[test]

@@ -15,6 +15,7 @@
 
 mod expand;
 pub mod expr;
+pub mod levels;
 mod render;
 mod table;
 
@@ -25,15 +26,18 @@ use serde::{Deserialize, Serialize};
 use strum::{Display, EnumString};
 
 use crate::diag::FileError;
-use crate::model::ActionCategory;
 #[cfg(doc)]
 use crate::model::LoadCase;
+use crate::model::{ActionCategory, LoadLevel};
 
-pub use expand::{Expansion, FactoredCase, Merged, Skipped, Unplaced, expand};
+pub use expand::{
+    Expansion, FactoredCase, MAX_FACTORED_CASES, Merged, Notice, Settings, Skipped, Unplaced,
+    expand, expand_with,
+};
 pub use expr::Expr;
 pub use render::{
-    OutputFormat, cases_report, expansion_summary, render_expansion, render_table,
-    render_table_list, term_text,
+    OutputFormat, cases_report, cases_report_with, csv_caution, expansion_summary,
+    render_expansion, render_table, render_table_list, term_text,
 };
 pub use table::parse_table;
 
@@ -69,6 +73,9 @@ pub struct Action {
     /// The model's load cases of this category make up the action.
     pub category: ActionCategory,
     pub kind: ActionKind,
+    /// The load level the table expects for this action's load cases (wind, snow and
+    /// seismic), e.g. strength-level wind for ASCE/SEI 7-16.
+    pub level: Option<LoadLevel>,
 }
 
 /// A factor as written in the table: a number or an expression of parameters.
@@ -91,8 +98,28 @@ pub struct Param {
     pub description: String,
     /// Confidence tag of the default, e.g. `[C: …]`, `[M]`, `verify`.
     pub tag: Option<String>,
+    /// Smallest and largest value the table accepts (inclusive), when it declares them.
+    pub min: Option<f64>,
+    pub max: Option<f64>,
     #[serde(skip)]
     pub span: std::ops::Range<usize>,
+}
+
+impl Param {
+    /// The declared range as text, e.g. `0.5 to 1.0`, `at least 0`.
+    pub fn range_text(&self) -> String {
+        match (self.min, self.max) {
+            (Some(a), Some(b)) => format!("{a} to {b}"),
+            (Some(a), None) => format!("at least {a}"),
+            (None, Some(b)) => format!("at most {b}"),
+            (None, None) => "any finite number".to_string(),
+        }
+    }
+
+    /// Whether `x` lies in the declared range.
+    pub fn accepts(&self, x: f64) -> bool {
+        x.is_finite() && self.min.is_none_or(|a| x >= a) && self.max.is_none_or(|b| x <= b)
+    }
 }
 
 /// One action with its factor inside a term.
@@ -105,6 +132,9 @@ pub struct ActionFactor {
     pub favourable: Option<Factor>,
     /// The action acts in either sense: both signs are generated.
     pub reversible: bool,
+    /// The table allows this factor to evaluate below zero (`allow-negative = true`); any
+    /// other negative factor is an error.
+    pub allow_negative: bool,
 }
 
 /// What a term of a combination contributes.
@@ -222,7 +252,8 @@ pub fn shipped_tables() -> &'static [ShippedTable] {
 
 /// Read a table by shipped name or by path. A relative path is taken against `base_dir`
 /// (the model file's folder) when given. A name that is neither a shipped table nor an
-/// existing file gives an error listing the shipped names.
+/// existing file gives an error that names it as written (not as a path), with the nearest
+/// shipped names; the caller locates it (model file or command line).
 pub fn load_table(name_or_path: &str, base_dir: Option<&Path>) -> Result<ComboTable, FileError> {
     if let Some(t) = SHIPPED.iter().find(|t| t.name == name_or_path) {
         return parse_table(t.text, t.name);
@@ -233,28 +264,58 @@ pub fn load_table(name_or_path: &str, base_dir: Option<&Path>) -> Result<ComboTa
         _ => p.to_path_buf(),
     };
     let looks_like_path = name_or_path.contains(['/', '\\']) || name_or_path.ends_with(".toml");
+    if !looks_like_path && !path.is_file() {
+        return Err(FileError {
+            file: name_or_path.to_string(),
+            line: 0,
+            column: 0,
+            field: "table".to_string(),
+            message: format!("`{name_or_path}` is not a shipped combination table"),
+            help: Some(shipped_help(name_or_path)),
+            span: None,
+            source_text: None,
+        });
+    }
     match std::fs::read_to_string(&path) {
         Ok(text) => parse_table(&text, &path.display().to_string()),
-        Err(e) => {
-            let names: Vec<&str> = SHIPPED.iter().map(|t| t.name).collect();
-            let message = if looks_like_path {
-                format!("cannot read combination table `{}`: {e}", path.display())
-            } else {
-                format!("`{name_or_path}` is not a shipped combination table")
-            };
-            Err(FileError {
-                file: path.display().to_string(),
-                line: 0,
-                column: 0,
-                field: "combos".to_string(),
-                message,
-                help: Some(format!(
-                    "shipped tables: {}; or give the path of a table file",
-                    names.join(", ")
-                )),
-                span: None,
-                source_text: None,
-            })
-        }
+        Err(e) => Err(FileError {
+            file: path.display().to_string(),
+            line: 0,
+            column: 0,
+            field: "table".to_string(),
+            message: format!("cannot read the combination table file: {e}"),
+            help: Some(shipped_help(name_or_path)),
+            span: None,
+            source_text: None,
+        }),
+    }
+}
+
+/// The shipped names closest to `name` first (sharing its longest prefix), then the rest.
+fn shipped_help(name: &str) -> String {
+    let common = |t: &str| {
+        t.chars()
+            .zip(name.chars())
+            .take_while(|(a, b)| a == b)
+            .count()
+    };
+    let best = SHIPPED.iter().map(|t| common(t.name)).max().unwrap_or(0);
+    let near: Vec<&str> = SHIPPED
+        .iter()
+        .filter(|t| best >= 3 && common(t.name) == best)
+        .map(|t| t.name)
+        .collect();
+    let all: Vec<&str> = SHIPPED.iter().map(|t| t.name).collect();
+    if near.is_empty() {
+        format!(
+            "shipped tables: {}; or give the path of a table file",
+            all.join(", ")
+        )
+    } else {
+        format!(
+            "did you mean {}? Shipped tables: {}; or give the path of a table file",
+            near.join(" or "),
+            all.join(", ")
+        )
     }
 }

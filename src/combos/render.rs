@@ -8,8 +8,8 @@ use serde::Serialize;
 use super::expand::format_factor;
 use super::expr::{Expr, resolve};
 use super::{
-    ActionFactor, ComboTable, Expansion, Factor, Term, TermKind, expand, parse_table,
-    shipped_tables,
+    ActionFactor, ComboTable, Expansion, Factor, Settings, Term, TermKind, expand, expand_with,
+    parse_table, shipped_tables,
 };
 use crate::diag::FileError;
 use crate::model::LoadCase;
@@ -30,7 +30,7 @@ pub fn render_table_list() -> Result<String, FileError> {
         ]);
     }
     Ok(format!(
-        "{}\n\nShow one with `plumbline combos NAME`. Verify every table against the edition adopted where the building stands.\n",
+        "{}\n\nShow one with `plumbline combos NAME`. Verify every table against the edition adopted where the building stands.\n\n{CAUTION}\n",
         table_of(&["name", "title", "edition", "basis"], rows)
     ))
 }
@@ -103,12 +103,12 @@ fn term_text_with(table: &ComboTable, term: &Term, show: Show) -> String {
             let c: Vec<String> = companions.iter().map(|a| af_text(table, a, show)).collect();
             let mut s = format!("leading one of ({})", l.join(" | "));
             if !c.is_empty() {
-                let (o, e) = if *optional_companions {
-                    ("[", "]")
+                let others = if *optional_companions {
+                    c.iter().map(|x| format!("[{x}]")).collect::<Vec<_>>()
                 } else {
-                    ("", "")
+                    c
                 };
-                s.push_str(&format!(" + {o}the others of ({}){e}", c.join(" + ")));
+                s.push_str(&format!(" + the others of ({})", others.join(" + ")));
             }
             s
         }
@@ -176,13 +176,17 @@ pub fn render_table(table: &ComboTable) -> String {
                 a.symbol.clone(),
                 a.category.to_string(),
                 a.kind.to_string(),
+                a.level.map_or(String::new(), |l| l.to_string()),
                 a.description.clone(),
             ]
         })
         .collect();
     s.push_str(&format!(
-        "\nActions\n{}\n",
-        table_of(&["symbol", "category", "kind", "description"], actions)
+        "\nActions (level: the load level the table expects for the category)\n{}\n",
+        table_of(
+            &["symbol", "category", "kind", "level", "description"],
+            actions
+        )
     ));
     if !table.params.is_empty() {
         let params = table
@@ -194,6 +198,7 @@ pub fn render_table(table: &ComboTable) -> String {
                     p.default
                         .as_ref()
                         .map_or("(must be set)".to_string(), |d| d.text.clone()),
+                    p.range_text(),
                     p.tag.clone().unwrap_or_default(),
                     p.description.clone(),
                 ]
@@ -201,7 +206,7 @@ pub fn render_table(table: &ComboTable) -> String {
             .collect();
         s.push_str(&format!(
             "\nParameters\n{}\n",
-            table_of(&["name", "default", "tag", "description"], params)
+            table_of(&["name", "default", "range", "tag", "description"], params)
         ));
     }
     let rows = table
@@ -224,9 +229,12 @@ pub fn render_table(table: &ComboTable) -> String {
         })
         .collect();
     s.push_str(&format!(
-        "\nCombinations ([ ] optional: also generated without; ± both signs)\n{}\n",
+        "\nCombinations ([ ] may drop out: also generated without it where the model has it; ± both signs)\n{}\n",
         table_of(&["id", "combination", "with defaults", "tag", "note"], rows)
     ));
+    s.push('\n');
+    s.push_str(CAUTION);
+    s.push('\n');
     s
 }
 
@@ -275,6 +283,7 @@ pub fn render_expansion(
                 "merged": exp.merged,
                 "skipped": exp.skipped,
                 "unplaced": exp.warnings,
+                "notices": exp.notices,
             });
             serde_json::to_string_pretty(&v).unwrap_or_default() + "\n"
         }
@@ -300,6 +309,7 @@ pub fn render_expansion(
                 }
                 s.push('\n');
             }
+            s.push_str(&csv_caution());
             s
         }
         OutputFormat::Table => {
@@ -356,7 +366,16 @@ pub fn expansion_summary(exp: &Expansion) -> String {
             w.cases.join(", ")
         ));
     }
+    for n in &exp.notices {
+        s.push_str(&format!("warning: {}: {}\n", n.at, n.message));
+    }
     s
+}
+
+/// The caution as the last line of a CSV file: a comment line (`# …`), which spreadsheet
+/// users see as a last row and CSV readers with a comment character skip.
+pub fn csv_caution() -> String {
+    format!("# {CAUTION}\n")
 }
 
 fn csv_field(s: &str) -> String {
@@ -376,5 +395,17 @@ pub fn cases_report(
     format: OutputFormat,
 ) -> Result<String, FileError> {
     let exp = expand(table, cases, overrides)?;
+    Ok(render_expansion(table, &exp, cases, format))
+}
+
+/// [`cases_report`] with the model's [`Settings`] (parameters with their locations, load
+/// levels and conversions).
+pub fn cases_report_with(
+    cases: &[LoadCase],
+    table: &ComboTable,
+    settings: &Settings,
+    format: OutputFormat,
+) -> Result<String, FileError> {
+    let exp = expand_with(table, cases, settings)?;
     Ok(render_expansion(table, &exp, cases, format))
 }

@@ -17,14 +17,15 @@ use super::{
     Action, ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Param, Term, TermKind,
 };
 use crate::diag::FileError;
-use crate::model::ActionCategory;
+use crate::model::{ActionCategory, LoadLevel};
 
 type Val<'i> = Spanned<DeValue<'i>>;
 
 /// Keys of a term that are not action symbols.
-const TERM_KEYS: [&str; 7] = [
+const TERM_KEYS: [&str; 8] = [
     "favourable",
     "reversible",
+    "allow-negative",
     "optional",
     "principal",
     "one-of",
@@ -189,7 +190,9 @@ pub fn parse_table(text: &str, file: &str) -> Result<ComboTable, FileError> {
     };
     let doc = DeTable::parse(text).map_err(|e| {
         let span = e.span().unwrap_or(0..0);
-        ctx.err(span, "", format!("not valid TOML: {}", e.message()))
+        let field = crate::input::key_on_line(text, span.start);
+        let message = e.message().trim().trim_end_matches('.').replace('\n', " ");
+        ctx.err(span, &field, format!("not valid TOML: {message}"))
     })?;
     let root = doc.get_ref();
     const TOP: [&str; 11] = [
@@ -253,8 +256,8 @@ pub fn parse_table(text: &str, file: &str) -> Result<ComboTable, FileError> {
     let combos_v = need("combination")?;
     let mut combinations = Vec::new();
     for (i, c) in ctx.array(combos_v, "combination")?.iter().enumerate() {
-        let field = format!("combination[{}]", i + 1);
-        let comb = parse_combination(&ctx, c, &field, &actions)?;
+        let comb = parse_combination(&ctx, c, i, &actions)?;
+        let field = format!("combination {}", comb.id);
         for t in &comb.terms {
             for af in term_factors(t) {
                 check_factor_params(&ctx, &af.factor, &declared, &field)?;
@@ -328,7 +331,7 @@ fn parse_actions(ctx: &Ctx, v: &Val) -> Result<Vec<Action>, FileError> {
                 .with_help("a symbol starts with a letter and holds letters, digits or _ (e.g. D, Lr, Qk1)"));
         }
         let at = ctx.table(val, &field)?;
-        ctx.only_keys(at, &["category", "kind", "description"], &field)?;
+        ctx.only_keys(at, &["category", "kind", "description", "level"], &field)?;
         let cat_v = lookup(at, "category")
             .ok_or_else(|| ctx.err(val.span(), &field, "missing `category` (the model's action category this symbol draws load cases from)"))?;
         let cat_s = ctx.string(cat_v, &format!("{field}.category"))?;
@@ -362,11 +365,33 @@ fn parse_actions(ctx: &Ctx, v: &Val) -> Result<Vec<Action>, FileError> {
             Some(d) => ctx.string(d, &format!("{field}.description"))?,
             None => String::new(),
         };
+        let level = match lookup(at, "level") {
+            Some(lv) => {
+                let f = format!("{field}.level");
+                let s = ctx.string(lv, &f)?;
+                if !category.has_levels() {
+                    return Err(ctx.err(
+                        lv.span(),
+                        &f,
+                        format!("the level of a {category} load is not distinguished: expected `level` only on wind, snow and seismic actions"),
+                    ));
+                }
+                Some(LoadLevel::from_str(&s).map_err(|_| {
+                    let names: Vec<&'static str> = <LoadLevel as strum::IntoEnumIterator>::iter()
+                        .map(|c| c.into())
+                        .collect();
+                    ctx.err(lv.span(), &f, format!("unknown load level `{s}`"))
+                        .with_help(format!("expected one of: {}", names.join(", ")))
+                })?)
+            }
+            None => None,
+        };
         out.push(Action {
             symbol: sym,
             description,
             category,
             kind,
+            level,
         });
     }
     if out.is_empty() {
@@ -402,7 +427,7 @@ fn parse_params(ctx: &Ctx, v: &Val) -> Result<Vec<Param>, FileError> {
                 ));
         }
         let pt = ctx.table(val, &field)?;
-        ctx.only_keys(pt, &["default", "description", "tag"], &field)?;
+        ctx.only_keys(pt, &["default", "description", "tag", "min", "max"], &field)?;
         let default = match lookup(pt, "default") {
             Some(d) => Some(ctx.factor(d, &format!("{field}.default"))?),
             None => None,
@@ -415,13 +440,54 @@ fn parse_params(ctx: &Ctx, v: &Val) -> Result<Vec<Param>, FileError> {
             Some(d) => Some(ctx.string(d, &format!("{field}.tag"))?),
             None => None,
         };
-        out.push(Param {
+        let bound = |key: &str| -> Result<Option<f64>, FileError> {
+            match lookup(pt, key) {
+                None => Ok(None),
+                Some(b) => {
+                    let f = ctx.factor(b, &format!("{field}.{key}"))?;
+                    f.expr.constant().map(Some).ok_or_else(|| {
+                        ctx.err(
+                            b.span(),
+                            &format!("{field}.{key}"),
+                            format!("`{key}` must be a number"),
+                        )
+                    })
+                }
+            }
+        };
+        let (min, max) = (bound("min")?, bound("max")?);
+        if let (Some(a), Some(b)) = (min, max)
+            && a > b
+        {
+            return Err(ctx.err(
+                val.span(),
+                &field,
+                format!("the range is empty: min {a} is above max {b}"),
+            ));
+        }
+        let p = Param {
             name,
             default,
             description,
             tag,
+            min,
+            max,
             span: k.span(),
-        });
+        };
+        if let Some(d) = &p.default
+            && let Some(x) = d.expr.constant()
+            && !p.accepts(x)
+        {
+            return Err(ctx.err(
+                d.span.clone(),
+                &format!("{field}.default"),
+                format!(
+                    "the default {x} is outside the declared range ({})",
+                    p.range_text()
+                ),
+            ));
+        }
+        out.push(p);
     }
     Ok(out)
 }
@@ -483,22 +549,27 @@ fn check_factor_params(
     Ok(())
 }
 
+/// One `[[combination]]`; `index` (0-based) names it in messages until its id is read, then
+/// every message names it `combination ID`.
 fn parse_combination(
     ctx: &Ctx,
     v: &Val,
-    field: &str,
+    index: usize,
     actions: &[Action],
 ) -> Result<Combination, FileError> {
-    let t = ctx.table(v, field)?;
-    ctx.only_keys(t, &["id", "terms", "note", "tag"], field)?;
+    let unnamed = format!("combination number {} (no id yet)", index + 1);
+    let t = ctx.table(v, &unnamed)?;
     let id_v = lookup(t, "id").ok_or_else(|| {
         ctx.err(
             v.span(),
-            field,
+            &unnamed,
             "missing `id` (the standard's number of the combination)",
         )
     })?;
-    let id = ctx.string(id_v, &format!("{field}.id"))?;
+    let id = ctx.string(id_v, &format!("{unnamed}.id"))?;
+    let field_s = format!("combination {id}");
+    let field = field_s.as_str();
+    ctx.only_keys(t, &["id", "terms", "note", "tag"], field)?;
     let note = lookup(t, "note")
         .map(|n| ctx.string(n, &format!("{field}.note")))
         .transpose()?;
@@ -631,6 +702,7 @@ fn factor_map(
                 factor: ctx.factor(fv, &f)?,
                 favourable: None,
                 reversible: false,
+                allow_negative: false,
             })
         })
         .collect()
@@ -673,11 +745,13 @@ fn action_factor(
     let mut found: Option<(usize, Factor)> = None;
     let mut favourable = None;
     let mut reversible = false;
+    let mut allow_negative = false;
     for (k, v) in ctx.entries(t) {
         let key = k.get_ref().as_ref();
         match key {
             "favourable" => favourable = Some(ctx.factor(v, &join(field, key))?),
             "reversible" => reversible = ctx.boolean(v, &join(field, key))?,
+            "allow-negative" => allow_negative = ctx.boolean(v, &join(field, key))?,
             "optional" | "principal" if !in_one_of => {}
             _ => {
                 let f = join(field, key);
@@ -712,5 +786,6 @@ fn action_factor(
         factor,
         favourable,
         reversible,
+        allow_negative,
     })
 }

@@ -106,7 +106,7 @@ fn header_path(before: &str, line: &str) -> String {
 
 /// The key assigned on the line holding byte `pos` (`key = ...`), or the table header
 /// (`[frame]`, `[[case.member_load]]`), or `(toml)`.
-fn key_on_line(text: &str, pos: usize) -> String {
+pub(crate) fn key_on_line(text: &str, pos: usize) -> String {
     let pos = text.floor_char_boundary(pos.min(text.len()));
     let start = text[..pos].rfind('\n').map_or(0, |k| k + 1);
     let line = text[start..].lines().next().unwrap_or("").trim();

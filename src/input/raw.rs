@@ -173,6 +173,11 @@ pub struct RawCase {
     pub description: Option<S<String>>,
     pub category: S<String>,
     pub alternative: Option<S<String>>,
+    /// `strength`, `nominal`, `characteristic`, `specified` or `ultimate` (wind, snow and
+    /// seismic cases only).
+    pub level: Option<S<String>>,
+    /// Also act with every load reversed.
+    pub reverse: Option<S<bool>>,
     pub self_weight: Option<S<bool>>,
     /// Place this live load in the arrangements of alternate and adjacent spans.
     pub arrange: Option<S<bool>>,
@@ -220,6 +225,19 @@ pub struct RawCombinations {
     pub table: Option<S<String>>,
     #[serde(default)]
     pub params: BTreeMap<String, S<Num>>,
+    #[serde(default)]
+    pub convert: Vec<S<RawConvert>>,
+}
+
+/// `[[combinations.convert]]`: load cases of `category` at level `from` are multiplied by
+/// `factor` where a table expects level `to`.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+pub struct RawConvert {
+    pub category: S<String>,
+    pub from: S<String>,
+    pub to: S<String>,
+    pub factor: S<Num>,
 }
 
 #[derive(Debug, Deserialize)]

@@ -16,9 +16,10 @@ use super::raw::{
 use super::select;
 use crate::diag::{FileError, line_col};
 use crate::model::{
-    ActionCategory, AnalysisOptions, ComboChoice, LoadCase, LoadDirection, Material, Measure,
-    Member, MemberLoad, MemberLoadKind, Model, NodalLoad, Node, NotionalLoads, Restraint, Role,
-    SecondOrderMethod, Section, SettingOrigin, StiffnessPreset, StoryDeclaration, Support,
+    ActionCategory, AnalysisOptions, ComboChoice, LevelConversion, LoadCase, LoadDirection,
+    LoadLevel, Material, Measure, Member, MemberLoad, MemberLoadKind, Model, ModelSpans, NodalLoad,
+    Node, NotionalLoads, Restraint, Role, SecondOrderMethod, Section, SettingOrigin,
+    StiffnessPreset, StoryDeclaration, Support,
 };
 use crate::units::{Dimension, UnitSystem, parse_quantity};
 
@@ -420,6 +421,15 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
     model.analysis = analysis;
     model.stories = stories;
     model.load_cases = load_cases(&ctx, &raw.case, &model)?;
+    for c in &raw.case {
+        let c = c.get_ref();
+        let span = c.level.as_ref().map_or(c.id.span(), |l| l.span());
+        model
+            .combos
+            .written
+            .cases
+            .insert(c.id.get_ref().clone(), span);
+    }
     Ok(model)
 }
 
@@ -680,8 +690,16 @@ fn check_geometry(
 }
 
 fn combinations(ctx: &Ctx, raw: Option<&S<RawCombinations>>) -> Result<ComboChoice, FileError> {
+    let mut written = ModelSpans {
+        file: ctx.file.clone(),
+        text: Some(ctx.text.clone()),
+        ..ModelSpans::default()
+    };
     let Some(c) = raw else {
-        return Ok(ComboChoice::default());
+        return Ok(ComboChoice {
+            written,
+            ..ComboChoice::default()
+        });
     };
     let c = c.get_ref();
     let mut params = BTreeMap::new();
@@ -694,10 +712,42 @@ fn combinations(ctx: &Ctx, raw: Option<&S<RawCombinations>>) -> Result<ComboChoi
                 &format!("combinations.params.{name}"),
             )?,
         );
+        written.params.insert(name.clone(), v.span());
     }
+    let categories: Vec<&'static str> = ActionCategory::iter().map(|a| a.into()).collect();
+    let levels: Vec<&'static str> = LoadLevel::iter().map(|a| a.into()).collect();
+    let mut conversions = Vec::new();
+    for (k, cv) in c.convert.iter().enumerate() {
+        let field = |name: &str| format!("combinations.convert[{}].{name}", k + 1);
+        let r = cv.get_ref();
+        let category =
+            ctx.choice::<ActionCategory>(&r.category, &field("category"), &categories)?;
+        if !category.has_levels() {
+            return Err(ctx.err(
+                r.category.span(),
+                &field("category"),
+                format!(
+                    "{category} loads have no levels to convert: expected wind, snow or seismic"
+                ),
+            ));
+        }
+        let from = ctx.choice::<LoadLevel>(&r.from, &field("from"), &levels)?;
+        let to = ctx.choice::<LoadLevel>(&r.to, &field("to"), &levels)?;
+        let factor = ctx.positive(&r.factor, Dimension::Dimensionless, &field("factor"))?;
+        conversions.push(LevelConversion {
+            category,
+            from,
+            to,
+            factor,
+        });
+        written.conversions.push(cv.span());
+    }
+    written.table = c.table.as_ref().map(|t| t.span());
     Ok(ComboChoice {
         table: c.table.as_ref().map(|t| t.get_ref().clone()),
         params,
+        conversions,
+        written,
     })
 }
 
@@ -904,6 +954,20 @@ fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCa
                 }
             }
         }
+        let level = match &c.level {
+            Some(l) => {
+                if !category.has_levels() {
+                    return Err(ctx.err(
+                        l.span(),
+                        &field("level"),
+                        format!("the level of a {category} load is not distinguished: expected `level` only on wind, snow and seismic cases"),
+                    ));
+                }
+                let names: Vec<&'static str> = LoadLevel::iter().map(|a| a.into()).collect();
+                Some(ctx.choice::<LoadLevel>(l, &field("level"), &names)?)
+            }
+            None => None,
+        };
         let mut case = LoadCase {
             id: c.id.get_ref().clone(),
             description: c
@@ -913,6 +977,8 @@ fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCa
                 .unwrap_or_default(),
             category,
             alternative_group: c.alternative.as_ref().map(|g| g.get_ref().clone()),
+            level,
+            reverse: c.reverse.as_ref().is_some_and(|r| *r.get_ref()),
             arrange: c.arrange.as_ref().is_some_and(|a| *a.get_ref()),
             nodal: Vec::new(),
             member: Vec::new(),

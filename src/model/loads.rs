@@ -48,6 +48,60 @@ pub enum ActionCategory {
     Temperature,
 }
 
+/// The level at which the magnitudes of a load case were computed, where the trade
+/// distinguishes levels (wind, snow, seismic). The names are plumbline's; each stands for the
+/// definition of the standards listed. A combination table states the level it expects for
+/// each category; a load case of another level is refused unless the model states a
+/// conversion (see `docs/combination-tables.md`, "Load levels").
+#[derive(
+    Debug,
+    Clone,
+    Copy,
+    PartialEq,
+    Eq,
+    Hash,
+    PartialOrd,
+    Ord,
+    Serialize,
+    Deserialize,
+    Display,
+    EnumString,
+    EnumIter,
+    IntoStaticStr,
+)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum LoadLevel {
+    /// Strength level, used with a load factor of 1.0 in strength design: wind by ASCE/SEI
+    /// 7-10, 7-16 and 7-22, snow by ASCE/SEI 7-22, seismic E by ASCE/SEI 7.
+    Strength,
+    /// Nominal (about 50-year) level, factored 1.6 in strength design: snow by ASCE/SEI 7-16,
+    /// wind by ASCE 7-05 and earlier.
+    Nominal,
+    /// Characteristic value of EN 1990 §4.1.2 (wind by EN 1991-1-4, snow by EN 1991-1-3).
+    Characteristic,
+    /// Specified load of the NBCC (Division B, Part 4).
+    Specified,
+    /// Ultimate action of AS/NZS 1170 (Wu, Su, Eu).
+    Ultimate,
+}
+
+impl ActionCategory {
+    /// Categories whose load cases may state a [`LoadLevel`]: the trade distinguishes levels
+    /// only for wind, snow and seismic loads.
+    pub fn has_levels(self) -> bool {
+        matches!(
+            self,
+            ActionCategory::Wind | ActionCategory::Snow | ActionCategory::Seismic
+        )
+    }
+
+    /// Lateral categories: a planar frame must be checked with them acting from either side.
+    pub fn is_lateral(self) -> bool {
+        matches!(self, ActionCategory::Wind | ActionCategory::Seismic)
+    }
+}
+
 /// Direction of a member load.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, Display, EnumString)]
 #[serde(rename_all = "kebab-case")]
@@ -133,12 +187,36 @@ pub struct LoadCase {
     /// alternatives (wind from the left or from the right); each factored case is generated
     /// once per alternative. Cases without a group add up with every alternative.
     pub alternative_group: Option<String>,
+    /// The level the magnitudes were computed at (wind, snow and seismic only); `None` when
+    /// the model does not say.
+    pub level: Option<LoadLevel>,
+    /// Also act with every load reversed (a lateral load from the other side): the case
+    /// and its negative are alternatives.
+    pub reverse: bool,
     /// Live load on beams placed in the arrangements of [`crate::arrange`] (ACI 318-19
     /// §6.4.3, EN 1992-1-1 §5.1.3) instead of on every span at once.
     pub arrange: bool,
     pub nodal: Vec<NodalLoad>,
     /// Member loads, including self-weight already expanded into gravity loads.
     pub member: Vec<MemberLoad>,
+}
+
+impl LoadCase {
+    /// An empty load case of `category`: no description, no alternative group, no stated
+    /// level, not reversed, no loads. Builders and tests fill in the rest.
+    pub fn new(id: &str, category: ActionCategory) -> LoadCase {
+        LoadCase {
+            id: id.to_string(),
+            description: String::new(),
+            category,
+            alternative_group: None,
+            level: None,
+            reverse: false,
+            arrange: false,
+            nodal: Vec::new(),
+            member: Vec::new(),
+        }
+    }
 }
 
 /// A member load in member-local axes, ready for the solver: the canonical form every

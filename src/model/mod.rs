@@ -12,8 +12,8 @@ use std::collections::BTreeMap;
 use strum::{Display, EnumString};
 
 pub use loads::{
-    ActionCategory, LoadCase, LoadDirection, LocalLoad, Measure, MemberLoad, MemberLoadKind,
-    NodalLoad,
+    ActionCategory, LoadCase, LoadDirection, LoadLevel, LocalLoad, Measure, MemberLoad,
+    MemberLoadKind, NodalLoad,
 };
 
 use crate::units::UnitSystem;
@@ -240,12 +240,81 @@ pub struct StoryDeclaration {
     pub levels: Vec<f64>,
 }
 
-/// Which combination table a model uses, and its parameter overrides.
+/// Which combination table a model uses, its parameter overrides and its load-level
+/// conversions, with where each was written (for located errors).
 #[derive(Debug, Clone, PartialEq, Default, Serialize)]
 pub struct ComboChoice {
     /// Shipped table name or path, relative to the model file.
     pub table: Option<String>,
     pub params: BTreeMap<String, f64>,
+    /// Conversions the engineer states between load levels (`[[combinations.convert]]`).
+    pub conversions: Vec<LevelConversion>,
+    /// Where the values above and the load cases were written in the model file.
+    #[serde(skip)]
+    pub written: ModelSpans,
+}
+
+/// A conversion between load levels stated in the model: load cases of `category` at level
+/// `from` are multiplied by `factor` where a table expects level `to`.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LevelConversion {
+    pub category: ActionCategory,
+    pub from: LoadLevel,
+    pub to: LoadLevel,
+    pub factor: f64,
+}
+
+/// Byte ranges in the model file of the combination settings and load cases, so that a
+/// mistake found while generating factored cases points at the model's line.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct ModelSpans {
+    /// The model file's name as given.
+    pub file: String,
+    /// The model file's text (absent for models built in code).
+    pub text: Option<std::sync::Arc<str>>,
+    /// `[combinations] table`.
+    pub table: Option<std::ops::Range<usize>>,
+    /// `[combinations] params.NAME`, by name.
+    pub params: BTreeMap<String, std::ops::Range<usize>>,
+    /// Each load case by id: its `level` key when written, else its `id`.
+    pub cases: BTreeMap<String, std::ops::Range<usize>>,
+    /// `[[combinations.convert]]` entries, in order.
+    pub conversions: Vec<std::ops::Range<usize>>,
+}
+
+impl ModelSpans {
+    /// A located error in the model file at `span` (unlocated when the model has no text).
+    pub fn error(
+        &self,
+        span: Option<std::ops::Range<usize>>,
+        field: &str,
+        message: impl Into<String>,
+    ) -> crate::diag::FileError {
+        match &self.text {
+            Some(text) => crate::diag::FileError::at(&self.file, text, span, field, message),
+            None => crate::diag::FileError {
+                file: self.file.clone(),
+                line: 0,
+                column: 0,
+                field: field.to_string(),
+                message: message.into(),
+                help: None,
+                span: None,
+                source_text: None,
+            },
+        }
+    }
+
+    /// `file:line:column` of `span`, or the file name alone.
+    pub fn place(&self, span: Option<&std::ops::Range<usize>>) -> String {
+        match (&self.text, span) {
+            (Some(t), Some(s)) => {
+                let (l, c) = crate::diag::line_col(t, s.start);
+                format!("{}:{l}:{c}", self.file)
+            }
+            _ => self.file.clone(),
+        }
+    }
 }
 
 /// A validated planar frame.

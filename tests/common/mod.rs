@@ -107,15 +107,7 @@ impl Frame {
     }
 
     pub fn case(&mut self, id: &str, category: ActionCategory) -> usize {
-        self.model.load_cases.push(LoadCase {
-            id: id.into(),
-            description: String::new(),
-            category,
-            alternative_group: None,
-            arrange: false,
-            nodal: vec![],
-            member: vec![],
-        });
+        self.model.load_cases.push(LoadCase::new(id, category));
         self.model.load_cases.len() - 1
     }
 
