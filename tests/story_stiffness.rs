@@ -232,3 +232,49 @@ fn leaning_column_is_left_out_of_pmf_however_it_is_modelled() {
         assert_relative_eq!(s.r_m, 0.94, max_relative = 1e-4);
     }
 }
+
+#[test]
+fn second_order_drifts_sit_beside_the_first_order_ones() {
+    // Issue 7 item 7. Closed form: the story bottoms are the tops of the stories below, so
+    // the top drift (top level less base) is the sum of the interstory drifts; P-Δ under
+    // compression amplifies the sway, so the second-order drift is larger than the
+    // first-order one and of the same sign (AISC 360-16 Commentary App. 8, from memory), and
+    // Δ2nd/Δ1st is their ratio by definition.
+    let (m, d) = issue_frame();
+    let mut f = Frame { model: m };
+    let w = f.case("W", ActionCategory::Wind);
+    f.nodal(w, 2, 20e3, 0.0, 0.0);
+    f.nodal(w, 4, 10e3, 0.0, 0.0);
+    let report = run(&f.model, &strength("1.2D+1.0W", &[(d, 1.2), (w, 1.0)]));
+    let c = &report.cases[0];
+    let sum1: f64 = c.stories.iter().map(|s| s.drift_first_order).sum();
+    assert_relative_eq!(c.top_drift_first_order, sum1, max_relative = 1e-9);
+    let sum2: f64 = c
+        .stories
+        .iter()
+        .map(|s| s.drift_second_order.unwrap())
+        .sum();
+    assert_relative_eq!(c.top_drift_second_order.unwrap(), sum2, max_relative = 1e-9);
+    assert!(c.top_drift_second_order.unwrap() > c.top_drift_first_order);
+    assert!(c.top_drift_first_order > 0.0);
+    for s in &c.stories {
+        let (d1, d2) = (s.drift_first_order, s.drift_second_order.unwrap());
+        assert_relative_eq!(s.drift, d1, max_relative = 1e-9);
+        assert_relative_eq!(
+            s.drift_amplification.unwrap(),
+            d2 / d1,
+            max_relative = 1e-12
+        );
+    }
+}
+
+#[test]
+fn round_off_drift_reads_negligible() {
+    // Issue 7 item 9: a drift of 1e-19 of the height is round-off, never "1/1e19"; below
+    // 1/10 000 000 it reads "negligible" (common practice, no source).
+    use plumbline::report::drift_ratio_text;
+    assert_eq!(drift_ratio_text(1.44e-19), "negligible");
+    assert_eq!(drift_ratio_text(0.0), "negligible");
+    assert_eq!(drift_ratio_text(f64::NAN), "-");
+    assert_eq!(drift_ratio_text(-1.0 / 400.0), "1/400");
+}

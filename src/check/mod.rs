@@ -99,6 +99,11 @@ pub struct CaseCheck {
     /// False when the case exceeds a critical load (story, member or frame).
     pub stable: bool,
     pub stories: Vec<StoryFigures>,
+    /// Drift of the top level, first order (no-sway + sway), m.
+    pub top_drift_first_order: f64,
+    /// Drift of the top level in the direct second-order analysis, m (None if it did not
+    /// converge). Factored loads, analysis stiffness: not a serviceability drift.
+    pub top_drift_second_order: Option<f64>,
     pub members: Vec<MemberCheck>,
     /// Largest out-of-balance force at a node of the case's first-order solution, N
     /// (moments divided by a unit length; a combination sums |factor| × each part's).
@@ -341,6 +346,11 @@ impl Context<'_> {
                 direct: direct_status,
                 stable,
                 stories: figures,
+                top_drift_first_order: story::top_drift(self.stories, &combined.no_sway)
+                    + story::top_drift(self.stories, &sway),
+                top_drift_second_order: direct_solution
+                    .as_ref()
+                    .map(|d| story::top_drift(self.stories, &d.0)),
                 members,
                 residual: total.residual.max_nodal,
                 residual_relative: total.residual.relative(),

@@ -264,6 +264,13 @@ pub struct StoryFigures {
     pub delta_s_q: Option<f64>,
     /// α_cr of the story, EN 1993-1-1 (5.2).
     pub alpha_cr_story: f64,
+    /// First-order interstory drift of the case (no-sway + sway), m: the same as `drift`
+    /// (the no-sway part holds every level), kept beside the second-order one.
+    pub drift_first_order: f64,
+    /// Second-order interstory drift of the direct analysis, m (None if it did not
+    /// converge). Under factored loads and the analysis stiffness: not a serviceability
+    /// drift.
+    pub drift_second_order: Option<f64>,
     /// Δ2nd/Δ1st from the direct second-order analysis (None without first-order drift).
     pub drift_amplification: Option<f64>,
     /// The amplifier applied to this story's sway moments by the chosen method.
@@ -370,6 +377,24 @@ pub fn drift_of(st: &Story, u: &[[f64; 3]]) -> f64 {
     mean_x(u, &st.top_nodes) - mean_x(u, &st.bottom_nodes)
 }
 
+/// Drift of the top level: mean X translation of the top story's top nodes less that of
+/// the first story's bottom nodes, m.
+pub fn top_drift(stories: &[Story], s: &Solution) -> f64 {
+    match (stories.first(), stories.last()) {
+        (Some(bottom), Some(top)) => {
+            mean_x(&s.displacements, &top.top_nodes)
+                - mean_x(&s.displacements, &bottom.bottom_nodes)
+        }
+        _ => 0.0,
+    }
+}
+
+/// What every drift of `check` is, in plain words (issue 7 item 7).
+pub const DRIFT_NOTE: &str = "Drifts here are under factored loads, with the analysis \
+stiffness (reduced where the method calls for it) and notional loads: they are strength \
+figures, not serviceability drifts. Check serviceability drift under service loads and \
+gross stiffness.";
+
 /// Story figures before classification. `level_forces` are the case's net lateral forces
 /// at the levels (reversed holding forces plus notional loads), `sway` the sway solution
 /// under them, `stiffness` each story's H/Δ from [`story_stiffness`].
@@ -411,6 +436,8 @@ pub fn figures(
                 q_index,
                 delta_s_q: aci::delta_s_q(q_index),
                 alpha_cr_story: ec3::alpha_cr(k_h.stiffness, h, p),
+                drift_first_order: drift,
+                drift_second_order: None,
                 drift_amplification: None,
                 sway_amplifier: None,
                 classification: Classification::NonSway,
@@ -489,6 +516,8 @@ pub fn classify(
 ) -> Vec<StoryFigures> {
     for (f, st) in figures.iter_mut().zip(stories) {
         let first = story_drift(st, no_sway) + story_drift(st, sway);
+        f.drift_first_order = first;
+        f.drift_second_order = direct.map(|d| story_drift(st, d));
         f.drift_amplification = direct.and_then(|d| {
             let second = story_drift(st, d);
             (first.abs() > 1e-12 * f.height).then(|| second / first)

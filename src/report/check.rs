@@ -58,6 +58,8 @@ pub fn detail_text(model: &Model, report: &CheckReport) -> String {
         out.push('\n');
     }
     out.push_str(PATTERN_LEGEND);
+    out.push('\n');
+    out.push_str(crate::check::story::DRIFT_NOTE);
     out.push_str("\n\n");
     out
 }
@@ -142,6 +144,14 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
             out.push_str(&format!("    rule: {}\n", t.rule));
         }
     }
+    let ld = u.label(Dimension::Displacement);
+    let d = |v: f64| num(u.from_si(v, Dimension::Displacement), 2);
+    out.push_str(&format!(
+        "  top drift ({ld}): first-order {}, second-order {} (factored loads: not a \
+         serviceability drift)\n",
+        d(c.top_drift_first_order),
+        c.top_drift_second_order.map_or("-".into(), d)
+    ));
     if !c.stable {
         out.push_str("  UNSTABLE: the loads exceed a critical load; no design values are given\n");
     }
@@ -174,6 +184,7 @@ fn story_header(model: &Model) -> Vec<String> {
         format!("H ({lf})"),
         format!("drift ({ld})"),
         "drift/h".into(),
+        format!("drift 2nd ({ld})"),
         "Q".into(),
         "B2".into(),
         "δs".into(),
@@ -212,11 +223,10 @@ fn story_row(model: &Model, s: &StoryFigures, decimals: usize) -> Vec<String> {
         f(s.sum_p),
         f(s.shear),
         num(u.from_si(s.drift, Dimension::Displacement), decimals + 2),
-        if s.drift_ratio == 0.0 {
-            "0".into()
-        } else {
-            format!("1/{:.0}", 1.0 / s.drift_ratio.abs())
-        },
+        super::drift_ratio_text(s.drift_ratio),
+        s.drift_second_order.map_or("-".into(), |d| {
+            num(u.from_si(d, Dimension::Displacement), decimals + 2)
+        }),
         num(s.q_index, 3),
         opt(s.b2, 3),
         opt(s.delta_s_q, 3),

@@ -86,3 +86,18 @@ pub fn num(v: f64, decimals: usize) -> String {
 pub fn opt(v: Option<f64>, decimals: usize) -> String {
     v.map_or_else(|| "-".into(), |v| num(v, decimals))
 }
+
+/// Below this |drift/h| a drift is round-off, not a figure (issue 7 item 9; common practice,
+/// no source: 1/10 000 000 of a story height is far below any drift limit).
+pub const NEGLIGIBLE_DRIFT_RATIO: f64 = 1e-7;
+
+/// A drift ratio as `1/N`, `negligible` for round-off, `-` when it does not exist.
+pub fn drift_ratio_text(r: f64) -> String {
+    if !r.is_finite() {
+        "-".into()
+    } else if r.abs() < NEGLIGIBLE_DRIFT_RATIO {
+        "negligible".into()
+    } else {
+        format!("1/{:.0}", 1.0 / r.abs())
+    }
+}

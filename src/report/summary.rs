@@ -234,8 +234,7 @@ fn peak(p: &Option<Peak>, decimals: usize) -> String {
 /// `1/N (case)` for a drift ratio.
 fn drift_peak(p: &Option<Peak>) -> String {
     match p {
-        Some(p) if p.value > 0.0 => format!("1/{:.0} ({})", 1.0 / p.value, p.case),
-        Some(p) => format!("0 ({})", p.case),
+        Some(p) => format!("{} ({})", super::drift_ratio_text(p.value), p.case),
         None => "-".into(),
     }
 }
@@ -544,7 +543,10 @@ pub fn text(s: &Summary) -> String {
         out.push_str(&l);
         out.push('\n');
     }
-    out.push_str(&format!("{SIGN_NOTE}\n{CAUTION}\n"));
+    out.push_str(&format!(
+        "{SIGN_NOTE}\n{}\n{CAUTION}\n",
+        crate::check::story::DRIFT_NOTE
+    ));
     out
 }
 
