@@ -121,22 +121,46 @@ fn peak_mb() -> f64 {
         .map_or(0.0, |kb| kb / 1024.0)
 }
 
-/// One run of one frame: prints `members cases checked time_ms peak_mb`.
+/// CPU time (user + system) of this process so far, ms (Linux `/proc/self/stat`, 100
+/// ticks per second; 0 elsewhere). On a shared machine it is steadier than the wall clock.
+fn cpu_ms() -> f64 {
+    std::fs::read_to_string("/proc/self/stat")
+        .ok()
+        .and_then(|s| {
+            // Fields after the command name (which ends with ')'): utime is the 12th and
+            // stime the 13th of them.
+            let rest = s.rsplit_once(')')?.1;
+            let f: Vec<&str> = rest.split_whitespace().collect();
+            let ticks = f.get(11)?.parse::<f64>().ok()? + f.get(12)?.parse::<f64>().ok()?;
+            Some(ticks * 10.0)
+        })
+        .unwrap_or(0.0)
+}
+
+/// One run of one frame: prints `members cases checked time_ms peak_mb cpu_ms`.
 fn run_frame(bays: usize, stories: usize, limit: Option<usize>) {
     let (model, mut cases) = frame(bays, stories);
     if let Some(k) = limit {
         cases.truncate(k);
     }
-    let t = Instant::now();
-    let report = check(&model, &cases).expect("bench frame checks");
+    let (t, cpu0) = (Instant::now(), cpu_ms());
+    let report = match check(&model, &cases) {
+        Ok(r) => r,
+        Err(e) => {
+            println!("ERR {e}");
+            return;
+        }
+    };
     let ms = t.elapsed().as_secs_f64() * 1e3;
+    let cpu = cpu_ms() - cpu0;
     println!(
-        "{} {} {} {:.1} {:.1}",
+        "{} {} {} {:.1} {:.1} {:.0}",
         model.members.len(),
         cases.len(),
         report.cases.len(),
         ms,
-        peak_mb()
+        peak_mb(),
+        cpu
     );
 }
 
@@ -147,10 +171,11 @@ struct Run {
     checked: usize,
     ms: f64,
     mb: f64,
+    cpu: f64,
 }
 
-/// Run one frame in a child process (its own peak memory).
-fn child(bays: usize, stories: usize, limit: Option<usize>) -> Run {
+/// Run one frame in a child process (its own peak memory); the check's error if it fails.
+fn child(bays: usize, stories: usize, limit: Option<usize>) -> Result<Run, String> {
     let exe = std::env::current_exe().expect("own path");
     let mut cmd = Command::new(exe);
     cmd.args(["frame", &bays.to_string(), &stories.to_string()]);
@@ -164,39 +189,54 @@ fn child(bays: usize, stories: usize, limit: Option<usize>) -> Run {
         String::from_utf8_lossy(&out.stderr)
     );
     let text = String::from_utf8_lossy(&out.stdout);
+    if let Some(err) = text.strip_prefix("ERR ") {
+        return Err(err.trim().to_string());
+    }
     let v: Vec<f64> = text
         .split_whitespace()
         .map(|w| w.parse().expect("number"))
         .collect();
-    Run {
+    Ok(Run {
         members: v[0] as usize,
         cases: v[1] as usize,
         checked: v[2] as usize,
         ms: v[3],
         mb: v[4],
-    }
+        cpu: v[5],
+    })
 }
 
-/// Median of `runs` children of one frame.
-fn measured(bays: usize, stories: usize, limit: Option<usize>, runs: usize) -> (Run, Vec<f64>) {
-    let all: Vec<Run> = (0..runs).map(|_| child(bays, stories, limit)).collect();
+/// Median of `runs` children of one frame (and every run's time), or the check's error.
+fn measured(
+    bays: usize,
+    stories: usize,
+    limit: Option<usize>,
+    runs: usize,
+) -> Result<(Run, Vec<f64>), String> {
+    let all: Vec<Run> = (0..runs)
+        .map(|_| child(bays, stories, limit))
+        .collect::<Result<_, _>>()?;
     let mut times: Vec<f64> = all.iter().map(|r| r.ms).collect();
     times.sort_by(f64::total_cmp);
     let mb = all.iter().map(|r| r.mb).fold(0.0, f64::max);
+    let mut cpu: Vec<f64> = all.iter().map(|r| r.cpu).collect();
+    cpu.sort_by(f64::total_cmp);
     let first = &all[0];
-    (
+    Ok((
         Run {
             ms: times[times.len() / 2],
             mb,
+            cpu: cpu[cpu.len() / 2],
             ..*first
         },
         times,
-    )
+    ))
 }
 
 /// Skyline LDLᵀ against nalgebra's dense Cholesky on the free frame's first-order stiffness.
 fn dense_baseline(sizes: &[(usize, usize)]) {
     println!("\ndense baseline: one factorization of the free frame's stiffness");
+    println!("(dense O(n³) grows 8x per doubling of n: larger frames are not practical)");
     println!("frame        equations   skyline (ms)   dense Cholesky (ms)   ratio");
     for &(bays, stories) in sizes {
         let (model, _) = frame(bays, stories);
@@ -234,7 +274,7 @@ fn main() {
         return;
     }
     if args.iter().any(|a| a == "dense") {
-        dense_baseline(&[(10, 25), (20, 50), (20, 100), (1, 1000)]);
+        dense_baseline(&[(10, 25), (20, 25), (20, 50)]);
         return;
     }
     let quick = args.iter().any(|a| a == "quick");
@@ -246,17 +286,27 @@ fn main() {
     let runs = if quick { 1 } else { 3 };
     println!("whole check, ASCE/SEI 7-16 strength table, AISC App. 8 with notional loads");
     println!("median of {runs} runs (wall clock), peak = largest resident high-water mark");
-    println!("frame        members   cases   checked   time (ms)   peak (MB)   runs (ms)");
+    println!("time: wall clock; cpu: user + system time of all threads (both medians)");
+    println!(
+        "frame        members   cases   checked   time (ms)    cpu (ms)   peak (MB)   runs (ms)"
+    );
     for &(bays, stories) in sizes {
-        let (r, times) = measured(bays, stories, None, runs);
+        let (r, times) = match measured(bays, stories, None, runs) {
+            Ok(x) => x,
+            Err(e) => {
+                println!("{bays:>3} x {stories:<6} check failed: {e}");
+                continue;
+            }
+        };
         println!(
-            "{:>3} x {:<6} {:>9} {:>7} {:>9} {:>11.0} {:>11.0}   {:?}",
+            "{:>3} x {:<6} {:>9} {:>7} {:>9} {:>11.0} {:>11.0} {:>11.0}   {:?}",
             bays,
             stories,
             r.members,
             r.cases,
             r.checked,
             r.ms,
+            r.cpu,
             r.mb,
             times.iter().map(|t| t.round()).collect::<Vec<_>>()
         );
@@ -265,16 +315,26 @@ fn main() {
         return;
     }
     println!("\ncases x time on the 20 x 50 frame (first k factored cases)");
-    println!("cases   checked   time (ms)");
-    for k in [3, 6, 12, 24] {
-        let (r, _) = measured(20, 50, Some(k), runs);
-        println!("{:>5} {:>9} {:>11.0}", r.cases, r.checked, r.ms);
+    println!("cases   checked   time (ms)    cpu (ms)");
+    for k in 1..=6 {
+        let Ok((r, _)) = measured(20, 50, Some(k), runs) else {
+            continue;
+        };
+        println!(
+            "{:>5} {:>9} {:>11.0} {:>11.0}",
+            r.cases, r.checked, r.ms, r.cpu
+        );
     }
     println!("\nmembers x time, 20 bays (all factored cases)");
-    println!("stories   members   time (ms)   peak (MB)");
+    println!("stories   members   time (ms)    cpu (ms)   peak (MB)");
     for s in [10, 25, 50, 75, 100] {
-        let (r, _) = measured(20, s, None, runs);
-        println!("{:>7} {:>9} {:>11.0} {:>11.0}", s, r.members, r.ms, r.mb);
+        let Ok((r, _)) = measured(20, s, None, runs) else {
+            continue;
+        };
+        println!(
+            "{:>7} {:>9} {:>11.0} {:>11.0} {:>11.0}",
+            s, r.members, r.ms, r.cpu, r.mb
+        );
     }
-    dense_baseline(&[(10, 25), (20, 50), (20, 100), (1, 1000)]);
+    dense_baseline(&[(10, 25), (20, 25), (20, 50)]);
 }

@@ -494,7 +494,10 @@ impl Row<'_, '_> {
         let x = f.expr.eval(self.values).map_err(|e| {
             let (span, field, message) = match e {
                 EvalError::Unset(n) | EvalError::Unknown(n) => {
-                    let span = self.table.param(&n).map_or(f.span.clone(), |q| q.span.clone());
+                    let span = self
+                        .table
+                        .param(&n)
+                        .map_or(f.span.clone(), |q| q.span.clone());
                     (
                         span,
                         format!("params.{n}"),
@@ -505,14 +508,20 @@ impl Row<'_, '_> {
                     f.span.clone(),
                     format!("combination {comb}"),
                     format!(
-                        "combination {comb}: factor `{}` on {} is not a finite number (division by zero?)",
+                        "factor `{}` on {} is not a finite number (division by zero?)",
                         f.text,
                         self.symbol(p.action)
                     ),
                 ),
             };
-            FileError::at(&self.table.file, &self.table.source_text, Some(span), field, message)
-                .with_help("set it in the model file's [combinations] params or with --set NAME=VALUE")
+            FileError::at(
+                &self.table.file,
+                &self.table.source_text,
+                Some(span),
+                field,
+                message,
+            )
+            .with_help("set it in the model file's [combinations] params or with --set NAME=VALUE")
         })?;
         if x < 0.0 && !p.allow_negative {
             let used: Vec<String> = f
@@ -535,9 +544,10 @@ impl Row<'_, '_> {
                 Some(f.span.clone()),
                 format!("combination {comb}"),
                 format!(
-                    "combination {comb}: factor `{}` on {} evaluates to {x}{with}; a load factor must not be negative",
+                    "factor `{}` on {} evaluates to -{}{with}; a load factor must not be negative",
                     f.text,
-                    self.symbol(p.action)
+                    self.symbol(p.action),
+                    format_factor(-x)
                 ),
             )
             .with_help("check the parameter values (their ranges are listed by `plumbline combos NAME`); a table may allow a negative factor on a term with allow-negative = true"));
@@ -865,37 +875,48 @@ fn slots<'t>(
     let mut out = Vec::new();
     for (group, terms) in groups {
         // Per term: present choices, then the first absent one.
-        let mut options: Vec<SlotOption> = vec![SlotOption {
-            digits: Vec::new(),
-            parts: Vec::new(),
-            off: false,
-        }];
+        // Options with whether any of their terms' choices is present.
+        let mut options: Vec<(SlotOption, bool)> = vec![(
+            SlotOption {
+                digits: Vec::new(),
+                parts: Vec::new(),
+                off: false,
+            },
+            false,
+        )];
         for &ti in &terms {
             let choices = term_choices(&comb.terms[ti]);
-            let mut kept: Vec<(usize, Vec<Part>)> = Vec::new();
+            let mut kept: Vec<(usize, Vec<Part>, bool)> = Vec::new();
             let mut absent_kept = false;
             for (d, c) in choices.into_iter().enumerate() {
-                if choice_present(&c) {
-                    kept.push((d, c));
-                } else if !absent_kept {
-                    absent_kept = true;
-                    kept.push((d, c));
+                let here = choice_present(&c);
+                if here || !absent_kept {
+                    absent_kept |= !here;
+                    kept.push((d, c, here));
                 }
             }
             options = options
                 .iter()
-                .flat_map(|o| {
-                    kept.iter().map(move |(d, c)| {
+                .flat_map(|(o, was)| {
+                    kept.iter().map(move |(d, c, here)| {
                         let mut n = o.clone();
                         n.digits.push((ti, *d));
                         n.parts.extend(c.iter().cloned());
-                        n
+                        (n, *was || *here)
                     })
                 })
                 .collect();
         }
+        let mut options: Vec<SlotOption> = if group.is_some() {
+            options
+                .into_iter()
+                .filter(|(_, here)| *here)
+                .map(|(o, _)| o)
+                .collect()
+        } else {
+            options.into_iter().map(|(o, _)| o).collect()
+        };
         if group.is_some() {
-            options.retain(|o| o.parts.iter().any(|p| present(p.action)));
             let off = match options.first() {
                 Some(first) => SlotOption {
                     off: true,

@@ -55,6 +55,17 @@ pub const MIN_SEGMENTS: usize = 2;
 pub struct SecondOrderModel {
     /// The segmented mesh: model nodes first, then the interior nodes of each member.
     pub mesh: Mesh,
+    /// How the condensed system is numbered.
+    layout: Layout,
+    /// The elastic stiffness (no geometric stiffness), condensed and factored.
+    elastic: Condensed,
+    /// Elastic stiffness of each element in global axes (releases condensed).
+    element_k: Vec<Matrix6<f64>>,
+}
+
+/// The numbering of the condensed system of a segmented mesh.
+#[derive(Debug, Clone)]
+struct Layout {
     /// One element per member: the mesh of the condensed system.
     frame: Mesh,
     /// DOFs of the model nodes in the condensed system.
@@ -64,10 +75,6 @@ pub struct SecondOrderModel {
     /// DOFs of every mesh node as the segmented system would number them (support, spring,
     /// free or idle; the numbers only seed the inverse iterations).
     mesh_dofs: Vec<[Dof; 3]>,
-    /// The elastic stiffness (no geometric stiffness), condensed and factored.
-    elastic: Condensed,
-    /// Elastic stiffness of each element in global axes (releases condensed).
-    element_k: Vec<Matrix6<f64>>,
 }
 
 /// Outcome of a direct second-order analysis.
@@ -182,11 +189,11 @@ impl Condensed {
     /// Condense and factor; an error when the stiffness is not positive definite (a
     /// mechanism, or with axial forces a load above a critical load).
     fn new(
-        so: &SecondOrderModel,
+        mesh: &Mesh,
+        so: &Layout,
         model: &Model,
         axial: Option<&[f64]>,
     ) -> Result<Condensed, SystemError> {
-        let mesh = &so.mesh;
         let mut blocks = Vec::with_capacity(mesh.member_elements.len());
         let mut condensed = Vec::with_capacity(mesh.member_elements.len());
         for range in &mesh.member_elements {
@@ -256,8 +263,7 @@ impl Condensed {
 
     /// Displacements of every mesh node (global axes) under nodal forces `p` (global, per
     /// mesh node); forces on held or idle directions are ignored.
-    fn solve_nodal(&self, so: &SecondOrderModel, p: &[[f64; 3]]) -> Vec<[f64; 3]> {
-        let mesh = &so.mesh;
+    fn solve_nodal(&self, mesh: &Mesh, so: &Layout, p: &[[f64; 3]]) -> Vec<[f64; 3]> {
         let mut f = vec![0.0; so.n];
         for (node, d) in so.dofs.iter().enumerate() {
             for k in 0..3 {
@@ -328,14 +334,15 @@ impl Condensed {
     /// Response of the segmented mesh to `loads`.
     fn respond(
         &self,
-        so: &SecondOrderModel,
+        mesh: &Mesh,
+        so: &Layout,
         model: &Model,
         loads: &MeshLoads,
     ) -> Result<Response, SystemError> {
         let axial = self.axial.as_deref();
-        let p = equivalent_nodal_loads(model, &so.mesh, &so.mesh_dofs, axial, loads)?;
-        let u = self.solve_nodal(so, &p);
-        Ok(recover(&so.mesh, &so.mesh_dofs, axial, loads, u))
+        let p = equivalent_nodal_loads(model, mesh, &so.mesh_dofs, axial, loads)?;
+        let u = self.solve_nodal(mesh, so, &p);
+        Ok(recover(mesh, &so.mesh_dofs, axial, loads, u))
     }
 }
 
@@ -350,23 +357,14 @@ impl SecondOrderModel {
         let frame = Mesh::new(model, stiffness, 1);
         let (dofs, n) = number_dofs(&frame, &Restraints::from_model(model, &frame));
         let (mesh_dofs, _) = number_dofs(&mesh, &Restraints::from_model(model, &mesh));
-        let mut so = SecondOrderModel {
-            mesh,
+        let layout = Layout {
             frame,
             dofs,
             n,
             mesh_dofs,
-            elastic: Condensed {
-                blocks: Vec::new(),
-                factor: super::skyline::SkylineMatrix::new(Vec::new())
-                    .factor()
-                    .expect("empty matrix factors"),
-                axial: None,
-            },
-            element_k: Vec::new(),
         };
-        so.element_k = so
-            .mesh
+        let elastic = Condensed::new(&mesh, &layout, model, None)?;
+        let element_k = mesh
             .elements
             .iter()
             .map(|e| {
@@ -375,19 +373,23 @@ impl SecondOrderModel {
                 t.transpose() * kl * t
             })
             .collect();
-        so.elastic = Condensed::new(&so, model, None)?;
-        Ok(so)
+        Ok(SecondOrderModel {
+            mesh,
+            layout,
+            elastic,
+            element_k,
+        })
     }
 
     /// First-order response to `loads` on the segmented mesh.
     pub fn first_order(&self, model: &Model, loads: &MeshLoads) -> Result<Response, SystemError> {
-        self.elastic.respond(self, model, loads)
+        self.elastic.respond(&self.mesh, &self.layout, model, loads)
     }
 
     /// The stiffness with the geometric stiffness of element axial forces `axial`,
     /// condensed and factored; `None` when it is not positive definite.
     fn with_axial(&self, model: &Model, axial: &[f64]) -> Result<Option<Condensed>, SystemError> {
-        match Condensed::new(self, model, Some(axial)) {
+        match Condensed::new(&self.mesh, &self.layout, model, Some(axial)) {
             Ok(c) => Ok(Some(c)),
             Err(SystemError::Unstable(_)) => Ok(None),
             Err(e) => Err(e),
@@ -405,7 +407,7 @@ impl SecondOrderModel {
         let mut axial = element_axial(&first);
         let mut previous = first.displacements.clone();
         for iteration in 1..=MAX_ITERATIONS {
-            let system = match Condensed::new(self, model, Some(&axial)) {
+            let system = match Condensed::new(&self.mesh, &self.layout, model, Some(&axial)) {
                 Ok(s) => s,
                 Err(SystemError::Unstable(free)) => {
                     let at = free
@@ -420,7 +422,7 @@ impl SecondOrderModel {
                 }
                 Err(e) => return Err(e),
             };
-            let r = system.respond(self, model, loads)?;
+            let r = system.respond(&self.mesh, &self.layout, model, loads)?;
             let scale = max_translation(&r.displacements).max(f64::MIN_POSITIVE);
             let change = r
                 .displacements
@@ -514,7 +516,8 @@ impl SecondOrderModel {
     /// A vector over the mesh's unknowns, `value(equation number)` in each, zero on held
     /// and idle directions (a start vector for the inverse iterations).
     fn start_vector(&self, value: impl Fn(usize) -> f64) -> Vec<[f64; 3]> {
-        self.mesh_dofs
+        self.layout
+            .mesh_dofs
             .iter()
             .map(|d| {
                 let v = |k: usize| d[k].equation().map_or(0.0, &value);
@@ -534,7 +537,7 @@ impl SecondOrderModel {
                 y[e.j][k] += f[3 + k];
             }
         }
-        for (node, d) in self.mesh_dofs.iter().enumerate() {
+        for (node, d) in self.layout.mesh_dofs.iter().enumerate() {
             for k in 0..3 {
                 if let Dof::Spring(_, ks) = d[k] {
                     y[node][k] += ks * x[node][k];
@@ -584,7 +587,7 @@ impl SecondOrderModel {
                     y[e.j][k] -= f[3 + k];
                 }
             }
-            for (yn, d) in y.iter_mut().zip(&self.mesh_dofs) {
+            for (yn, d) in y.iter_mut().zip(&self.layout.mesh_dofs) {
                 for k in 0..3 {
                     if d[k].equation().is_none() {
                         yn[k] = 0.0;
@@ -611,7 +614,7 @@ impl SecondOrderModel {
         // Rough estimate with K alone.
         let mut x = self.start_vector(|k| 1.0 + (k % 5) as f64 * 0.1);
         for _ in 0..8 {
-            x = self.elastic.solve_nodal(self, &g(&x));
+            x = self.elastic.solve_nodal(&self.mesh, &self.layout, &g(&x));
             if !normalise(&mut x) {
                 return Ok(None);
             }
@@ -637,7 +640,7 @@ impl SecondOrderModel {
         let mut last = f64::NAN;
         let mut shifted = shifted;
         for _ in 0..50 {
-            x = shifted.solve_nodal(self, &g(&x));
+            x = shifted.solve_nodal(&self.mesh, &self.layout, &g(&x));
             if !normalise(&mut x) {
                 return Ok(None);
             }
@@ -684,7 +687,7 @@ impl SecondOrderModel {
     fn mode_shape(&self, system: &Condensed) -> Vec<[f64; 3]> {
         let mut x = self.start_vector(|k| 1.0 + (k % 7) as f64 * 0.01);
         for _ in 0..8 {
-            x = system.solve_nodal(self, &x);
+            x = system.solve_nodal(&self.mesh, &self.layout, &x);
             let norm = x.iter().flatten().map(|v| v * v).sum::<f64>().sqrt();
             if norm == 0.0 || !norm.is_finite() {
                 break;
