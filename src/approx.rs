@@ -34,6 +34,7 @@ use crate::combos::FactoredCase;
 use crate::model::{LocalLoad, Model, Restraint, Role};
 use crate::solve::beam::internal_forces;
 use crate::solve::first_order::combined_member_loads;
+use crate::solve::linear::element_resultant;
 use crate::solve::{FirstOrder, Solution, SystemError};
 use crate::stories::{LEVEL_TOLERANCE, Story, StoryError, stories};
 
@@ -228,22 +229,9 @@ pub fn carry_over(m_near: f64) -> f64 {
 }
 
 /// Total local (x, y) components of a member's local loads, N.
-fn local_total(loads: &[LocalLoad]) -> (f64, f64) {
-    loads.iter().fold((0.0, 0.0), |(fx, fy), l| match *l {
-        LocalLoad::Linear {
-            a,
-            b,
-            qx_a,
-            qy_a,
-            qx_b,
-            qy_b,
-        } => (
-            fx + 0.5 * (qx_a + qx_b) * (b - a),
-            fy + 0.5 * (qy_a + qy_b) * (b - a),
-        ),
-        LocalLoad::Point { px, py, .. } => (fx + px, fy + py),
-        LocalLoad::Moment { .. } => (fx, fy),
-    })
+fn local_total(model: &Model, m: usize, loads: &[LocalLoad]) -> (f64, f64) {
+    let (px, py, _) = element_resultant(model.length(m), loads);
+    (px, py)
 }
 
 /// Whether end `end` (0 = i, 1 = j) of member `m` cannot take moment: released, or at a
@@ -282,7 +270,7 @@ pub fn approximate(
     let mut span: Vec<Option<(f64, f64)>> = vec![None; nm];
     for m in (0..nm).filter(|&m| model.members[m].role == Role::Beam) {
         let l = model.length(m);
-        let w = -local_total(&loads[m]).1 / l;
+        let w = -local_total(model, m, &loads[m]).1 / l;
         let mem = &model.members[m];
         let a = |released: bool| if released { 0.0 } else { INFLECTION };
         let (mi, mid, mj, x) = beam_gravity(w, l, a(mem.release_i), a(mem.release_j));
@@ -357,8 +345,9 @@ fn end_at(model: &Model, m: usize, node: usize) -> Option<usize> {
     }
 }
 
-/// Lateral loads of the case lumped at the nodes: global X, N (nodal loads, and each member
-/// load's X resultant shared between its end nodes by the lever rule).
+/// Lateral loads of the case lumped at the nodes: global X, N. Nodal loads as they are; a
+/// member's loads by their resultant, the transverse part shared between the end nodes by
+/// the lever rule and the axial part half and half.
 fn lateral_at_nodes(model: &Model, factors: &[(usize, f64)], loads: &[Vec<LocalLoad>]) -> Vec<f64> {
     let mut fx = vec![0.0; model.nodes.len()];
     for &(k, f) in factors {
@@ -366,20 +355,15 @@ fn lateral_at_nodes(model: &Model, factors: &[(usize, f64)], loads: &[Vec<LocalL
             fx[nl.node] += f * nl.fx;
         }
     }
-    for (m, ls) in loads.iter().enumerate() {
+    for (m, ls) in loads.iter().enumerate().filter(|(_, ls)| !ls.is_empty()) {
         let (c, s) = model.cosines(m);
         let l = model.length(m);
-        for load in ls {
-            let (px, py) = local_total(std::slice::from_ref(load));
-            let x_global = px * c - py * s;
-            let at = match *load {
-                LocalLoad::Linear { a, b, .. } => 0.5 * (a + b),
-                LocalLoad::Point { a, .. } | LocalLoad::Moment { a, .. } => a,
-            };
-            let mem = &model.members[m];
-            fx[mem.i] += x_global * (1.0 - at / l);
-            fx[mem.j] += x_global * at / l;
-        }
+        let (px, py, m_i) = element_resultant(l, ls);
+        // Share of the transverse resultant at end j: its lever arm from i over L.
+        let t = if py != 0.0 { m_i / (py * l) } else { 0.5 };
+        let mem = &model.members[m];
+        fx[mem.i] += 0.5 * px * c - (1.0 - t) * py * s;
+        fx[mem.j] += 0.5 * px * c - t * py * s;
     }
     fx
 }
@@ -551,7 +535,7 @@ pub fn load_outliers(model: &Model, loads: &[Vec<LocalLoad>], limit: f64) -> Vec
         .filter(|&m| model.members[m].role == Role::Beam)
         .map(|m| {
             let (c, s) = model.cosines(m);
-            let (px, py) = local_total(&loads[m]);
+            let (px, py) = local_total(model, m, &loads[m]);
             (m, -(px * s + py * c) / model.length(m))
         })
         .collect();

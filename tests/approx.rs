@@ -6,6 +6,7 @@
 mod common;
 
 use approx::assert_relative_eq;
+use common::random_frame::{RandomFrame, factored};
 use common::{Frame, portal};
 use plumbline::approx::{
     Flag, INFLECTION, Location, Thresholds, approximate, approximate_check, beam_gravity,
@@ -18,14 +19,7 @@ use plumbline::stories::stories;
 
 /// A factored case on the strength basis with `factors` on the model's load cases.
 fn case(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
-    FactoredCase {
-        id: id.into(),
-        expression: id.into(),
-        basis: Basis::Strength,
-        combination: id.into(),
-        factors: factors.to_vec(),
-        note: None,
-    }
+    factored(id, Basis::Strength, factors)
 }
 
 #[test]
@@ -352,7 +346,6 @@ fn a_wrong_sign_on_one_load_is_flagged() {
 
 #[test]
 fn random_frames_keep_statics_and_raise_few_flags() {
-    use common::random_frame::RandomFrame;
     let (mut judged, mut flagged) = (0usize, 0usize);
     for seed in 0..100 {
         let rf = RandomFrame::new(seed);

@@ -6,7 +6,7 @@ mod common;
 
 use approx::assert_relative_eq;
 use common::Frame;
-use common::random_frame::RandomFrame;
+use common::random_frame::{RandomFrame, factored};
 use plumbline::arrange::{Arranged, MAX_ARRANGEMENTS, arrange};
 use plumbline::combos::{Basis, Expansion, FactoredCase};
 use plumbline::model::{ActionCategory, LoadDirection, Model, Restraint};
@@ -16,14 +16,7 @@ use plumbline::solve::first_order::{FirstOrder, combined_member_loads, member_ex
 /// One factored case `1.0 × case` and nothing else.
 fn one(case: usize) -> Expansion {
     Expansion {
-        cases: vec![FactoredCase {
-            id: "U".into(),
-            expression: "1.0L".into(),
-            basis: Basis::Strength,
-            combination: "U".into(),
-            factors: vec![(case, 1.0)],
-            note: None,
-        }],
+        cases: vec![factored("U", Basis::Strength, &[(case, 1.0)])],
         merged: vec![],
         skipped: vec![],
         warnings: vec![],

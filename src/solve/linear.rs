@@ -91,7 +91,7 @@ fn add_force(r: &mut [f64; 3], x: f64, y: f64, fx: f64, fy: f64, m: f64) {
 /// by the statics of [`internal_forces_at`] on the unsupported element, taken just past
 /// end j so that every load counts: `N(L⁺) = −Σpx`, `V(L⁺) = Σpy` and
 /// `M(L⁺) = Σpy·(L − a) − Σm`, so the moment about i is `V·L − M`.
-fn element_resultant(length: f64, loads: &[LocalLoad]) -> (f64, f64, f64) {
+pub fn element_resultant(length: f64, loads: &[LocalLoad]) -> (f64, f64, f64) {
     if loads.is_empty() {
         return (0.0, 0.0, 0.0);
     }
