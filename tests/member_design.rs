@@ -8,31 +8,11 @@ mod common;
 use std::f64::consts::PI;
 
 use approx::assert_relative_eq;
-use common::{Frame, portal};
-use plumbline::check::{CaseCheck, Classification, MemberCheck, check};
-use plumbline::combos::{Basis, FactoredCase};
+use common::{Frame, only_case, portal, strength};
+use plumbline::check::{CaseCheck, Classification, MemberCheck};
 use plumbline::model::{
-    ActionCategory, LoadDirection, MemberLoadKind, Model, NotionalLoads, Role, SecondOrderMethod,
+    ActionCategory, LoadDirection, MemberLoadKind, NotionalLoads, Role, SecondOrderMethod,
 };
-
-/// A factored case on the strength basis with `factors` on the model's load cases.
-fn strength(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
-    FactoredCase {
-        id: id.into(),
-        expression: id.into(),
-        basis: Basis::Strength,
-        combination: id.into(),
-        factors: factors.to_vec(),
-        note: None,
-    }
-}
-
-/// Run `check` and return its only case.
-fn only_case(model: &Model, fc: &FactoredCase) -> CaseCheck {
-    let report = check(model, std::slice::from_ref(fc)).unwrap();
-    assert_eq!(report.cases.len(), 1, "expected one case");
-    report.cases.into_iter().next().unwrap()
-}
 
 /// Closed-form moment of a beam with end moments `m_i`, `m_j` (internal, sagging
 /// positive), a full uniform downward load `w` and a downward point load `p` at `a`:
@@ -526,6 +506,18 @@ fn ec3_judges_the_structure_by_its_lowest_alpha_cr() {
             end.no_sway + amp * end.sway,
             max_relative = 1e-9
         );
+    }
+
+    // V = 1.5 MN: α_frame = 16.4 ≥ 10 → first order suffices, every story non-sway and
+    // the design moments are the first-order ones ((5.1)).
+    let v = 1.5e6;
+    let (case, c1) = ec3_portal(v);
+    let s = &case.stories[0];
+    assert_relative_eq!(case.alpha_cr.unwrap(), alpha_frame(v), max_relative = 5e-3);
+    assert_eq!(s.classification, Classification::NonSway, "{}", s.criterion);
+    assert_eq!(s.sway_amplifier, Some(1.0));
+    for end in &case.members[c1].ends {
+        assert_relative_eq!(end.design, end.first_order, max_relative = 1e-12);
     }
 
     let v = 8.6e6;

@@ -165,3 +165,19 @@ pub fn portal(l: f64, h: f64, ic: f64, ib: f64, fixed: bool) -> (Frame, [usize; 
     }
     (f, [n0, n1, n2, n3, c1, b, c2])
 }
+
+/// A factored case on the strength basis with `factors` on the model's load cases.
+pub fn strength(id: &str, factors: &[(usize, f64)]) -> plumbline::combos::FactoredCase {
+    random_frame::factored(id, plumbline::combos::Basis::Strength, factors)
+}
+
+/// Run `check` on one factored case and return its only result (fails if notional loads
+/// split it in two).
+pub fn only_case(
+    model: &Model,
+    fc: &plumbline::combos::FactoredCase,
+) -> plumbline::check::CaseCheck {
+    let report = plumbline::check::check(model, std::slice::from_ref(fc)).unwrap();
+    assert_eq!(report.cases.len(), 1, "expected one case");
+    report.cases.into_iter().next().unwrap()
+}
