@@ -397,3 +397,111 @@ fn fewer_than_two_elements_per_member_are_refused() {
     assert!(msg.contains("P-δ"), "{msg}");
     assert!(parse_model(&text.replace("segments = 4", "segments = 2"), "office.toml").is_ok());
 }
+
+#[test]
+fn condensed_system_reproduces_the_full_segmented_system_on_the_examples() {
+    // As `condensed_system_reproduces_the_full_segmented_system` (closed form: static
+    // condensation is exact), on every load case of the shipped example models.
+    let mut compared = 0;
+    for file in [
+        "examples/office-3story.toml",
+        "examples/retail-2story.toml",
+        "examples/gable-frame.toml",
+        "examples/workshop-portal.toml",
+    ] {
+        let text = std::fs::read_to_string(file).unwrap();
+        let model = parse_model(&text, file).unwrap();
+        for case in 0..model.load_cases.len() {
+            let segments = model.analysis.segments;
+            let Some(reference) = reference_direct(&model, case, segments) else {
+                continue;
+            };
+            let d = direct(&model, case, segments);
+            let du = peak(&reference.displacements);
+            for (a, b) in d
+                .response
+                .displacements
+                .iter()
+                .zip(&reference.displacements)
+            {
+                for k in 0..3 {
+                    assert!((a[k] - b[k]).abs() <= 1e-9 * du, "{file} case {case}");
+                }
+            }
+            let forces = |x: &Response| -> Vec<[f64; 3]> {
+                x.element_forces.iter().flat_map(|f| [f.i, f.j]).collect()
+            };
+            let (fa, fb) = (forces(&d.response), forces(&reference));
+            let df = peak(&fb);
+            for (a, b) in fa.iter().zip(&fb) {
+                for k in 0..3 {
+                    assert!((a[k] - b[k]).abs() <= 1e-9 * df, "{file} case {case}");
+                }
+            }
+            compared += 1;
+        }
+    }
+    assert!(compared >= 8, "only {compared} example load cases compared");
+}
+
+#[test]
+fn sway_split_without_stored_unit_solutions_matches_their_sum() {
+    // Retained reference path of the split: the unit level solutions U_l solved and kept
+    // one by one (as before), and the sway part Σ h_l·U_l summed from them. Superposition
+    // (closed form: the first-order solution is linear in the loads) makes the one-solve
+    // `lateral(h)` equal to that sum to round-off, 1e-9 of the largest value.
+    use plumbline::solve::sway::SwaySplit;
+    use plumbline::stories::stories;
+    for seed in 0..100 {
+        let (model, case) = random_frame(seed);
+        let st = stories(&model).unwrap();
+        let split = SwaySplit::new(&model, &st).unwrap();
+        let nl = split.level_nodes.len();
+        let units: Vec<plumbline::solve::Solution> = (0..nl)
+            .map(|l| {
+                let mut loads = split.zero_loads();
+                let nodes = &split.level_nodes[l];
+                for &n in nodes {
+                    loads.add_nodal(n, [1.0 / nodes.len() as f64, 0.0, 0.0]);
+                }
+                split.free.solve_loads(&model, &loads).unwrap()
+            })
+            .collect();
+        let h: Vec<f64> = (0..nl).map(|l| 1e3 * (1.0 + l as f64)).collect();
+        let parts: Vec<(f64, &plumbline::solve::Solution)> =
+            h.iter().copied().zip(&units).collect();
+        let sum = plumbline::solve::Solution::combine(&parts);
+        let got = split.lateral(&h);
+        let du = peak(&sum.displacements).max(f64::MIN_POSITIVE);
+        for (a, b) in got.displacements.iter().zip(&sum.displacements) {
+            for k in 0..3 {
+                assert!((a[k] - b[k]).abs() <= 1e-9 * du, "seed {seed}");
+            }
+        }
+        let fm = |s: &plumbline::solve::Solution| -> Vec<[f64; 3]> {
+            s.end_forces.iter().flat_map(|f| [f.i, f.j]).collect()
+        };
+        let (fa, fb) = (fm(&got), fm(&sum));
+        let df = peak(&fb).max(f64::MIN_POSITIVE);
+        for (a, b) in fa.iter().zip(&fb) {
+            for k in 0..3 {
+                assert!((a[k] - b[k]).abs() <= 1e-9 * df, "seed {seed}");
+            }
+        }
+        // The split itself: no-sway + sway = the free solution, and the no-sway part holds
+        // every level's mean X translation at zero (the definition of the split).
+        let parts = split.split_case(&model, case).unwrap();
+        let free = split.free.solve_case(&model, case).unwrap();
+        let total = parts.total();
+        let du = peak(&free.displacements).max(f64::MIN_POSITIVE);
+        for (a, b) in total.displacements.iter().zip(&free.displacements) {
+            for k in 0..3 {
+                assert!((a[k] - b[k]).abs() <= 1e-9 * du, "seed {seed}");
+            }
+        }
+        for nodes in &split.level_nodes {
+            let mean = plumbline::solve::sway::mean_ux(&parts.no_sway, nodes);
+            assert!(mean.abs() <= 1e-9 * du, "seed {seed}: {mean}");
+        }
+    }
+}
