@@ -234,8 +234,8 @@ impl Command {
         let (output, model, combos) = match self {
             Command::Solve(a) => (&a.out.output, &a.model, None),
             Command::Cases(a) => (&a.out.output, &a.model, a.combos.as_deref()),
-            Command::Check(a) => (&a.out.output, &a.model, a.combos.as_deref()),
-            Command::Report(a) => (&a.output, &a.model, a.combos.as_deref()),
+            Command::Check(a) => (&a.out.output, &a.run.model, a.run.combos.as_deref()),
+            Command::Report(a) => (&a.output, &a.run.model, a.run.combos.as_deref()),
             Command::Combos(_) | Command::New(_) | Command::Completions(_) => return None,
         };
         let inputs = std::iter::once(model.as_path())
