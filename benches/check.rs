@@ -333,7 +333,7 @@ fn main() {
     }
     println!("\ncases x time on the 20 x 50 frame (first k factored cases)");
     println!("cases   checked   time (ms)    cpu (ms)");
-    for k in 1..=6 {
+    for k in 1..=8 {
         let Ok((r, _)) = measured(20, 50, Some(k), runs) else {
             continue;
         };
