@@ -88,8 +88,9 @@ struct CombosArgs {
     table: Option<String>,
 }
 
+/// The model and analysis options shared by `check` and `report`.
 #[derive(Debug, Args)]
-struct CheckCli {
+struct RunCli {
     /// The model file (TOML).
     model: PathBuf,
     /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
@@ -116,6 +117,30 @@ struct CheckCli {
     /// Only the factored cases whose id starts with this (implies --detail).
     #[arg(long)]
     case: Option<String>,
+}
+
+impl RunCli {
+    /// The library's options, with `format` and `detail`.
+    fn args(self, format: CheckFormat, detail: bool) -> (PathBuf, CheckArgs) {
+        let args = CheckArgs {
+            combos: self.combos,
+            sets: self.sets,
+            method: self.method,
+            stiffness: self.stiffness,
+            notional: self.notional,
+            case: self.case,
+            format,
+            detail,
+            ..Default::default()
+        };
+        (self.model, args)
+    }
+}
+
+#[derive(Debug, Args)]
+struct CheckCli {
+    #[command(flatten)]
+    run: RunCli,
     /// Add the per-case story and member tables to the summary.
     #[arg(long)]
     detail: bool,
@@ -134,21 +159,8 @@ struct CheckCli {
 
 #[derive(Debug, Args)]
 struct ReportCli {
-    /// The model file (TOML).
-    model: PathBuf,
-    /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
-    /// model's own choice.
-    #[arg(long)]
-    combos: Option<String>,
-    /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
-    #[arg(long = "set", value_name = "PARAM=VALUE")]
-    sets: Vec<String>,
-    /// Second-order method (see `plumbline help check`); overrides the model's.
-    #[arg(long = "second-order", value_name = "METHOD", value_parser = method_parser())]
-    method: Option<SecondOrderMethod>,
-    /// Only the factored cases whose id starts with this.
-    #[arg(long)]
-    case: Option<String>,
+    #[command(flatten)]
+    run: RunCli,
     /// The HTML file to write (default: the model file's name with .html, beside it).
     #[arg(long, short)]
     output: Option<PathBuf>,
@@ -230,19 +242,10 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         ),
         Command::Combos(a) => text(app::combos(a.table.as_deref())?, None),
         Command::Check(a) => {
-            let args = CheckArgs {
-                combos: a.combos,
-                sets: a.sets,
-                method: a.method,
-                stiffness: a.stiffness,
-                notional: a.notional,
-                case: a.case,
-                format: a.format,
-                detail: a.detail,
-                approximate: a.approximate,
-            };
+            let (model, mut args) = a.run.args(a.format, a.detail);
+            args.approximate = a.approximate;
             let (rendered, unstable) =
-                app::check_output_status(&a.model, &args, &mut progress_bar())?;
+                app::check_output_status(&model, &args, &mut progress_bar())?;
             Done {
                 rendered,
                 output: a.out.output,
@@ -250,16 +253,10 @@ fn run(cli: Cli) -> Result<Done, AppError> {
             }
         }
         Command::Report(a) => {
-            let args = CheckArgs {
-                combos: a.combos,
-                sets: a.sets,
-                method: a.method,
-                case: a.case,
-                ..Default::default()
-            };
-            let output = a.output.unwrap_or_else(|| a.model.with_extension("html"));
+            let (model, args) = a.run.args(CheckFormat::Table, false);
+            let output = a.output.unwrap_or_else(|| model.with_extension("html"));
             text(
-                app::report(&a.model, &args, &mut progress_bar())?,
+                app::report(&model, &args, &mut progress_bar())?,
                 Some(output),
             )
         }

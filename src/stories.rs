@@ -52,6 +52,15 @@ pub enum StoryError {
         top: f64,
         level: f64,
     },
+    #[error(
+        "column {column} (from elevation {bottom:.3} m to {top:.3} m) lies outside the declared \
+         story levels; add its top level to story_levels"
+    )]
+    ColumnOutsideLevels {
+        column: String,
+        bottom: f64,
+        top: f64,
+    },
     #[error("story {number} (from {bottom:.3} m to {top:.3} m) has no column")]
     EmptyStory {
         number: usize,
@@ -119,11 +128,18 @@ pub fn stories(model: &Model) -> Result<Vec<Story>, StoryError> {
             });
         }
         // The story whose interval contains the column.
-        if let Some(s) = out
+        match out
             .iter_mut()
             .find(|s| lo >= s.bottom - LEVEL_TOLERANCE && hi <= s.top + LEVEL_TOLERANCE)
         {
-            s.columns.push(m);
+            Some(s) => s.columns.push(m),
+            None => {
+                return Err(StoryError::ColumnOutsideLevels {
+                    column: model.members[m].id.clone(),
+                    bottom: lo,
+                    top: hi,
+                });
+            }
         }
     }
     if let Some(s) = out.iter().find(|s| s.columns.is_empty()) {

@@ -331,3 +331,100 @@ fn a_closed_pipe_does_not_panic() {
     let o = child.wait_with_output().unwrap();
     assert!(!stderr(&o).contains("panicked"), "{}", stderr(&o));
 }
+
+#[test]
+fn new_writes_a_starter_model_that_checks() {
+    let dir = scratch("new");
+    for (units, bays, stories) in [("kN-m", "7.5,6", "4.5,3.6,3.6"), ("kip-ft", "30", "15")] {
+        let file = dir.join(format!("{units}.toml"));
+        let f = file.to_str().unwrap();
+        let o = run(&[
+            "new",
+            f,
+            "--bays",
+            bays,
+            "--stories",
+            stories,
+            "--units",
+            units,
+        ]);
+        assert!(o.status.success(), "{}", stderr(&o));
+        // The one-line note names the file written.
+        assert!(stderr(&o).contains(&format!("wrote {f}")), "{}", stderr(&o));
+        let text = std::fs::read_to_string(&file).unwrap();
+        assert!(text.contains("licensed engineer") && text.contains("placeholder"));
+        let model = plumbline::input::load_model(&file).unwrap();
+        let n_bays = bays.split(',').count();
+        let n_stories = stories.split(',').count();
+        // Generated frame: (bays + 1) columns per story, one beam per bay and level.
+        assert_eq!(
+            model.members.len(),
+            (n_bays + 1) * n_stories + n_bays * n_stories
+        );
+        let out = ok(&["check", f]);
+        assert!(out.contains("Member envelope"), "{out}");
+        // Never overwrites.
+        let err = fails(&["new", f, "--bays", bays, "--stories", stories]);
+        assert!(err.contains("exists"), "{err}");
+    }
+    let err = fails(&[
+        "new",
+        dir.join("bad.toml").to_str().unwrap(),
+        "--bays",
+        "6,-1",
+        "--stories",
+        "3",
+    ]);
+    assert!(err.contains("positive lengths"), "{err}");
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn completions_invalid_values_and_the_output_note() {
+    let bash = ok(&["completions", "bash"]);
+    assert!(bash.contains("plumbline") && bash.contains("--second-order"));
+    // An invalid value lists the valid ones.
+    let err = fails(&["check", OFFICE, "--second-order", "b1b2"]);
+    for v in ["aisc-b1b2", "aci-magnifier", "ec3-alpha-cr", "direct"] {
+        assert!(err.contains(v), "{err}");
+    }
+    let err = fails(&["check", OFFICE, "--format", "pdf"]);
+    assert!(err.contains("table") && err.contains("md"), "{err}");
+    let err = fails(&["check", OFFICE, "--case", "9.9"]);
+    assert!(err.contains("2.3.1-1"), "the case ids are listed: {err}");
+
+    // CSV: one file per table in the directory given with -o, each named on stderr.
+    let dir = scratch("csv");
+    let out = dir.join("tables");
+    let o = run(&[
+        "check",
+        "examples/workshop-portal.toml",
+        "--format",
+        "csv",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    for name in [
+        "assumptions.csv",
+        "stories.csv",
+        "members.csv",
+        "columns.csv",
+    ] {
+        assert!(out.join(name).exists(), "{name}");
+        assert!(stderr(&o).contains(name), "{}", stderr(&o));
+    }
+    let _ = std::fs::remove_dir_all(&dir);
+}
+
+#[test]
+fn report_writes_an_html_file_beside_the_model_or_where_asked() {
+    let dir = scratch("report");
+    let file = dir.join("office.html");
+    let o = run(&["report", OFFICE, "-o", file.to_str().unwrap()]);
+    assert!(o.status.success(), "{}", stderr(&o));
+    assert!(stderr(&o).contains("office.html"));
+    let html = std::fs::read_to_string(&file).unwrap();
+    assert!(html.starts_with("<!DOCTYPE html>") && html.contains("licensed engineer"));
+    let _ = std::fs::remove_dir_all(&dir);
+}

@@ -420,6 +420,7 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
     let (analysis, stories) = analysis(&ctx, raw.analysis.as_ref())?;
     model.analysis = analysis;
     model.stories = stories;
+    check_story_levels(&ctx, raw.analysis.as_ref(), &model)?;
     model.load_cases = load_cases(&ctx, &raw.case, &model)?;
     for c in &raw.case {
         let c = c.get_ref();
@@ -537,6 +538,124 @@ fn support(ctx: &Ctx, s: &S<super::raw::RawSupport>, field: &str) -> Result<Supp
 
 /// Reject zero-length members, collinear members that share a length, and nodes lying on a
 /// member between its ends without being connected to it, and nodes without members.
+/// Largest |coordinate| a node may have, m: 100 km, far beyond any building (common
+/// practice, no source). Beyond it a coordinate is a typing or unit error, and it would
+/// swamp every length tolerance of the model (issue 7 item 10).
+pub const MAX_COORDINATE: f64 = 1.0e5;
+
+/// Every node coordinate finite and within [`MAX_COORDINATE`]; the error names the node.
+fn check_node_coordinates(ctx: &Ctx, nodes: &[Node], defs: &[NodeDef]) -> Result<(), FileError> {
+    for (n, d) in nodes.iter().zip(defs) {
+        for (axis, v) in [("x", n.x), ("y", n.y)] {
+            if !v.is_finite() || v.abs() > MAX_COORDINATE {
+                return Err(ctx.err(
+                    d.at.span.clone(),
+                    &d.at.field,
+                    format!(
+                        "node \"{}\" has {axis} = {v:e} m: expected a coordinate within ±{} km \
+                         of the origin (check the value and the model's units)",
+                        n.id,
+                        MAX_COORDINATE / 1000.0
+                    ),
+                ));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Two distinct nodes at one point, each with members attached, split the frame in two
+/// there without a word; refuse them, naming both (issue 7 item 10). Points closer than
+/// 1e-9 of the model's extent are one point, as for zero-length members.
+fn check_coincident_nodes(
+    ctx: &Ctx,
+    nodes: &[Node],
+    defs: &[NodeDef],
+    members: &[Member],
+    extent: f64,
+) -> Result<(), FileError> {
+    let tol = 1e-9 * extent;
+    let mut used = vec![false; nodes.len()];
+    for m in members {
+        used[m.i] = true;
+        used[m.j] = true;
+    }
+    let mut order: Vec<usize> = (0..nodes.len()).filter(|&n| used[n]).collect();
+    order.sort_by(|&a, &b| nodes[a].x.total_cmp(&nodes[b].x));
+    for (k, &a) in order.iter().enumerate() {
+        for &b in &order[k + 1..] {
+            if nodes[b].x - nodes[a].x > tol {
+                break;
+            }
+            if (nodes[b].y - nodes[a].y).abs() <= tol {
+                let (first, second) = (a.min(b), a.max(b));
+                return Err(ctx.err(
+                    defs[second].at.span.clone(),
+                    &defs[second].at.field,
+                    format!(
+                        "nodes \"{}\" and \"{}\" are at the same point ({}, {}) m and each has \
+                         members, so the frame would be split in two there: expected one node \
+                         (refer to \"{}\" from both members; use a member hinge for a pin)",
+                        nodes[first].id,
+                        nodes[second].id,
+                        nodes[first].x,
+                        nodes[first].y,
+                        nodes[first].id
+                    ),
+                ));
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Every declared story level must be the elevation of a column end (issue 7 item 10):
+/// a level no column meets is a typing or unit error. The error names the level.
+fn check_story_levels(
+    ctx: &Ctx,
+    raw: Option<&S<RawAnalysis>>,
+    model: &Model,
+) -> Result<(), FileError> {
+    let (Some(decl), Some(list)) = (
+        model.stories.as_ref(),
+        raw.and_then(|a| a.get_ref().story_levels.as_ref()),
+    ) else {
+        return Ok(());
+    };
+    let column_ends: Vec<f64> = model
+        .members
+        .iter()
+        .filter(|m| m.role == Role::Column)
+        .flat_map(|m| [model.nodes[m.i].y, model.nodes[m.j].y])
+        .collect();
+    let lu = ctx.units.label(Dimension::Length);
+    for (k, (&y, v)) in decl.levels.iter().zip(list.get_ref()).enumerate() {
+        let near = column_ends
+            .iter()
+            .any(|&e| (e - y).abs() < crate::stories::LEVEL_TOLERANCE);
+        if !near {
+            let nearest = column_ends
+                .iter()
+                .copied()
+                .min_by(|a, b| (a - y).abs().total_cmp(&(b - y).abs()));
+            return Err(ctx.err(
+                v.span(),
+                &format!("analysis.story_levels[{}]", k + 1),
+                format!(
+                    "no column starts or ends at the declared story level {} {lu}: expected the \
+                     elevation of a floor where columns meet{}",
+                    ctx.units.from_si(y, Dimension::Length),
+                    nearest.map_or(String::new(), |e| format!(
+                        " (the nearest column end is at {} {lu})",
+                        ctx.units.from_si(e, Dimension::Length)
+                    ))
+                ),
+            ));
+        }
+    }
+    Ok(())
+}
+
 fn check_geometry(
     ctx: &Ctx,
     nodes: &[Node],
@@ -551,6 +670,7 @@ fn check_geometry(
             "the model has no members: expected [[member]] tables or a [frame]",
         ));
     }
+    check_node_coordinates(ctx, nodes, node_defs)?;
     let extent = nodes
         .iter()
         .fold(1.0_f64, |e, n| e.max(n.x.abs()).max(n.y.abs()));
@@ -570,6 +690,7 @@ fn check_geometry(
             ));
         }
     }
+    check_coincident_nodes(ctx, nodes, node_defs, members, extent)?;
     // Position of point p along member k (distance from end i) and its offset from the axis.
     let along = |k: usize, px: f64, py: f64| -> (f64, f64) {
         let (a, b) = (&nodes[members[k].i], &nodes[members[k].j]);

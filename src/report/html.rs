@@ -284,7 +284,7 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         out.push_str("</ul>");
     }
 
-    out.push_str("<h2>Frame</h2><figure>");
+    out.push_str("<h2 id=\"frame\">Frame</h2><figure>");
     out.push_str(&svg::elevation(model, WIDTH));
     out.push_str(
         "<figcaption>Elevation to scale: node ids beside the nodes, member ids at mid-length; \
@@ -308,7 +308,7 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         );
     }
 
-    out.push_str("<h2 class=\"pagebreak\">Design moments</h2>");
+    out.push_str("<h2 class=\"pagebreak\" id=\"moments\">Design moments</h2>");
     out.push_str(&format!(
         "<p class=\"legend\"><span><i class=\"swatch\" style=\"background:{}\"></i>positive (local −y face in tension: sagging of a beam)</span>\
          <span><i class=\"swatch\" style=\"background:{}\"></i>negative (local +y face in tension: hogging)</span></p>",

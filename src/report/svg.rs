@@ -495,10 +495,15 @@ pub fn diagrams(
         } else {
             style::NEGATIVE
         };
+        // Labels near the right edge read leftwards so that they stay on the drawing.
+        let (tx, anchor) = if px > v.width - 60.0 {
+            (px - 3.0, "end")
+        } else {
+            (px + 3.0, "start")
+        };
         let _ = write!(
             out,
-            r#"<circle cx="{px:.1}" cy="{py:.1}" r="2.2" fill="{colour}"/><text x="{:.1}" y="{:.1}" font-size="10" fill="{colour}" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
-            px + 3.0,
+            r#"<circle cx="{px:.1}" cy="{py:.1}" r="2.2" fill="{colour}"/><text x="{tx:.1}" y="{:.1}" font-size="10" fill="{colour}" text-anchor="{anchor}" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
             py - 3.0,
             super::num(u.from_si(mo, Dimension::Moment), 1)
         );
