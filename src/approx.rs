@@ -135,9 +135,10 @@ pub struct MemberEstimate {
 /// beams of a rectangular frame, not the rafters of a gable frame.
 pub const MAX_SLOPE: f64 = 5.0 * std::f64::consts::PI / 180.0;
 
-/// Members the hand methods apply to: not a sloped beam (over [`MAX_SLOPE`]) or a beam
-/// with a released end, nor any other member meeting the end of one (the portal method
-/// and the joint balance assume continuous horizontal beams).
+/// Members the hand methods apply to: not a sloped beam (over [`MAX_SLOPE`]), a beam
+/// with a released end or a beam that is one of several members of a span (see
+/// [`crate::arrange::spans`]), nor any other member meeting the end of one (the portal
+/// method and the joint balance assume continuous horizontal beams, one member a span).
 pub fn estimable(model: &Model) -> Vec<bool> {
     let outside = |m: usize| {
         let mem = &model.members[m];
@@ -146,7 +147,12 @@ pub fn estimable(model: &Model) -> Vec<bool> {
             && (s.abs() > MAX_SLOPE.sin() * c.hypot(s) || mem.release_i || mem.release_j)
     };
     let mut bad_node = vec![false; model.nodes.len()];
-    for m in (0..model.members.len()).filter(|&m| outside(m)) {
+    let split: Vec<usize> = crate::arrange::spans(model)
+        .into_iter()
+        .filter(|s| s.members.len() > 1)
+        .flat_map(|s| s.members)
+        .collect();
+    for m in (0..model.members.len()).filter(|&m| outside(m) || split.contains(&m)) {
         bad_node[model.members[m].i] = true;
         bad_node[model.members[m].j] = true;
     }

@@ -137,6 +137,9 @@ pub struct StoryEnvelope {
     pub story: usize,
     /// Largest first-order drift ratio Δ/h.
     pub drift_ratio: Option<Peak>,
+    /// Largest second-order drift ratio Δ2nd/h of the direct analysis (under factored
+    /// loads and the analysis stiffness: not a serviceability drift).
+    pub drift_ratio_second_order: Option<Peak>,
     /// Largest B2 (AISC 360-16 A-8-6), Q (ACI 318-19 6.6.4.4.1), δs by the Q method
     /// (ACI 318-19 6.6.4.6.2(a)), Δ2nd/Δ1st of the direct analysis, and sway amplifier of
     /// the chosen method.
@@ -341,6 +344,7 @@ pub fn story_envelopes(report: &CheckReport) -> Vec<StoryEnvelope> {
         .map(|s| StoryEnvelope {
             story: s.number,
             drift_ratio: None,
+            drift_ratio_second_order: None,
             b2: None,
             q_index: None,
             delta_s: None,
@@ -361,6 +365,13 @@ pub fn story_envelopes(report: &CheckReport) -> Vec<StoryEnvelope> {
             env.cases += 1;
             if f.drift_ratio.is_finite() {
                 keep(&mut env.drift_ratio, peak(f.drift_ratio.abs()), larger);
+            }
+            if let Some(d) = f.drift_second_order
+                && d.is_finite()
+                && f.height > 0.0
+            {
+                let ratio = (d / f.height).abs();
+                keep(&mut env.drift_ratio_second_order, peak(ratio), larger);
             }
             for (slot, v) in [
                 (&mut env.b2, f.b2),

@@ -341,3 +341,38 @@ fn cases_and_check_name_the_arrangement() {
     assert!(check.contains("/L:adj-N2.1"), "{check}");
     let _ = std::fs::remove_file(&path);
 }
+
+#[test]
+fn a_beam_split_between_supports_is_one_span() {
+    // Definition of a span (module documentation of `arrange`): a chain of beams between
+    // joints. Three spans on four supports, the middle span modelled as two members
+    // meeting at a node with no support: still three spans, the middle one named by its
+    // first and last member, and the adjacent-span arrangements at the two interior
+    // supports only.
+    let mut f = Frame::new();
+    let xs = [0.0, 5.0, 7.5, 10.0, 15.0];
+    let n: Vec<usize> = xs.iter().map(|&x| f.node(x, 0.0)).collect();
+    let members: Vec<usize> = (0..4)
+        .map(|k| f.member(n[k], n[k + 1], 200e9, 0.01, 1e-4))
+        .collect();
+    f.pinned(n[0]);
+    for k in [1, 3, 4] {
+        f.support(n[k], [Restraint::Free, Restraint::Fixed, Restraint::Free]);
+    }
+    let case = f.case("L", ActionCategory::Live);
+    f.model.load_cases[case].arrange = true;
+    for &m in &members {
+        f.udl(case, m, 1e3, LoadDirection::Gravity);
+    }
+    let arranged = arrange(&f.model);
+    let names: Vec<&str> = arranged.spans.iter().map(|s| s.name.as_str()).collect();
+    assert_eq!(names, ["M1", "M2–M3", "M4"]);
+    let tags: Vec<&str> = arranged.patterns.iter().map(|p| p.tag.as_str()).collect();
+    assert_eq!(tags, ["full", "alt-a", "alt-b", "adj-N2", "adj-N4"]);
+    // The middle span's piece carries both members' loads.
+    let piece = arranged
+        .model
+        .case_index("L@M2–M3")
+        .expect("piece of the middle span");
+    assert_eq!(arranged.model.load_cases[piece].member.len(), 2);
+}

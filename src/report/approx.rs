@@ -21,7 +21,7 @@ fn at_text(at: Location) -> &'static str {
 /// The flags of a member as one cell: `sign end-i`, `ratio 0.21 span`, `load ×1000`.
 fn flags_text(e: &MemberEstimate) -> String {
     if !e.estimated {
-        return "not judged: sloped or released beam here".into();
+        return "not judged: sloped, released or split beam here".into();
     }
     e.flags
         .iter()
@@ -92,7 +92,7 @@ pub fn render_text(model: &Model, r: &ApproxReport) -> String {
          (end moments −{e}·wL², mid-span +{s}·wL² with both ends continuous). Columns: \
          unbalanced beam-end moments by stiffness, half carried to the other end (none to a \
          pinned base). Lateral load: portal method. Sloped beams (over 5°), beams with a \
-         released end and the members meeting them are not judged.\n\
+         released end, spans of several members and the members meeting them are not judged.\n\
          Flagged: opposite sign, or ratio computed/approx above {ra} or below 1/{ra}, where \
          the approximate |M| reaches {sig} of the case's largest moment of the same role; a \
          beam load more than {ld} times (or under 1/{ld} of) the case's median beam load, or \

@@ -260,6 +260,7 @@ pub fn story_table(s: &Summary) -> Table {
             vec![
                 e.story.to_string(),
                 drift_peak(&e.drift_ratio),
+                drift_peak(&e.drift_ratio_second_order),
                 peak(&e.b2, 3),
                 peak(&e.q_index, 3),
                 peak(&e.delta_s, 3),
@@ -276,6 +277,7 @@ pub fn story_table(s: &Summary) -> Table {
         header: [
             "story",
             "max drift/h",
+            "max 2nd-order drift/h",
             "max B2",
             "max Q",
             "max δs",
@@ -654,8 +656,13 @@ pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
 pub fn story_table_tidy(s: &Summary) -> Table {
     let mut rows = Vec::new();
     for e in &s.envelope.stories {
-        let figures: [(&str, &str, &Option<Peak>); 7] = [
+        let figures: [(&str, &str, &Option<Peak>); 8] = [
             ("drift ratio", "max", &e.drift_ratio),
+            (
+                "second-order drift ratio",
+                "max",
+                &e.drift_ratio_second_order,
+            ),
             ("B2", "max", &e.b2),
             ("Q", "max", &e.q_index),
             ("delta_s", "max", &e.delta_s),
