@@ -94,6 +94,15 @@ fx = -10
     )
 }
 
+/// The whole check before this bench's work (commit 8387666): frame, members, median
+/// wall time (ms), CPU time (ms, one run; "-" not measured) and peak memory (MB).
+const BEFORE: [(&str, usize, &str, &str, &str); 4] = [
+    ("10 x 25", 525, "1599", "433", "20"),
+    ("20 x 50", 2050, "15066", "4497", "106"),
+    ("20 x 100", 4100, "42863", "8155", "235"),
+    ("1 x 2000", 6000, "133778", "-", "1277"),
+];
+
 /// The member-load direction key for gravity loads (renamed by issue 10 item 6).
 const DOWN: &str = "down";
 
@@ -314,9 +323,17 @@ fn main() {
     if quick {
         return;
     }
+    println!("\nbefore (stored figures, not re-run: the code of commit 8387666, one direct");
+    println!("analysis system of 4 elements per member factored at every iteration, one");
+    println!("stored solution per level, cases on one core; measured with this bench on the");
+    println!("same shared machine; CPU time from one run)");
+    println!("frame        members   time (ms)    cpu (ms)   peak (MB)");
+    for (frame, members, ms, cpu, mb) in BEFORE {
+        println!("{frame:<12} {members:>7} {ms:>11} {cpu:>11} {mb:>11}");
+    }
     println!("\ncases x time on the 20 x 50 frame (first k factored cases)");
     println!("cases   checked   time (ms)    cpu (ms)");
-    for k in 1..=6 {
+    for k in 1..=8 {
         let Ok((r, _)) = measured(20, 50, Some(k), runs) else {
             continue;
         };

@@ -1649,3 +1649,34 @@ fn the_csv_of_cases_ends_with_the_caution() {
             .starts_with("# Results assist a licensed engineer")
     );
 }
+
+#[test]
+fn shipped_tables_cite_no_blog_or_upload_site_and_state_levels() {
+    // Issue rule: secondary sources only from standards bodies, professional bodies, steel or
+    // concrete associations or university texts, otherwise [M]; every table names edition and
+    // clauses, and the level it expects for each lateral or snow action it uses.
+    for s in shipped_tables() {
+        let lower = s.text.to_lowercase();
+        for bad in [
+            "blog",
+            "scribd",
+            "struct.work",
+            "buildingcode.online",
+            "prose-eng",
+        ] {
+            assert!(!lower.contains(bad), "{} cites {bad}", s.name);
+        }
+        let t = parse_table(s.text, s.name).unwrap();
+        assert!(!t.edition.is_empty() && !t.clauses.is_empty());
+        assert!(
+            !t.source.contains("http"),
+            "{}: addresses belong in comments",
+            s.name
+        );
+        for a in &t.actions {
+            if a.category.has_levels() {
+                assert!(a.level.is_some(), "{}: {} has no level", s.name, a.symbol);
+            }
+        }
+    }
+}

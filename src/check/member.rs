@@ -58,7 +58,8 @@ pub struct MemberCheck {
     /// 0 in tension.
     pub compression: f64,
     /// AISC 360-16 A-8-2 `Pr = Pnt + B2·Plt`, the largest along the member, N, compression
-    /// positive (0 in tension); only with the AISC B1/B2 method. B1 uses it.
+    /// positive (0 in tension); only with the AISC B1/B2 method and a stable story (B2
+    /// exists). B1 uses it.
     pub p_r: Option<f64>,
     /// Largest first-order end shear, N.
     pub shear: f64,
@@ -374,7 +375,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let transverse = has_transverse_load(loads);
 
     // AISC A-8-2: Pr = Pnt + B2·Plt, the largest compression along the member.
-    let p_r = (method == SecondOrderMethod::AiscB1B2)
+    let p_r = (method == SecondOrderMethod::AiscB1B2 && amp_s.is_finite())
         .then(|| (-diagram(1.0, amp_s).least_axial()).max(0.0));
     // M2 and Cm of an ACI column on the diagram Mns + δs·Ms (6.6.4.6.1, 6.6.4.6.4), or on
     // the first-order total in a non-sway story.

@@ -545,6 +545,9 @@ pub fn text(s: &Summary) -> String {
         out.push_str(&l);
         out.push('\n');
     }
+    for w in &s.report.warnings {
+        out.push_str(&format!("Warning: {w}\n"));
+    }
     out.push_str(&format!(
         "{SIGN_NOTE}\n{}\n{CAUTION}\n",
         crate::check::story::DRIFT_NOTE
