@@ -108,11 +108,12 @@ pub fn own_table(model: &Model, model_path: &Path) -> Result<Option<ComboTable>,
                 return AppError::from(e); // an error inside the table file itself
             }
             let w = &model.combos.written;
-            let mut located = w.error(
-                w.table.clone(),
-                "combinations.table",
-                format!("{} ({})", e.message, e.file),
-            );
+            let message = if e.file == name {
+                e.message
+            } else {
+                format!("{} ({})", e.message, e.file)
+            };
+            let mut located = w.error(w.table.clone(), "combinations.table", message);
             located.help = e.help;
             AppError::from(located)
         })

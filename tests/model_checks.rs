@@ -66,3 +66,37 @@ fn story_levels_must_meet_column_ends() {
     let ok = format!("{}\n[analysis]\nstory_levels = [5]\n", portal());
     parse_model(&ok, "levels.toml").unwrap();
 }
+
+#[test]
+fn si_section_values_under_a_preset_warn_of_implausible_displacement() {
+    // Issue 7 item 9: under `kN-m` bare section numbers are mm² and mm⁴, so A = 0.01125 and
+    // I = 0.0001826 typed in SI make the sections 10⁶ and 10¹² times too small; the
+    // portal then moves metres under its own weight. A translation above a tenth of the
+    // frame's height is implausible (common practice, no source) and is named with the
+    // units hint, while the run still completes.
+    let text = portal()
+        .replace(
+            "A = \"112.5 cm^2\"\nI = \"18260 cm^4\"",
+            "A = 0.01125\nI = 0.0001826",
+        )
+        .replace(
+            "A = \"98.8 cm^2\"\nI = \"33740 cm^4\"",
+            "A = 0.00988\nI = 0.0003374",
+        );
+    let dir = std::env::temp_dir().join(format!("plumbline-checks-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let path = dir.join("si.toml");
+    std::fs::write(&path, &text).unwrap();
+    let out = plumbline::app::check(&path, &plumbline::app::CheckArgs::default()).unwrap();
+    assert!(
+        out.contains("Warning: load case G: node") && out.contains("sections in mm"),
+        "{out}"
+    );
+    // The example itself, in consistent units, draws no warning.
+    let ok = plumbline::app::check(
+        &Path::new(ROOT).join("examples/workshop-portal.toml"),
+        &plumbline::app::CheckArgs::default(),
+    )
+    .unwrap();
+    assert!(!ok.contains("Warning:"));
+}
