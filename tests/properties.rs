@@ -330,7 +330,11 @@ const KIP_FT: Preset = Preset {
 
 /// The model as a model file in preset `u`, every value a bare number in its units.
 fn model_file(model: &Model, u: &Preset) -> String {
-    let mut t = format!("title = \"random frame\"\nunits = \"{}\"\n", u.name);
+    // Gross stiffness, as the Rust-built frame has (a file without it gets the method's).
+    let mut t = format!(
+        "title = \"random frame\"\nunits = \"{}\"\n\n[analysis]\nstiffness = \"gross\"\n",
+        u.name
+    );
     for (k, mat) in model.materials.iter().enumerate() {
         t += &format!(
             "\n[[material]]\nid = \"E{k}\"\nE = {:e}\n",
