@@ -332,6 +332,12 @@ fn headings_say_which_cases_were_included() {
     );
     // --case implies the per-case detail.
     assert!(text.contains("Case T-2:"), "{text}");
+    let csv = render_check(&run, CheckFormat::Csv, false).files;
+    let assumptions = &csv.iter().find(|(n, _)| n == "assumptions.csv").unwrap().1;
+    assert!(
+        assumptions.contains("1 of 2 factored cases"),
+        "{assumptions}"
+    );
     let md = render_check(&run, CheckFormat::Md, false).joined();
     assert!(md.contains("1 of 2 factored cases") && md.contains("licensed engineer"));
     let _ = std::fs::remove_dir_all(Path::new(&path).parent().unwrap());

@@ -639,8 +639,19 @@ pub fn csv_text(t: &Table) -> String {
 
 /// The CSV files of a run: `(file name, text)`, one per table.
 pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
+    // The CSV files have no heading: the assumptions say which cases were included.
+    let mut assumptions = assumptions_table(s);
+    assumptions.rows.push(vec![
+        "cases included".into(),
+        s.selection.heading().replace("Cases included: ", ""),
+        if s.selection.filter.is_some() {
+            "command line (--case)".into()
+        } else {
+            "combination table".into()
+        },
+    ]);
     let mut tables = vec![
-        assumptions_table(s),
+        assumptions,
         story_table_tidy(s),
         member_table(s, true),
         column_table(s, true),
