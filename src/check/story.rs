@@ -93,8 +93,11 @@ pub struct StoryStiffness {
 }
 
 /// A pattern is used for a story only where the story carries at least this fraction of
-/// the pattern's total |force|, so that the drift is the story's own response and not the
-/// rotation left by loads below (common practice, no source).
+/// the share an evenly spread pattern would give it (story k of n, counted from the
+/// bottom from 0, carries (n − k)/n of an even pattern), so that the drift is the story's
+/// own response and not the rotation left by loads below (common practice, no source).
+/// Scaling by the even share keeps the top stories of tall frames valid under the
+/// gravity and uniform patterns, where each carries only 1/n of the total.
 pub const PATTERN_MIN_SHEAR_SHARE: f64 = 0.01;
 
 /// Story drifts of the free first-order frame under a unit force at each level, computed
@@ -158,8 +161,10 @@ fn under_pattern(
     source: StiffnessSource,
 ) -> Option<StoryStiffness> {
     let total: f64 = f.iter().map(|x| x.abs()).sum();
+    let even_share = (response.len() - k) as f64 / response.len() as f64;
     let (shear, drift) = response[k];
-    let valid = s * shear >= PATTERN_MIN_SHEAR_SHARE * total && s * drift > 1e-12 * h;
+    let valid =
+        s * shear >= PATTERN_MIN_SHEAR_SHARE * even_share * total && s * drift > 1e-12 * h;
     let stiffness = shear / drift;
     (valid && stiffness.is_finite()).then_some(StoryStiffness {
         stiffness,
@@ -178,7 +183,7 @@ type PatternResponse = (f64, Vec<(f64, f64)>);
 /// forces plus notional loads); `y` the level gravity loads Yi. Each story takes the first
 /// valid figure of: the case's own forces (only if they push every story the same way),
 /// forces ∝ Yi, equal forces. A figure is valid when the story's shear is at least
-/// [`PATTERN_MIN_SHEAR_SHARE`] of the pattern and its drift has the same sign — never a
+/// [`PATTERN_MIN_SHEAR_SHARE`] of its even share of the pattern and its drift has the same sign — never a
 /// near-zero shear or a shear against the drift.
 pub fn story_stiffness(
     stories: &[Story],
