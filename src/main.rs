@@ -1,5 +1,6 @@
 //! plumbline command line: argument parsing only; the work is done by `plumbline::app`.
 
+use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
@@ -305,7 +306,7 @@ fn main() -> ExitCode {
     ExitCode::from(match result {
         Ok((written, unstable)) => {
             for p in written {
-                eprintln!("plumbline: wrote {}", p.display());
+                let _ = writeln!(std::io::stderr(), "plumbline: wrote {}", p.display());
             }
             if unstable {
                 app::exit::UNSTABLE
@@ -318,7 +319,8 @@ fn main() -> ExitCode {
                 AppError::Usage(_) => app::exit::USAGE,
                 _ => app::exit::FAILED,
             };
-            eprintln!("{:?}", miette::Report::new(e));
+            // A closed stderr (`plumbline … 2>&1 | head`) must not turn into a panic.
+            let _ = writeln!(std::io::stderr(), "{:?}", miette::Report::new(e));
             code
         }
     })
