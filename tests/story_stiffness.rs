@@ -308,8 +308,16 @@ fn every_story_of_a_tall_frame_finds_a_same_signed_pattern() {
     for case in &report.cases {
         assert_eq!(case.stories.len(), stories);
         for st in &case.stories {
-            assert!(st.stiffness.is_finite() && st.stiffness > 0.0, "story {}", st.story);
-            assert!(st.stiffness_shear * st.stiffness_drift > 0.0, "story {}", st.story);
+            assert!(
+                st.stiffness.is_finite() && st.stiffness > 0.0,
+                "story {}",
+                st.story
+            );
+            assert!(
+                st.stiffness_shear * st.stiffness_drift > 0.0,
+                "story {}",
+                st.story
+            );
         }
     }
 }

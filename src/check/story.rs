@@ -163,8 +163,7 @@ fn under_pattern(
     let total: f64 = f.iter().map(|x| x.abs()).sum();
     let even_share = (response.len() - k) as f64 / response.len() as f64;
     let (shear, drift) = response[k];
-    let valid =
-        s * shear >= PATTERN_MIN_SHEAR_SHARE * even_share * total && s * drift > 1e-12 * h;
+    let valid = s * shear >= PATTERN_MIN_SHEAR_SHARE * even_share * total && s * drift > 1e-12 * h;
     let stiffness = shear / drift;
     (valid && stiffness.is_finite()).then_some(StoryStiffness {
         stiffness,
