@@ -75,7 +75,7 @@ pub fn judge_structure(
                 Some(1.0),
                 Classification::NonSway,
                 format!(
-                    "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices                      (EN 1993-1-1 (5.1), 5.2.1(3))"
+                    "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices (EN 1993-1-1 (5.1), 5.2.1(3))"
                 ),
             )
         } else if let Some(amp) = sway_amplifier(a) {
@@ -83,16 +83,16 @@ pub fn judge_structure(
                 Some(amp),
                 Classification::Sway,
                 format!(
-                    "structure α_cr = {a:.2} < 10 ({source}): all sway effects ×                      1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"
+                    "structure α_cr = {a:.2} < 10 ({source}): all sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"
                 ),
             )
         } else if direct_converged {
-            let r = f.drift_amplification.unwrap_or(1.0);
+            let r = f.direct_sway_amplifier.unwrap_or(1.0);
             (
                 Some(r),
                 Classification::Sway,
                 format!(
-                    "structure α_cr = {a:.2} < 3 ({source}): second-order analysis required                      (EN 1993-1-1 5.2.2(5)B); sway effects × Δ2nd/Δ1st = {r:.3} from the                      direct analysis"
+                    "structure α_cr = {a:.2} < 3 ({source}): second-order analysis required (EN 1993-1-1 5.2.2(5)B); sway effects × {r:.3} from the direct analysis (Δ2nd/Δ1st of the story or of the top, the larger, at least 1)"
                 ),
             )
         } else {
@@ -100,7 +100,7 @@ pub fn judge_structure(
                 None,
                 Classification::Unstable,
                 format!(
-                    "structure α_cr = {a:.2} < 3 ({source}) and the direct second-order                      analysis did not converge"
+                    "structure α_cr = {a:.2} < 3 ({source}) and the direct second-order analysis did not converge"
                 ),
             )
         };

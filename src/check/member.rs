@@ -421,7 +421,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             if delta.is_none() {
                 within_limits = false;
                 notes.push(
-                    "Pu ≥ 0.75·Pc: ACI 318-19 6.6.4.5.2 gives no δ and does not permit this                      column as sized; Mc is not given (the frame's stability is judged by                      the story and buckling figures)"
+                    "Pu ≥ 0.75·Pc: ACI 318-19 6.6.4.5.2 gives no δ and does not permit this column as sized; Mc is not given (the frame's stability is judged by the story and buckling figures)"
                         .into(),
                 );
             }

@@ -277,6 +277,11 @@ pub struct StoryFigures {
     pub drift_second_order: Option<f64>,
     /// Δ2nd/Δ1st from the direct second-order analysis (None without first-order drift).
     pub drift_amplification: Option<f64>,
+    /// The sway amplifier read off the direct analysis where a route takes one from it:
+    /// the larger of this story's Δ2nd/Δ1st, the frame's top-drift ratio and 1 (a
+    /// per-story ratio of a story with small or mixed first-order drift means little);
+    /// None if the direct analysis did not converge.
+    pub direct_sway_amplifier: Option<f64>,
     /// The amplifier applied to this story's sway moments by the chosen method.
     pub sway_amplifier: Option<f64>,
     pub classification: Classification,
@@ -443,6 +448,7 @@ pub fn figures(
                 drift_first_order: drift,
                 drift_second_order: None,
                 drift_amplification: None,
+                direct_sway_amplifier: None,
                 sway_amplifier: None,
                 classification: Classification::NonSway,
                 criterion: String::new(),
@@ -518,6 +524,7 @@ pub fn classify(
     alpha: f64,
     alpha_cr: Option<f64>,
 ) -> Vec<StoryFigures> {
+    let top_amplification = direct.and_then(|d| top_drift_amplification(stories, no_sway, sway, d));
     for (f, st) in figures.iter_mut().zip(stories) {
         let first = story_drift(st, no_sway) + story_drift(st, sway);
         f.drift_first_order = first;
@@ -526,9 +533,18 @@ pub fn classify(
             let second = story_drift(st, d);
             (first.abs() > 1e-12 * f.height).then(|| second / first)
         });
-        // 1.0 where the case has no first-order drift at all; None if the direct analysis
-        // failed.
-        let from_direct = direct.map(|_| f.drift_amplification.unwrap_or(1.0));
+        // The amplifier taken from the direct analysis: never below 1, and never below the
+        // frame's own top-drift ratio, since a story whose first-order drift is small or
+        // mixed in sign has a per-story Δ2nd/Δ1st that means little (it can be below 1 or
+        // negative); taking the larger is the conservative reading (common practice, no
+        // source). None if the direct analysis failed.
+        f.direct_sway_amplifier = direct.map(|_| {
+            f.drift_amplification
+                .unwrap_or(1.0)
+                .max(top_amplification.unwrap_or(1.0))
+                .max(1.0)
+        });
+        let from_direct = f.direct_sway_amplifier;
         let unstable = |why: String| (None, Classification::Unstable, why);
         let (amp, class, criterion) = match model.analysis.method {
             SecondOrderMethod::AiscB1B2 => match f.b2 {
@@ -628,6 +644,19 @@ pub fn classify(
         f.criterion = criterion;
     }
     figures
+}
+
+/// Δ2nd/Δ1st of the top level's drift ([`top_drift`]), or None where the first-order top
+/// drift is round-off.
+fn top_drift_amplification(
+    stories: &[Story],
+    no_sway: &Solution,
+    sway: &Solution,
+    direct: &Solution,
+) -> Option<f64> {
+    let first = top_drift(stories, no_sway) + top_drift(stories, sway);
+    let height: f64 = stories.iter().map(|st| st.height()).sum();
+    (first.abs() > 1e-12 * height).then(|| top_drift(stories, direct) / first)
 }
 
 #[cfg(test)]
