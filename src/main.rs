@@ -276,6 +276,11 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         Command::Report(a) => {
             let (model, args) = a.run.args(CheckFormat::Table, false);
             let output = a.output.unwrap_or_else(|| model.with_extension("html"));
+            // The default name is derived from the model's: never let it be an input.
+            let inputs: Vec<&Path> = std::iter::once(model.as_path())
+                .chain(args.combos.as_deref().map(Path::new))
+                .collect();
+            app::check_output_path(&output, &inputs)?;
             text(
                 app::report(&model, &args, &mut progress_bar())?,
                 Some(output),

@@ -428,3 +428,22 @@ fn report_writes_an_html_file_beside_the_model_or_where_asked() {
     assert!(html.starts_with("<!DOCTYPE html>") && html.contains("licensed engineer"));
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+#[test]
+fn report_default_name_never_overwrites_the_model() {
+    // Project requirement (issue 13 item 5, no external source): the input is never
+    // modified. A model file that already ends in .html would be its own default report.
+    let dir = scratch("report-default-name");
+    let model = dir.join("frame.html");
+    let text =
+        std::fs::read_to_string(Path::new(ROOT).join("examples/workshop-portal.toml")).unwrap();
+    std::fs::write(&model, &text).unwrap();
+    let o = run(&["report", model.to_str().unwrap()]);
+    assert_eq!(o.status.code(), Some(2), "{}", stderr(&o));
+    assert!(
+        stderr(&o).contains("refusing to overwrite an input"),
+        "{}",
+        stderr(&o)
+    );
+    assert_eq!(std::fs::read_to_string(&model).unwrap(), text);
+}
