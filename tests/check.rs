@@ -4,15 +4,16 @@
 
 mod common;
 
+use common::{only_case, strength};
+
 use std::f64::consts::PI;
 
 use approx::assert_relative_eq;
 use common::{Frame, portal};
-use plumbline::check::{CaseCheck, CheckReport, Classification, check};
-use plumbline::combos::{Basis, FactoredCase};
+use plumbline::check::{Classification, check};
+use plumbline::combos::Basis;
 use plumbline::model::{
-    ActionCategory, LoadDirection, Model, NotionalLoads, Restraint, SecondOrderMethod,
-    StiffnessPreset,
+    ActionCategory, LoadDirection, NotionalLoads, Restraint, SecondOrderMethod, StiffnessPreset,
 };
 use plumbline::solve::solve_case;
 use plumbline::stories::stories;
@@ -26,25 +27,6 @@ const E_STEEL: f64 = 200e9; // E used by `common::portal`
 /// areas are raised to 1000 m², so the column shortening under overturning changes the
 /// drift by about 2h³K/(L²EA) ≈ 1e-7 of itself (derived in `stiff_portal`).
 const AXIAL_RIGID: f64 = 1e-6;
-
-/// A factored case on the strength basis with `factors` on the model's load cases.
-fn strength(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
-    FactoredCase {
-        id: id.into(),
-        expression: id.into(),
-        basis: Basis::Strength,
-        combination: id.into(),
-        factors: factors.to_vec(),
-        note: None,
-    }
-}
-
-/// Run `check` and return its only case (fails if notional loads split it in two).
-fn only_case(model: &Model, fc: &FactoredCase) -> CaseCheck {
-    let report: CheckReport = check(model, std::slice::from_ref(fc)).unwrap();
-    assert_eq!(report.cases.len(), 1, "expected one case");
-    report.cases.into_iter().next().unwrap()
-}
 
 /// Lateral stiffness H/Δ of a single-bay portal, closed form by slope-deflection (no
 /// book at hand; derived here). Kc = EIc/h, Kb = EIb/L, k = Kb/Kc = (Ib/Ic)(h/L),

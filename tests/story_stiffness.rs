@@ -3,27 +3,17 @@
 
 mod common;
 
+use common::strength;
+
 use approx::assert_relative_eq;
 use common::Frame;
 use plumbline::check::story::StiffnessSource;
 use plumbline::check::{CheckReport, Classification, check};
-use plumbline::combos::{Basis, FactoredCase};
+use plumbline::combos::FactoredCase;
 use plumbline::model::{
     ActionCategory, LoadDirection, MemberLoadKind, Model, NotionalLoads, SecondOrderMethod,
     StiffnessPreset,
 };
-
-/// A factored case on the strength basis.
-fn strength(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
-    FactoredCase {
-        id: id.into(),
-        expression: id.into(),
-        basis: Basis::Strength,
-        combination: id.into(),
-        factors: factors.to_vec(),
-        note: None,
-    }
-}
 
 /// The two-story, one-bay frame of issue 7 item 1: stories of 4.0 m and 3.5 m, a 6.0 m bay,
 /// fixed bases, columns A = 91 cm², I = 10 450 cm⁴, girders A = 72.7 cm², I = 23 130 cm⁴,

@@ -519,6 +519,21 @@ pub fn closing_lines(s: &Summary) -> Vec<String> {
     out
 }
 
+/// The tables of the one-page summary, in page order, empty ones left out (shared by the
+/// text and Markdown pages).
+fn page_tables(s: &Summary) -> Vec<Table> {
+    [
+        assumptions_table(s),
+        story_table(s),
+        member_table(s, false),
+        column_table(s, false),
+        case_table(s),
+    ]
+    .into_iter()
+    .filter(|t| !t.rows.is_empty())
+    .collect()
+}
+
 fn text_table(t: &Table) -> String {
     format!("{}\n{}\n\n", t.title, table_of(&t.header, t.rows.clone()))
 }
@@ -530,16 +545,8 @@ pub fn text(s: &Summary) -> String {
         out.push_str(&format!("  {r}\n"));
     }
     out.push('\n');
-    for t in [
-        assumptions_table(s),
-        story_table(s),
-        member_table(s, false),
-        column_table(s, false),
-        case_table(s),
-    ] {
-        if !t.rows.is_empty() {
-            out.push_str(&text_table(&t));
-        }
+    for t in page_tables(s) {
+        out.push_str(&text_table(&t));
     }
     for l in closing_lines(s) {
         out.push_str(&l);
@@ -596,20 +603,16 @@ pub fn markdown(s: &Summary) -> String {
     if !s.selection.remarks.is_empty() {
         out.push('\n');
     }
-    for t in [
-        assumptions_table(s),
-        story_table(s),
-        member_table(s, false),
-        column_table(s, false),
-        case_table(s),
-    ] {
-        if !t.rows.is_empty() {
-            out.push_str(&md_table(&t));
-        }
+    for t in page_tables(s) {
+        out.push_str(&md_table(&t));
     }
     for l in closing_lines(s) {
         out.push_str(&format!("- {}\n", md_cell(&l)));
     }
+    for w in &s.report.warnings {
+        out.push_str(&format!("- Warning: {}\n", md_cell(w)));
+    }
+    out.push_str(&format!("\n{}\n", crate::check::story::DRIFT_NOTE));
     out.push_str(&format!(
         "\n{SIGN_NOTE}\n\nCombination table: {} ({}). {}\n\n",
         s.table.source, s.table.name, s.table.caution
