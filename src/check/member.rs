@@ -44,6 +44,10 @@ pub struct MomentCheck {
     pub design: f64,
     /// Whether the amplified sway or no-sway part is the larger here.
     pub governs: Part,
+    /// The moment of the case's direct second-order analysis at this section (same
+    /// loads, notional forces and stiffness), N·m; None where that analysis did not
+    /// converge or the section is not an end or a governing section of it.
+    pub second_order: Option<f64>,
 }
 
 /// Results of one member under one factored case (SI units).
@@ -455,6 +459,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         } else {
             Part::NoSway
         },
+        second_order: None,
     };
     let end_parts = [(ns[0], sw[0]), (ns[1], sw[1])];
     let (ends, span, span_max, span_min) = match (method, input.direct) {
@@ -495,6 +500,12 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             )
         }
     };
+    let mut ends = ends;
+    if let Some((d, _)) = input.direct {
+        let dm = end_moments(d, m);
+        ends[0].second_order = Some(dm[0]);
+        ends[1].second_order = Some(dm[1]);
+    }
     // ACI columns: Mc = δ·M2 (6.6.4.5.1) at the section of M2, in place of the span value.
     let span = match &aci_col {
         Some(col) => {
