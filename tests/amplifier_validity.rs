@@ -13,8 +13,9 @@
 mod common;
 
 use common::random_frame::RandomFrame;
-use plumbline::check::{CaseCheck, check};
-use plumbline::model::SecondOrderMethod;
+use plumbline::check::story::SwayRoute;
+use plumbline::check::{CaseCheck, Classification, check};
+use plumbline::model::{NotionalLoads, SecondOrderMethod};
 
 /// Frames per property run (issue 16 asks for at least 200).
 const FRAMES: u64 = 200;
@@ -63,7 +64,12 @@ fn end_ratios(c: &CaseCheck) -> Vec<(f64, String)> {
             }
             out.push((
                 e.design / so,
-                format!("{} end {}: design {:.4e}, second-order {so:.4e}", m.member, ["i", "j"][k], e.design),
+                format!(
+                    "{} end {}: design {:.4e}, second-order {so:.4e}",
+                    m.member,
+                    ["i", "j"][k],
+                    e.design
+                ),
             ));
         }
     }
@@ -100,5 +106,244 @@ fn spread_of_design_over_second_order_end_moments() {
             "{method}: design / second-order end moment, n = {n}: min {:.3}, 10 % {:.3}, median {:.3}, 90 % {:.3}, max {:.3}; below 0.95: {short}; lowest at {}",
             s[0], s[1], s[2], s[3], s[4], worst.1
         );
+    }
+}
+
+#[test]
+#[ignore]
+fn debug_one() {
+    let seed: u64 = std::env::var("SEED").unwrap().parse().unwrap();
+    let method = match std::env::var("METHOD").unwrap().as_str() {
+        "aci" => SecondOrderMethod::AciMagnifier,
+        "ec3" => SecondOrderMethod::Ec3AlphaCr,
+        "aisc" => SecondOrderMethod::AiscB1B2,
+        _ => SecondOrderMethod::Direct,
+    };
+    let case = std::env::var("CASE").unwrap();
+    let member = std::env::var("MEMBER").unwrap();
+    let mut rf = RandomFrame::new(seed);
+    rf.model.analysis.method = method;
+    println!(
+        "bays {} stories {} base {:?} braces {:?} leaning {:?} lateral {:?}",
+        rf.bays, rf.stories, rf.base, rf.braces, rf.leaning, rf.lateral
+    );
+    let report = check(&rf.model, &rf.cases).unwrap();
+    let c = report.cases.iter().find(|c| c.id == case).unwrap();
+    println!("alpha_cr {:?} notional {:?}", c.alpha_cr, c.notional);
+    for s in &c.stories {
+        println!(
+            "story {} drift1 {:.3e} drift2 {:?} amp {:?} route {} Q {:.3} {}",
+            s.story,
+            s.drift_first_order,
+            s.drift_second_order,
+            s.sway_amplifier,
+            s.route,
+            s.q_index,
+            s.criterion
+        );
+    }
+    if member == "unstable" {
+        for m in c.members.iter().filter(|m| !m.stable) {
+            println!(
+                "{} {:?} release {:?} {:?} c_m {:?} pcrit {:?} p_r {:?} notes {:?}",
+                m.member,
+                m.role,
+                rf.model
+                    .members
+                    .iter()
+                    .find(|x| x.id == m.member)
+                    .map(|x| (x.release_i, x.release_j)),
+                m.compression,
+                m.c_m,
+                m.p_critical,
+                m.p_r,
+                m.notes
+            );
+        }
+        return;
+    }
+    let m = c.members.iter().find(|m| m.member == member).unwrap();
+    println!("{m:#?}");
+}
+
+/// On the first-order route the method permits first-order moments: EN 1993-1-1 (5.1)
+/// α_cr ≥ 10 means sway effects grow by at most 1/(1 − 1/10) = 1.11; ACI 318-19
+/// 6.6.4.3(b) Q ≤ 0.05 means about 1/(1 − 0.05) = 1.053 (from memory). The allowance on
+/// such a section is that growth of its sway part.
+const FIRST_ORDER_ALLOWANCE: f64 = 1.0 / (1.0 - 1.0 / 10.0) - 1.0;
+
+/// Issue 16, "Done when": every EC3 and ACI design end moment is at least 0.95 × the
+/// second-order analysis moment of the same case, or the route says why not (first-order
+/// permitted, with the allowance [`FIRST_ORDER_ALLOWANCE`] on the sway part). Moments
+/// below 1 % of the case's largest second-order end moment are noise and not compared
+/// (a ratio of small numbers).
+fn assert_not_short(seed: u64, method: SecondOrderMethod, c: &CaseCheck) -> usize {
+    let scale = case_scale(c);
+    let mut compared = 0;
+    for m in c.members.iter().filter(|m| m.stable) {
+        for e in &m.ends {
+            let Some(so) = e.second_order else { continue };
+            if so.abs() < 0.01 * scale {
+                continue;
+            }
+            // An ACI 318-19 column is designed for Mc = δ·M2 ≥ its end moments (6.6.4.5.1,
+            // 6.6.4.6.4): second-order effects of the no-sway part along the column are
+            // carried there, not in the end values.
+            let design = match (method, m.p_critical) {
+                (SecondOrderMethod::AciMagnifier, Some(_)) if m.span.design.is_finite() => {
+                    (e.design * so.signum()).max(m.span.design.abs().min(so.abs()))
+                }
+                _ => e.design * so.signum(),
+            };
+            let shortfall = (so.abs() - design).max(0.0);
+            let first_order_route = m.sway_amplifier == Some(1.0) && !m.second_order;
+            let allowed = 0.05 * so.abs()
+                + if first_order_route {
+                    FIRST_ORDER_ALLOWANCE * e.sway.abs()
+                } else {
+                    0.0
+                }
+                + 1e-9 * scale;
+            assert!(
+                shortfall <= allowed,
+                "seed {seed}, {method}, case {}, member {}: design {:.5e} against second-order \
+                 {so:.5e} (no-sway {:.4e}, sway {:.4e}, amplifier {:?}); stories: {:?}",
+                c.id,
+                m.member,
+                e.design,
+                e.no_sway,
+                e.sway,
+                m.sway_amplifier,
+                c.stories.iter().map(|s| &s.criterion).collect::<Vec<_>>()
+            );
+            compared += 1;
+        }
+    }
+    compared
+}
+
+/// Issue 16: a sway verdict and a reported amplifier come from significant quantities.
+/// Δ2nd/Δ1st exists only where the first-order drift is significant; a story judged sway
+/// has a significant drift ratio or is judged by a story or frame figure (B2, Q, α_cr)
+/// from a same-signed pattern or the buckling analysis; every applied amplifier is at
+/// least 1 and finite.
+fn assert_significant(seed: u64, method: SecondOrderMethod, c: &CaseCheck) {
+    for s in &c.stories {
+        let what = format!(
+            "seed {seed}, {method}, case {}, story {}: {}",
+            c.id, s.story, s.criterion
+        );
+        if s.drift_negligible {
+            assert!(s.drift_amplification.is_none(), "{what}");
+        }
+        if let Some(a) = s.sway_amplifier {
+            assert!(a >= 1.0 && a.is_finite(), "{what}: amplifier {a}");
+            assert!(s.route != SwayRoute::SecondOrderAnalysis, "{what}");
+        }
+        if s.classification == Classification::Sway {
+            let by_figure = ["B2 =", "Q =", "α_cr =", "story formula"]
+                .iter()
+                .any(|f| s.criterion.contains(f));
+            assert!(
+                by_figure || (!s.drift_negligible && s.drift_amplification.is_some()),
+                "{what}"
+            );
+        }
+    }
+}
+
+/// Issue 16: an applied amplifier does not exceed the second-order analysis's own ratio
+/// by more than a stated margin. The analysis's ratio of a story is Δ2nd/Δ1st where its
+/// drift is significant; EN 1993-1-1 applies one amplifier to the structure, so it is
+/// compared with the case's largest story ratio. Margin: (amplifier − 1) at most 2 ×
+/// (ratio − 1) + 0.05 (common practice, no source: B2 with RM = 0.85 and a story
+/// stiffness from a reference pattern, and δs of the Q method, are deliberately
+/// conservative estimates of the same growth).
+fn amplifier_excess(c: &CaseCheck, method: SecondOrderMethod) -> Vec<f64> {
+    let largest = c
+        .stories
+        .iter()
+        .filter_map(|s| s.drift_amplification)
+        .fold(f64::NAN, f64::max);
+    c.stories
+        .iter()
+        .filter(|s| s.route == SwayRoute::Amplified)
+        .filter_map(|s| {
+            let r = if method == SecondOrderMethod::Ec3AlphaCr {
+                Some(largest).filter(|r| r.is_finite())
+            } else {
+                s.drift_amplification
+            }?;
+            let a = s.sway_amplifier?;
+            Some((a - 1.0) - 2.0 * (r.max(1.0) - 1.0))
+        })
+        .collect()
+}
+
+#[test]
+fn amplified_routes_stay_within_their_conditions_on_random_frames() {
+    let mut compared = 0;
+    let mut excess = Vec::new();
+    for seed in 0..FRAMES {
+        for method in METHODS {
+            let mut rf = RandomFrame::new(seed);
+            rf.model.analysis.method = method;
+            let report = check(&rf.model, &rf.cases)
+                .unwrap_or_else(|e| panic!("seed {seed}, {method}: {e}"));
+            for c in report.cases.iter().filter(|c| c.stable) {
+                if matches!(
+                    method,
+                    SecondOrderMethod::Ec3AlphaCr | SecondOrderMethod::AciMagnifier
+                ) {
+                    compared += assert_not_short(seed, method, c);
+                }
+                assert_significant(seed, method, c);
+                for x in amplifier_excess(c, method) {
+                    excess.push((x, seed, method, c.id.clone()));
+                }
+            }
+        }
+    }
+    excess.sort_by(|a, b| b.0.total_cmp(&a.0));
+    println!(
+        "end moments compared: {compared}; largest amplifier excess over 2·(ratio − 1): {:?}",
+        excess.iter().take(5).collect::<Vec<_>>()
+    );
+    assert!(compared > 10_000, "{compared}");
+    assert!(
+        excess.first().is_none_or(|x| x.0 <= 0.05),
+        "{:?}",
+        excess.first()
+    );
+}
+
+/// Issue 16: a frame symmetric about its centre line under symmetric gravity has no sway
+/// (closed form: a symmetric response), so every method finds every story non-sway with
+/// amplifier 1 (the direct method: its own moments, non-sway). Notional loads are left
+/// out: they are deliberately asymmetric.
+#[test]
+fn symmetric_frames_under_symmetric_gravity_are_non_sway() {
+    for seed in 0..FRAMES {
+        for method in METHODS {
+            let mut rf = RandomFrame::symmetric(seed);
+            rf.model.analysis.method = method;
+            rf.model.analysis.notional = NotionalLoads::None;
+            let report = check(&rf.model, &rf.cases).unwrap();
+            for c in report.cases.iter().filter(|c| c.direct.converged) {
+                for s in &c.stories {
+                    let what = format!(
+                        "seed {seed}, {method}, case {}, story {}: {}",
+                        c.id, s.story, s.criterion
+                    );
+                    assert_eq!(s.classification, Classification::NonSway, "{what}");
+                    assert!(s.drift_negligible, "{what}");
+                    if method == SecondOrderMethod::Direct {
+                        assert_eq!(s.route, SwayRoute::SecondOrderAnalysis, "{what}");
+                    } else {
+                        assert_eq!(s.sway_amplifier, Some(1.0), "{what}");
+                    }
+                }
+            }
+        }
     }
 }

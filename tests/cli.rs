@@ -148,7 +148,10 @@ fn check_runs_with_every_second_order_method() {
                 c["id"]
             );
             for s in c["stories"].as_array().unwrap() {
-                assert!(s["sway_amplifier"].as_f64().unwrap() >= 1.0);
+                // None on the second-order route (issue 16).
+                if let Some(a) = s["sway_amplifier"].as_f64() {
+                    assert!(a >= 1.0);
+                }
             }
         }
     }

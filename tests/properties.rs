@@ -377,6 +377,9 @@ fn model_file(model: &Model, u: &Preset) -> String {
             "\n[[support]]\nnode = \"{}\"\ntype = \"{kind}\"\n",
             model.nodes[s.node].id
         );
+        if let Restraint::Spring(k) = s.dofs[2] {
+            t += &format!("kr = {:e}\n", k / (u.force * u.length));
+        }
     }
     for c in &model.load_cases {
         t += &format!(

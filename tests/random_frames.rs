@@ -24,11 +24,14 @@ const METHODS: [SecondOrderMethod; 4] = [
 ];
 
 /// Issue 7 item 1, common practice, no source: a case whose frame buckles only above
-/// 1.5 × its loads and whose direct analysis converges is not unstable by any method's
+/// 2 × its loads and whose direct analysis converges is not unstable by any method's
 /// story or frame figures. Returns whether a member formula alone (B1 or ACI δ unbounded,
 /// the member checks' business) marked the case unstable, so the caller can count them.
 fn assert_not_falsely_unstable(rf: &RandomFrame, method: SecondOrderMethod, c: &CaseCheck) -> bool {
-    let buckling_ok = c.alpha_cr.is_none_or(|a| a >= 1.5);
+    // 2 rather than 1.5 since the generator's frames gained braces, leaning columns and
+    // soft stories (issue 16): at α_cr ≈ 1.5 B2 ≈ 3 and Pr = Pnt + B2·Plt of a column can
+    // honestly reach its Pe1 (AISC 360-16 A-8-3).
+    let buckling_ok = c.alpha_cr.is_none_or(|a| a >= 2.0);
     if !(buckling_ok && c.direct.converged) || c.stable {
         return false;
     }
@@ -157,6 +160,11 @@ fn span_extremes_equal_a_dense_sampling_of_the_design_diagram() {
                     .find(|f| c.id.split('/').next() == Some(f.id.as_str()))
                     .expect("case id");
                 for (m, mc) in c.members.iter().enumerate() {
+                    // On the second-order route the diagram is the direct analysis's
+                    // (checked with the direct method below).
+                    if mc.second_order {
+                        continue;
+                    }
                     let k_ns = match method {
                         SecondOrderMethod::AiscB1B2 => mc.non_sway_amplifier.unwrap(),
                         _ => 1.0,
@@ -281,7 +289,7 @@ fn no_false_instability_and_same_signed_story_patterns() {
             }
         }
     }
-    // Cases whose only instability is a member formula (B1 of AISC A-8-3) while α_cr ≥ 1.5
+    // Cases whose only instability is a member formula (B1 of AISC A-8-3) while α_cr ≥ 2
     // and the direct analysis converged. ACI's Pu ≥ 0.75·Pc is a limit on the column's
     // design (`within_limits`), not an instability of the case (issue 8 item 4), so the
     // list must be empty.

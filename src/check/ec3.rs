@@ -5,7 +5,7 @@
 //! §5.2.2(5)B amplifier 1/(1 − 1/α_cr) for α_cr ≥ 3 [C amplifier, M clause wording];
 //! (5.5) φ = φ0·αh·αm [C]; §5.3.2(4)B H ≥ 0.15·V [M].
 
-use super::story::{Classification, StoryFigures};
+use super::story::{Classification, DRIFT_NEGLIGIBLE_RATIO, StoryFigures, Verdict};
 
 /// First-order analysis is enough when α_cr ≥ 10 (elastic analysis), (5.1).
 pub const ALPHA_CR_FIRST_ORDER: f64 = 10.0;
@@ -42,16 +42,97 @@ pub fn structure_alpha_cr(
         .min_by(f64::total_cmp)
 }
 
+/// The amplified sway method multiplies every sway effect by one factor; that is right
+/// only where the first-order sway of the case has the shape of the frame's first sway
+/// mode (EN 1993-1-1 §5.2.2(6)B, from memory: storeys with similar distributions of
+/// vertical load, horizontal load and stiffness, first sway mode governing). Measured
+/// here on the case itself: the cosine between the stories' first-order drift ratios
+/// Δ/h and those of the buckled shape must be at least this (common practice, no source:
+/// a first-order sway of which more than about 30 % lies outside the first mode is not
+/// amplified by 1/(1 − 1/α_cr), and where its sway part relieves the no-sway part the
+/// amplified total is then too small).
+pub const MODE_SHAPE_MIN_COSINE: f64 = 0.95;
+
+/// Whether the case's first-order sway fits the amplified sway method (§5.2.2(6)B):
+/// `Ok(figures)` or `Err(why not)`, each naming the deciding figures.
+///
+/// `first` are the stories' first-order drifts of the case and `mode` those of the
+/// frame's lowest sway mode (m; None without a buckling analysis), `h` the heights and
+/// `significant` whether each first-order drift is significant. Conditions: every
+/// significant story drift is in the sense of the buckled shape (sway forces of mixed
+/// sign or a relieving sway fail it), and the drift-ratio shapes have a cosine of at
+/// least [`MODE_SHAPE_MIN_COSINE`].
+pub fn amplified_method_conditions(
+    first: &[f64],
+    mode: Option<&[f64]>,
+    h: &[f64],
+    significant: &[bool],
+) -> Result<String, String> {
+    let theta: Vec<f64> = first
+        .iter()
+        .zip(h)
+        .zip(significant)
+        .map(|((d, h), &s)| if s { d / h } else { 0.0 })
+        .collect();
+    let Some(mode) = mode else {
+        // No sway mode to compare with: the stories' own senses must agree.
+        let pos = theta.iter().any(|&t| t > 0.0);
+        let neg = theta.iter().any(|&t| t < 0.0);
+        return if pos && neg {
+            Err("the stories' first-order drifts change sense up the height".into())
+        } else {
+            Ok("first-order drifts of one sense".into())
+        };
+    };
+    let psi: Vec<f64> = mode.iter().zip(h).map(|(d, h)| d / h).collect();
+    let dot: f64 = theta.iter().zip(&psi).map(|(a, b)| a * b).sum();
+    let norm = |v: &[f64]| v.iter().map(|x| x * x).sum::<f64>().sqrt();
+    let cosine = dot / (norm(&theta) * norm(&psi));
+    let sense = dot.signum();
+    let against: Vec<usize> = theta
+        .iter()
+        .zip(&psi)
+        .enumerate()
+        .filter(|(_, (t, p))| **t != 0.0 && sense * *t * **p < 0.0)
+        .map(|(k, _)| k + 1)
+        .collect();
+    if !cosine.is_finite() {
+        return Err("no significant first-order sway to compare with the buckled shape".into());
+    }
+    if !against.is_empty() {
+        let list: Vec<String> = against.iter().map(|k| k.to_string()).collect();
+        return Err(format!(
+            "the first-order drift of story {} is against the buckled shape (sway forces of \
+             mixed sense)",
+            list.join(", ")
+        ));
+    }
+    if cosine < MODE_SHAPE_MIN_COSINE {
+        return Err(format!(
+            "the first-order sway is not the first sway mode's shape (cosine of the drift \
+             shapes {cosine:.3} < {MODE_SHAPE_MIN_COSINE})"
+        ));
+    }
+    Ok(format!(
+        "first-order sway in the buckled shape (cosine {cosine:.3})"
+    ))
+}
+
 /// Judge the whole structure by one α_cr ([`structure_alpha_cr`]) and give every story the
 /// same verdict (EN 1993-1-1 §5.2.1(3)/(4)B, §5.2.2(5)B/(6)B, from memory):
 /// * α_cr ≥ 10: first-order analysis suffices, sway effects × 1.0 (5.1);
-/// * 3 ≤ α_cr < 10: all sway effects × 1/(1 − 1/α_cr) (amplified sway method);
-/// * α_cr < 3: a second-order analysis is required; each story's sway effects are then
-///   amplified by its Δ2nd/Δ1st from the direct analysis, or the story is unstable when that
-///   analysis did not converge.
+/// * 3 ≤ α_cr < 10: all sway effects × 1/(1 − 1/α_cr) (amplified sway method) where the
+///   case's first-order sway fits the method ([`amplified_method_conditions`]); where it
+///   does not, the moments of the second-order analysis, and the criterion says why;
+/// * α_cr < 3: a second-order analysis is required (§5.2.2(5)B): its moments, or the
+///   structure is unstable when that analysis did not converge.
+///
+/// `buckling` is the lowest sway mode's α_cr and `mode` its story drifts. A case with no
+/// significant first-order sway keeps its first-order verdict ([`super::story::classify`]).
 pub fn judge_structure(
     figures: &mut [StoryFigures],
     buckling: Option<f64>,
+    mode: Option<&[f64]>,
     direct_converged: bool,
 ) {
     let lowest_story = figures
@@ -61,52 +142,71 @@ pub fn judge_structure(
     let Some(a) = structure_alpha_cr(lowest_story, buckling) else {
         return;
     };
+    let largest = figures
+        .iter()
+        .map(|f| (f.drift_first_order / f.height).abs())
+        .fold(0.0, f64::max);
+    if largest < DRIFT_NEGLIGIBLE_RATIO
+        && direct_converged
+        && figures
+            .iter()
+            .all(|f| f.classification != Classification::Unstable)
+    {
+        for f in figures.iter_mut() {
+            Verdict::first_order(format!(
+                "structure α_cr = {a:.2}; no significant first-order sway under this case \
+                 (largest drift {largest:.1e}·h): no sway effects to amplify"
+            ))
+            .apply(f);
+        }
+        return;
+    }
     let source = match (lowest_story, buckling) {
         (Some(s), Some(b)) if b < s => {
-            format!("buckling analysis {b:.2} < lowest story value {s:.2}")
+            format!("lowest sway mode {b:.2} < lowest story value {s:.2}")
         }
-        (Some(s), Some(b)) => format!("lowest story value {s:.2}; buckling analysis {b:.2}"),
+        (Some(s), Some(b)) => format!("lowest story value {s:.2}; lowest sway mode {b:.2}"),
         (Some(s), None) => format!("lowest story value {s:.2}"),
-        (None, _) => "buckling analysis".to_string(),
+        (None, _) => "lowest sway mode".to_string(),
+    };
+    let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
+    let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
+    let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
+    let conditions = amplified_method_conditions(&first, mode, &h, &significant);
+    let verdict = if a >= ALPHA_CR_FIRST_ORDER {
+        Verdict::first_order(format!(
+            "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices (EN 1993-1-1 (5.1), 5.2.1(3))"
+        ))
+    } else if !direct_converged {
+        Verdict::unstable(format!(
+            "structure α_cr = {a:.2} < 10 ({source}) and the direct second-order analysis did not converge"
+        ))
+    } else if let Some(amp) = sway_amplifier(a) {
+        match conditions {
+            Ok(why) => Verdict::amplified(
+                amp,
+                Classification::Sway,
+                format!(
+                    "structure α_cr = {a:.2} < 10 ({source}); {why}: all sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B, (6)B)"
+                ),
+            ),
+            Err(why) => Verdict::second_order(
+                Classification::Sway,
+                format!(
+                    "structure α_cr = {a:.2} < 10 ({source}); amplified sway method outside EN 1993-1-1 5.2.2(6)B: {why}; design moments from the second-order analysis"
+                ),
+            ),
+        }
+    } else {
+        Verdict::second_order(
+            Classification::Sway,
+            format!(
+                "structure α_cr = {a:.2} < 3 ({source}): second-order analysis required (EN 1993-1-1 5.2.2(5)B); design moments from it"
+            ),
+        )
     };
     for f in figures.iter_mut() {
-        let (amp, class, criterion) = if a >= ALPHA_CR_FIRST_ORDER {
-            (
-                Some(1.0),
-                Classification::NonSway,
-                format!(
-                    "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices (EN 1993-1-1 (5.1), 5.2.1(3))"
-                ),
-            )
-        } else if let Some(amp) = sway_amplifier(a) {
-            (
-                Some(amp),
-                Classification::Sway,
-                format!(
-                    "structure α_cr = {a:.2} < 10 ({source}): all sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B)"
-                ),
-            )
-        } else if direct_converged {
-            let r = f.direct_sway_amplifier.unwrap_or(1.0);
-            (
-                Some(r),
-                Classification::Sway,
-                format!(
-                    "structure α_cr = {a:.2} < 3 ({source}): second-order analysis required (EN 1993-1-1 5.2.2(5)B); sway effects × {r:.3} from the direct analysis (Δ2nd/Δ1st of the story or of the top, the larger, at least 1)"
-                ),
-            )
-        } else {
-            (
-                None,
-                Classification::Unstable,
-                format!(
-                    "structure α_cr = {a:.2} < 3 ({source}) and the direct second-order analysis did not converge"
-                ),
-            )
-        };
-        f.sway_amplifier = amp;
-        f.classification = class;
-        f.criterion = criterion;
+        verdict.clone().apply(f);
     }
 }
 

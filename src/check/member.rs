@@ -11,7 +11,7 @@
 
 use serde::Serialize;
 
-use super::story::{Classification, StoryFigures};
+use super::story::{StoryFigures, SwayRoute};
 use super::{aci, aisc};
 use crate::model::{LocalLoad, Model, Role, SecondOrderMethod};
 use crate::solve::Solution;
@@ -87,8 +87,12 @@ pub struct MemberCheck {
     /// Non-sway amplifier: B1 (AISC) or δ (ACI); 1 where none applies.
     pub non_sway_amplifier: Option<f64>,
     /// Sway amplifier applied to the member's sway moments: B2, δs (1 in a non-sway ACI
-    /// story), 1/(1 − 1/α_cr) or Δ2nd/Δ1st.
+    /// story), 1/(1 − 1/α_cr); None on the second-order route (`second_order`) or when
+    /// unstable.
     pub sway_amplifier: Option<f64>,
+    /// The design moments are those of the case's direct second-order analysis (the direct
+    /// method, or a story whose route is [`SwayRoute::SecondOrderAnalysis`]).
+    pub second_order: bool,
     pub governs: Part,
     /// False when the member (or its story) is unstable under the case: AISC α·Pr ≥ Pe1
     /// (A-8-3), an unstable story, a direct analysis that did not converge. The case is
@@ -260,12 +264,19 @@ pub fn c_m(ends: [f64; 2]) -> f64 {
     0.6 - 0.4 * (-a / b)
 }
 
+/// A moment exceeds the 1.4 limit only by more than this share of the member's moment
+/// scale (its largest design or first-order moment in the case): an end moment that is a
+/// small fraction of what the member carries elsewhere, or round-off on a member with no
+/// moment, decides nothing (common practice, no source).
+pub const ACI_LIMIT_TOLERANCE: f64 = 0.01;
+
 /// Ratio of a second-order moment to its first-order moment when it exceeds the 1.4 limit
-/// of ACI 318-19 6.2.5.3 (from memory), else `None`.
-fn above_aci_limit(design: f64, first_order: f64) -> Option<f64> {
-    let ratio = design.abs() / first_order.abs();
-    (design.abs() > aci::SECOND_ORDER_LIMIT * first_order.abs() + 1e-9 * design.abs().max(1.0))
-        .then_some(ratio)
+/// of ACI 318-19 6.2.5.3 (from memory) by more than [`ACI_LIMIT_TOLERANCE`] × `scale`,
+/// else `None`.
+fn above_aci_limit(design: f64, first_order: f64, scale: f64) -> Option<f64> {
+    let excess = design.abs() - aci::SECOND_ORDER_LIMIT * first_order.abs();
+    (excess > ACI_LIMIT_TOLERANCE * scale && excess.is_finite())
+        .then(|| design.abs() / first_order.abs())
 }
 
 /// Check every member.
@@ -354,48 +365,84 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let mut notes = Vec::new();
     let mut stable = true;
     let mut within_limits = true;
-    // Sway amplifier: the largest of the stories the member belongs to.
+    // The route of the member's stories: the second-order analysis's moments if any of
+    // them takes that route (always with the direct method), else the largest sway
+    // amplifier among them (1 for a member in no story).
     let in_stories = member_stories(model, input.stories, m);
-    let story_amp = if in_stories.is_empty() {
-        Some(1.0)
-    } else {
-        in_stories
+    let figures: Vec<&StoryFigures> = in_stories.iter().map(|&k| &input.figures[k]).collect();
+    let story_unstable = figures.iter().any(|f| f.route == SwayRoute::None);
+    let second_order = method == SecondOrderMethod::Direct
+        || figures
             .iter()
-            .map(|&k| input.figures[k].sway_amplifier)
-            .try_fold(1.0f64, |acc, a| a.map(|a| acc.max(a)))
-    };
-    if story_amp.is_none() {
+            .any(|f| f.route == SwayRoute::SecondOrderAnalysis);
+    if story_unstable {
         stable = false;
         notes.push("its story is unstable under this case".into());
     }
-    // ACI 318-19: in a non-sway story (6.6.4.3) the moments are the first-order totals;
-    // δs (6.6.4.6.1) belongs to sway stories.
-    let aci_non_sway = method == SecondOrderMethod::AciMagnifier
-        && in_stories
-            .iter()
-            .all(|&k| input.figures[k].classification == Classification::NonSway);
-    let sway_amp = if aci_non_sway { Some(1.0) } else { story_amp };
+    let direct = input.direct.filter(|_| second_order);
+    if second_order && direct.is_none() {
+        stable = false;
+        notes.push("direct second-order analysis did not converge".into());
+    }
+    let sway_amp = if story_unstable || second_order {
+        None
+    } else {
+        Some(
+            figures
+                .iter()
+                .filter_map(|f| f.sway_amplifier)
+                .fold(1.0, f64::max),
+        )
+    };
     let amp_s = sway_amp.unwrap_or(f64::NAN);
     let transverse = has_transverse_load(loads);
+    // The design diagram's end actions on the second-order route: the direct analysis's
+    // end actions, joined by the statics of the member loads (P-δ between the ends is in
+    // the analysis's own span extremes, used for the span values below).
+    let zero = EndForces::default();
+    let direct_diagram = direct.map(|(d, _)| Diagram {
+        length: l,
+        no_sway: &d.end_forces[m],
+        sway: &zero,
+        loads,
+        k_ns: 1.0,
+        k_s: 1.0,
+    });
+    // The diagram the member formulas read: the amplified one, or the second-order one.
+    let basis = match (&direct_diagram, second_order) {
+        (Some(d), true) => *d,
+        _ => diagram(1.0, amp_s),
+    };
 
-    // AISC A-8-2: Pr = Pnt + B2·Plt, the largest compression along the member.
-    let p_r = (method == SecondOrderMethod::AiscB1B2 && amp_s.is_finite())
-        .then(|| (-diagram(1.0, amp_s).least_axial()).max(0.0));
-    // M2 and Cm of an ACI column on the diagram Mns + δs·Ms (6.6.4.6.1, 6.6.4.6.4), or on
-    // the first-order total in a non-sway story.
-    let aci_col = (method == SecondOrderMethod::AciMagnifier && is_column && compression > 0.0)
-        .then(|| {
-            aci_column(
-                &diagram(1.0, amp_s),
-                compression,
-                model.sections[mem.section].depth,
-                aci::e_min_for(&model.units),
-            )
-        });
+    // AISC A-8-2: Pr = Pnt + B2·Plt, the largest compression along the member (on the
+    // second-order route the analysis's own axial force).
+    let p_r = (method == SecondOrderMethod::AiscB1B2 && basis.k_s.is_finite())
+        .then(|| (-basis.least_axial()).max(0.0));
+    // A pin-ended member with no load along it carries no moment: no B1 or δ applies, its
+    // buckling is its own member check (AISC 360-16 Ch. E, ACI 318-19 6.6.4.5 magnifies
+    // moments; common practice, no source).
+    let pin_ended = mem.release_i && mem.release_j && !transverse;
+    // M2 and Cm of an ACI column on the diagram Mns + δs·Ms (6.6.4.6.1, 6.6.4.6.4), on the
+    // first-order total in a non-sway story, or on the second-order analysis's end moments
+    // (6.6.4.6.2(c)).
+    let aci_col = (method == SecondOrderMethod::AciMagnifier
+        && is_column
+        && !pin_ended
+        && compression > 0.0
+        && basis.k_s.is_finite())
+    .then(|| {
+        aci_column(
+            &basis,
+            compression,
+            model.sections[mem.section].depth,
+            aci::e_min_for(&model.units),
+        )
+    });
 
-    // Cm and the non-sway amplifier by method.
+    // Cm and the non-sway amplifier by method. On the second-order route of AISC the
+    // analysis includes P-δ (segmented members), so B1 does not apply.
     let (c_m, p_critical, amp_ns) = match (method, p_r, &aci_col) {
-        (SecondOrderMethod::AiscB1B2, Some(p_r), _) if p_r > 0.0 => {
+        (SecondOrderMethod::AiscB1B2, Some(p_r), _) if p_r > 0.0 && !second_order && !pin_ended => {
             // A-8-4 from the no-sway end moments Mnt; 1.0 with transverse load (the
             // conservative value A-8-4 permits, from memory). A-8-5 with K1 = 1.0 and EI*
             // the stiffness used in the analysis.
@@ -433,7 +480,17 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         }
         _ => (None, None, Some(1.0)),
     };
-    if method == SecondOrderMethod::AciMagnifier && compression > 0.0 && mem.role == Role::Brace {
+    if compression > 0.0 && pin_ended {
+        notes.push(
+            "pin-ended, no moment: no B1 (AISC 360-16 App. 8) or δ (ACI 318-19 6.6.4.5); its \
+             buckling is its own member check (AISC 360-16 Ch. E, EN 1993-1-1 6.3; common \
+             practice, no source)"
+                .into(),
+        );
+    } else if method == SecondOrderMethod::AciMagnifier
+        && compression > 0.0
+        && mem.role == Role::Brace
+    {
         notes.push(
             "no non-sway magnifier δ: ACI 318-19 6.6.4.5 magnifies columns; a brace is left \
              to its own member checks (common practice, no source)"
@@ -442,70 +499,77 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     }
     let b1 = amp_ns.unwrap_or(f64::NAN);
     // The factor on the no-sway part of the diagram: B1 (AISC); 1 for ACI (δ acts on the
-    // column's Mc instead), EN 1993-1-1 and the direct analysis.
+    // column's Mc instead), EN 1993-1-1 and the second-order route.
     let amp_n = match method {
-        SecondOrderMethod::AiscB1B2 => b1,
+        SecondOrderMethod::AiscB1B2 if !second_order => b1,
         _ => 1.0,
     };
     let design = diagram(amp_n, amp_s);
-    let section = |x: f64, parts: (f64, f64), value: f64| MomentCheck {
-        x,
-        no_sway: parts.0,
-        sway: parts.1,
-        first_order: parts.0 + parts.1,
-        design: value,
-        governs: if (amp_s * parts.1).abs() > (amp_n * parts.0).abs() {
-            Part::Sway
-        } else {
-            Part::NoSway
-        },
-        second_order: None,
+    // A section: first-order parts, design value; the sway part governs where the design
+    // value less the (amplified) no-sway part is the larger.
+    let section = |x: f64, parts: (f64, f64), value: f64| {
+        let k_n = if second_order { 1.0 } else { amp_n };
+        let no_sway = k_n * parts.0;
+        MomentCheck {
+            x,
+            no_sway: parts.0,
+            sway: parts.1,
+            first_order: parts.0 + parts.1,
+            design: value,
+            governs: if (value - no_sway).abs() > no_sway.abs() {
+                Part::Sway
+            } else {
+                Part::NoSway
+            },
+            second_order: None,
+        }
     };
     let end_parts = [(ns[0], sw[0]), (ns[1], sw[1])];
-    let (ends, span, span_max, span_min) = match (method, input.direct) {
-        (SecondOrderMethod::Direct, direct) => {
-            let dm = direct.map_or([f64::NAN; 2], |(d, _)| end_moments(d, m));
-            let e = direct.map_or_else(|| first_order.extremes(), |(_, spans)| spans[m]);
-            if direct.is_none() {
-                stable = false;
-                notes.push("direct second-order analysis did not converge".into());
-            }
-            let nan_or = |v: f64| if direct.is_some() { v } else { f64::NAN };
-            let point =
-                |p: (f64, f64)| section(p.0, first_order.parts(p.0, Side::Left), nan_or(p.1));
-            (
-                [
-                    section(0.0, end_parts[0], dm[0]),
-                    section(l, end_parts[1], dm[1]),
-                ],
-                point(span_moment(&e, l)),
-                point(e.max),
-                point(e.min),
-            )
-        }
-        _ => {
-            let e = design.extremes();
-            let point = |p: (f64, f64)| {
-                let parts = design.parts_at(p);
-                section(p.0, parts, design.design(parts))
-            };
-            (
-                [
-                    section(0.0, end_parts[0], design.design(end_parts[0])),
-                    section(l, end_parts[1], design.design(end_parts[1])),
-                ],
-                point(span_moment(&e, l)),
-                point(e.max),
-                point(e.min),
-            )
-        }
+    let (mut ends, span, span_max, span_min) = if second_order {
+        let dm = direct.map_or([f64::NAN; 2], |(d, _)| end_moments(d, m));
+        let e = direct.map_or_else(|| first_order.extremes(), |(_, spans)| spans[m]);
+        let nan_or = |v: f64| if direct.is_some() { v } else { f64::NAN };
+        let point = |p: (f64, f64)| {
+            let mut s = section(p.0, first_order.parts(p.0, Side::Left), nan_or(p.1));
+            s.second_order = direct.map(|_| p.1);
+            s
+        };
+        (
+            [
+                section(0.0, end_parts[0], dm[0]),
+                section(l, end_parts[1], dm[1]),
+            ],
+            point(span_moment(&e, l)),
+            point(e.max),
+            point(e.min),
+        )
+    } else {
+        let e = design.extremes();
+        let point = |p: (f64, f64)| {
+            let parts = design.parts_at(p);
+            section(p.0, parts, design.design(parts))
+        };
+        (
+            [
+                section(0.0, end_parts[0], design.design(end_parts[0])),
+                section(l, end_parts[1], design.design(end_parts[1])),
+            ],
+            point(span_moment(&e, l)),
+            point(e.max),
+            point(e.min),
+        )
     };
-    let mut ends = ends;
     if let Some((d, _)) = input.direct {
         let dm = end_moments(d, m);
         ends[0].second_order = Some(dm[0]);
         ends[1].second_order = Some(dm[1]);
     }
+    // The member's moment scale, for the 1.4 limit's tolerance (issue 16 item 5).
+    let scale = [ends[0], ends[1], span_max, span_min]
+        .iter()
+        .flat_map(|s| [s.design.abs(), s.first_order.abs()])
+        .filter(|v| v.is_finite())
+        .fold(0.0, f64::max);
     // ACI columns: Mc = δ·M2 (6.6.4.5.1) at the section of M2, in place of the span value.
     let span = match &aci_col {
         Some(col) => {
@@ -513,7 +577,12 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             if col.raised_to_min {
                 notes.push("M2 raised to M2,min (ACI 318-19 6.6.4.5.4)".into());
             }
-            let s = section(col.x, col.parts, mc);
+            let parts = if second_order {
+                first_order.parts(col.x, Side::Left)
+            } else {
+                col.parts
+            };
+            let s = section(col.x, parts, mc);
             // 6.2.5.3 (from memory): against the first-order moment at that section, or
             // M2,min where M2 was raised to it.
             let reference = if col.raised_to_min {
@@ -521,7 +590,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             } else {
                 s.first_order.abs()
             };
-            if let Some(r) = above_aci_limit(mc, reference) {
+            if let Some(r) = above_aci_limit(mc, reference, scale.max(col.m2.abs())) {
                 within_limits = false;
                 notes.push(format!(
                     "Mc = δ·M2 is {r:.2} × the first-order moment, above the 1.4 limit of \
@@ -535,7 +604,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     if method == SecondOrderMethod::AciMagnifier
         && let Some(r) = ends
             .iter()
-            .find_map(|e| above_aci_limit(e.design, e.first_order))
+            .find_map(|e| above_aci_limit(e.design, e.first_order, scale))
     {
         within_limits = false;
         notes.push(format!(
@@ -545,6 +614,11 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     }
     if method == SecondOrderMethod::Ec3AlphaCr && compression > 0.0 {
         notes.push("member imperfections and P-δ are left to the member buckling checks (EN 1993-1-1 5.2.2(3)c, 6.3)".into());
+    }
+    if second_order && method != SecondOrderMethod::Direct && direct.is_some() {
+        notes.push(
+            "design moments from the case's second-order analysis (see the story criterion)".into(),
+        );
     }
     // The part that governs at the section with the largest design moment.
     let governs = [ends[0], ends[1], span, span_max, span_min]
@@ -567,6 +641,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         p_critical,
         non_sway_amplifier: amp_ns,
         sway_amplifier: sway_amp,
+        second_order,
         governs,
         stable,
         within_limits,

@@ -341,7 +341,13 @@ impl Context<'_> {
         let total = combined.total();
         let member_loads = combined_member_loads(model, &fc.factors);
         let gravity = story::story_gravity(model, self.stories, &total);
-        let alpha = aisc::alpha(fc.basis);
+        // α of AISC 360-16 (1.6 for ASD combinations, App. 8 and C2.1, from memory) belongs
+        // to the AISC methods; ACI 318 and EN 1993-1-1 amplify the case's own loads, and
+        // their second-order analysis is run at those loads so that it compares with them.
+        let alpha = match model.analysis.method {
+            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => aisc::alpha(fc.basis),
+            SecondOrderMethod::AciMagnifier | SecondOrderMethod::Ec3AlphaCr => 1.0,
+        };
 
         // Applied loads of the case on the segmented mesh, for the buckling analysis, and
         // the net applied lateral load.
@@ -406,14 +412,28 @@ impl Context<'_> {
                 alpha,
                 buckling.as_ref().map(|b| b.alpha_cr),
             );
-            // EN 1993-1-1 judges the structure by one α_cr, not story by story.
+            // EN 1993-1-1 judges the structure by one α_cr, not story by story; both it and
+            // ACI's Q method amplify only a sway in the frame's sway shape.
             let mut figures = figures;
-            if model.analysis.method == SecondOrderMethod::Ec3AlphaCr {
-                ec3::judge_structure(
+            let mode: Option<Vec<f64>> = buckling.as_ref().map(|b| {
+                self.stories
+                    .iter()
+                    .map(|st| story::drift_of(st, &b.shape))
+                    .collect()
+            });
+            match model.analysis.method {
+                SecondOrderMethod::Ec3AlphaCr => ec3::judge_structure(
                     &mut figures,
                     buckling.as_ref().map(|b| b.alpha_cr),
+                    mode.as_deref(),
                     direct_status.converged,
-                );
+                ),
+                SecondOrderMethod::AciMagnifier => story::aci_first_mode_condition(
+                    &mut figures,
+                    mode.as_deref(),
+                    direct_status.converged,
+                ),
+                SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => {}
             }
             let members = member::members(&member::MemberInput {
                 model,

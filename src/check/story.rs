@@ -37,6 +37,45 @@ pub enum Classification {
     Unstable,
 }
 
+/// Where the design moments of a story's members come from under one case.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, strum::Display)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum SwayRoute {
+    /// First-order moments, sway part × 1 (the method's criterion permits first-order
+    /// analysis, or the case has no significant sway).
+    FirstOrder,
+    /// First-order no-sway part plus the sway part × `sway_amplifier` (B2, δs or
+    /// 1/(1 − 1/α_cr)).
+    Amplified,
+    /// The moments of the case's direct second-order analysis: the method requires a
+    /// second-order analysis here, or its amplifier is outside the conditions of its clause.
+    SecondOrderAnalysis,
+    /// No design moments: the story is unstable under the case.
+    None,
+}
+
+/// A first-order story drift below this fraction of the story height is negligible: no
+/// ratio is formed from it and it decides no verdict. A millionth of the height (0.004 mm
+/// on a 4 m story) is far below any erection tolerance (1/500 out-of-plumb is 2 000 times
+/// larger) and far above round-off (common practice, no source).
+pub const DRIFT_NEGLIGIBLE_RATIO: f64 = 1e-6;
+
+/// A story's first-order drift ratio below this share of the case's largest story drift
+/// ratio is negligible too: the story hardly moves, and its own Δ2nd/Δ1st measures the
+/// sway of the stories around it rather than its own (common practice, no source).
+pub const DRIFT_NEGLIGIBLE_SHARE: f64 = 0.05;
+
+/// Whether a first-order drift `drift` of a story of height `h` is significant, with
+/// `largest` the case's largest |drift/h| over its stories ([`DRIFT_NEGLIGIBLE_RATIO`],
+/// [`DRIFT_NEGLIGIBLE_SHARE`]).
+pub fn drift_is_significant(drift: f64, h: f64, largest: f64) -> bool {
+    let ratio = (drift / h).abs();
+    ratio.is_finite()
+        && ratio >= DRIFT_NEGLIGIBLE_RATIO
+        && ratio >= DRIFT_NEGLIGIBLE_SHARE * largest
+}
+
 /// The lateral load pattern a story's stiffness H/Δ came from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, strum::Display)]
 #[serde(rename_all = "kebab-case")]
@@ -275,14 +314,16 @@ pub struct StoryFigures {
     /// converge). Under factored loads and the analysis stiffness: not a serviceability
     /// drift.
     pub drift_second_order: Option<f64>,
-    /// Δ2nd/Δ1st from the direct second-order analysis (None without first-order drift).
+    /// Δ2nd/Δ1st from the direct second-order analysis; None where the first-order drift
+    /// is negligible ([`drift_is_significant`]) or the analysis did not converge.
     pub drift_amplification: Option<f64>,
-    /// The sway amplifier read off the direct analysis where a route takes one from it:
-    /// the larger of this story's Δ2nd/Δ1st, the frame's top-drift ratio and 1 (a
-    /// per-story ratio of a story with small or mixed first-order drift means little);
-    /// None if the direct analysis did not converge.
-    pub direct_sway_amplifier: Option<f64>,
-    /// The amplifier applied to this story's sway moments by the chosen method.
+    /// The first-order drift is negligible: no ratio is formed from it
+    /// ([`drift_is_significant`]).
+    pub drift_negligible: bool,
+    /// Where the design moments of the story's members come from.
+    pub route: SwayRoute,
+    /// The amplifier applied to this story's sway moments (1 on the first-order route);
+    /// None on the second-order route (the analysis's own moments) and when unstable.
     pub sway_amplifier: Option<f64>,
     pub classification: Classification,
     /// The criterion and figure that decided the classification.
@@ -448,7 +489,8 @@ pub fn figures(
                 drift_first_order: drift,
                 drift_second_order: None,
                 drift_amplification: None,
-                direct_sway_amplifier: None,
+                drift_negligible: true,
+                route: SwayRoute::FirstOrder,
                 sway_amplifier: None,
                 classification: Classification::NonSway,
                 criterion: String::new(),
@@ -457,36 +499,92 @@ pub fn figures(
         .collect()
 }
 
-/// A story verdict: amplifier, classification, criterion.
-type Verdict = (Option<f64>, Classification, String);
+/// A story verdict: route, amplifier, classification, criterion.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Verdict {
+    pub route: SwayRoute,
+    pub amplifier: Option<f64>,
+    pub class: Classification,
+    pub criterion: String,
+}
 
-/// Replace a story formula's "unstable" by the direct analysis's Δ2nd/Δ1st when the
-/// buckling analysis finds the frame stable at the case's loads (α_cr > α) and the direct
-/// analysis converged (`from_direct`); see [`classify`].
+impl Verdict {
+    /// Sway part × `amplifier`.
+    pub fn amplified(amplifier: f64, class: Classification, criterion: String) -> Verdict {
+        Verdict {
+            route: SwayRoute::Amplified,
+            amplifier: Some(amplifier),
+            class,
+            criterion,
+        }
+    }
+
+    /// First-order moments suffice: non-sway, amplifier 1.
+    pub fn first_order(criterion: String) -> Verdict {
+        Verdict {
+            route: SwayRoute::FirstOrder,
+            amplifier: Some(1.0),
+            class: Classification::NonSway,
+            criterion,
+        }
+    }
+
+    /// The moments of the direct second-order analysis.
+    pub fn second_order(class: Classification, criterion: String) -> Verdict {
+        Verdict {
+            route: SwayRoute::SecondOrderAnalysis,
+            amplifier: None,
+            class,
+            criterion,
+        }
+    }
+
+    /// Unstable under the case.
+    pub fn unstable(criterion: String) -> Verdict {
+        Verdict {
+            route: SwayRoute::None,
+            amplifier: None,
+            class: Classification::Unstable,
+            criterion,
+        }
+    }
+
+    /// Write the verdict into a story's figures.
+    pub fn apply(self, f: &mut StoryFigures) {
+        f.route = self.route;
+        f.sway_amplifier = self.amplifier;
+        f.classification = self.class;
+        f.criterion = self.criterion;
+    }
+}
+
+/// Where a story formula declares the story unstable while the buckling analysis of the
+/// whole frame finds its lowest sway mode above the loads (α_cr > α, `alpha_cr`; None when
+/// nothing buckles in sway) and the direct analysis converged (`converged`): the formula
+/// is outside its range (its stiffness comes from one lateral pattern, while the buckling
+/// analysis sees the whole frame), so the design moments are the direct analysis's own and
+/// the criterion names both figures; see [`classify`].
 fn overrule_story_formula(
     verdict: Verdict,
     alpha_cr: Option<f64>,
     alpha: f64,
-    from_direct: Option<f64>,
+    converged: bool,
 ) -> Verdict {
     let frame_stable = alpha_cr.is_none_or(|a| a > alpha);
-    match (verdict.1, frame_stable, from_direct) {
-        (Classification::Unstable, true, Some(r)) => {
-            let buckling = alpha_cr.map_or("no member in compression".to_string(), |a| {
-                format!("α_cr = {a:.2} > {alpha:.2}")
-            });
-            (
-                Some(r),
-                Classification::Sway,
-                format!(
-                    "story formula: {}; but the buckling analysis of the frame gives {buckling} \
-                     and the direct analysis converged, so the verdict uses the direct \
-                     analysis: sway effects × Δ2nd/Δ1st = {r:.3}",
-                    verdict.2
-                ),
-            )
-        }
-        _ => verdict,
+    if verdict.class == Classification::Unstable && frame_stable && converged {
+        let buckling = alpha_cr.map_or("no sway mode".to_string(), |a| {
+            format!("α_cr = {a:.2} > {alpha:.2}")
+        });
+        Verdict::second_order(
+            Classification::Sway,
+            format!(
+                "story formula: {}; but the buckling analysis of the frame gives {buckling} and \
+                 the direct analysis converged: design moments from the second-order analysis",
+                verdict.criterion
+            ),
+        )
+    } else {
+        verdict
     }
 }
 
@@ -499,20 +597,34 @@ fn against(holds: bool) -> (Classification, &'static str) {
     }
 }
 
-/// Fill in the drift amplification from the direct analysis, the sway amplifier of the
-/// model's method and the classification with its criterion.
+/// The sentence for a drift ratio that was not formed.
+fn negligible(f: &StoryFigures) -> String {
+    format!(
+        "first-order drift negligible ({:.1e}·h)",
+        (f.drift_first_order / f.height).abs()
+    )
+}
+
+/// Fill in the drift amplification from the direct analysis and each story's route,
+/// amplifier, classification and criterion by the model's method.
 ///
-/// Where a method's approximate sway amplifier is not permitted (ACI δs > 1.5,
-/// EN 1993-1-1 α_cr < 3), the amplifier is Δ2nd/Δ1st of the direct second-order analysis
-/// (ACI 318-19 6.6.4.6.2(c); EN 1993-1-1 5.2.2(3)); where that did not converge, the
-/// story is unstable.
+/// * A drift ratio Δ2nd/Δ1st is formed only where the first-order drift is significant
+///   ([`drift_is_significant`]); a case with no significant drift in any story has no
+///   sway effects to amplify: every story is non-sway, first-order, amplifier 1.
+/// * AISC 360-16 App. 8: sway part × B2 (A-8-6), non-sway when B2 ≤ 1.1. Where B2 does not
+///   exist (α·ΣP ≥ Pe,story) the story figures are unusable: the design moments are the
+///   second-order analysis's if the frame is stable, else the story is unstable.
+/// * ACI 318-19 6.6.4: non-sway (first-order moments) when Q ≤ 0.05 (6.6.4.3(b)); δs by the
+///   Q method within its range δs ≤ 1.5 (6.6.4.6.2(a)); beyond it the moments of the
+///   second-order analysis (6.6.4.6.2(c)).
+/// * EN 1993-1-1: by one structure α_cr, in [`super::ec3::judge_structure`].
+/// * Direct analysis (AISC 360-16 Ch. C): always the analysis's own moments; the verdict
+///   is Δ2nd/Δ1st ≤ 1.1 where the drift is significant, else B2 (A-8-6, which estimates
+///   Δ2nd/Δ1st; from memory).
 ///
-/// A story formula alone never declares a story unstable while the buckling analysis of
-/// the whole frame finds α_cr above α (`alpha_cr`, None when nothing is in compression)
-/// and the direct analysis converged: the story formula is then outside its range (its
-/// stiffness comes from one lateral pattern, while the buckling analysis sees the whole
-/// frame), so the verdict uses Δ2nd/Δ1st of the direct analysis and the criterion names
-/// both figures.
+/// A story formula alone never declares a story unstable while the buckling analysis
+/// finds the frame's lowest sway mode above α and the direct analysis converged
+/// ([`overrule_story_formula`]).
 #[allow(clippy::too_many_arguments)]
 pub fn classify(
     model: &Model,
@@ -524,139 +636,186 @@ pub fn classify(
     alpha: f64,
     alpha_cr: Option<f64>,
 ) -> Vec<StoryFigures> {
-    let top_amplification = direct.and_then(|d| top_drift_amplification(stories, no_sway, sway, d));
     for (f, st) in figures.iter_mut().zip(stories) {
-        let first = story_drift(st, no_sway) + story_drift(st, sway);
-        f.drift_first_order = first;
+        f.drift_first_order = story_drift(st, no_sway) + story_drift(st, sway);
         f.drift_second_order = direct.map(|d| story_drift(st, d));
-        f.drift_amplification = direct.and_then(|d| {
-            let second = story_drift(st, d);
-            (first.abs() > 1e-12 * f.height).then(|| second / first)
-        });
-        // The amplifier taken from the direct analysis: never below 1, and never below the
-        // frame's own top-drift ratio, since a story whose first-order drift is small or
-        // mixed in sign has a per-story Δ2nd/Δ1st that means little (it can be below 1 or
-        // negative); taking the larger is the conservative reading (common practice, no
-        // source). None if the direct analysis failed.
-        f.direct_sway_amplifier = direct.map(|_| {
-            f.drift_amplification
-                .unwrap_or(1.0)
-                .max(top_amplification.unwrap_or(1.0))
-                .max(1.0)
-        });
-        let from_direct = f.direct_sway_amplifier;
-        let unstable = |why: String| (None, Classification::Unstable, why);
-        let (amp, class, criterion) = match model.analysis.method {
-            SecondOrderMethod::AiscB1B2 => match f.b2 {
-                None => unstable(format!(
-                    "α·ΣP/Pe,story = {:.3} ≥ 1 (AISC 360-16 A-8-6)",
-                    alpha * f.sum_p / f.p_e_story
-                )),
-                Some(b2) => {
-                    let (class, cmp) = against(b2 <= aisc::B2_NONSWAY);
-                    let why = format!(
-                        "B2 = {b2:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
-                        aisc::B2_NONSWAY
-                    );
-                    (Some(b2), class, why)
-                }
-            },
-            SecondOrderMethod::AciMagnifier => {
-                let ds = match f.delta_s_q {
-                    Some(d) => Some((d, "Q method, 6.6.4.6.2(a)")),
-                    None => from_direct.map(|d| (d, "second-order analysis, 6.6.4.6.2(c)")),
-                };
-                match ds {
-                    Some((d, how)) if f.q_index < 1.0 => {
-                        let (class, cmp) = against(f.q_index <= aci::Q_NONSWAY);
-                        let why = format!(
-                            "Q = {:.3} {cmp} {:.2} (ACI 318-19 6.6.4.3(b)); δs = {d:.3} by the {how}",
-                            f.q_index,
-                            aci::Q_NONSWAY
-                        );
-                        (Some(d), class, why)
-                    }
-                    _ => unstable(format!(
-                        "Q = {:.3}: the story is unstable (ACI 318-19 6.6.4.4.1, 6.6.4.6.2)",
-                        f.q_index
-                    )),
-                }
+    }
+    let largest = figures
+        .iter()
+        .map(|f| (f.drift_first_order / f.height).abs())
+        .filter(|r| r.is_finite())
+        .fold(0.0, f64::max);
+    for f in figures.iter_mut() {
+        let significant = drift_is_significant(f.drift_first_order, f.height, largest);
+        f.drift_negligible = !significant;
+        f.drift_amplification = f
+            .drift_second_order
+            .filter(|_| significant)
+            .map(|second| second / f.drift_first_order);
+    }
+    let converged = direct.is_some();
+    let no_sway_at_all = largest < DRIFT_NEGLIGIBLE_RATIO;
+    for f in figures.iter_mut() {
+        let verdict = if no_sway_at_all && converged {
+            let why = format!(
+                "no significant first-order sway under this case (largest drift {largest:.1e}·h \
+                 < {DRIFT_NEGLIGIBLE_RATIO:.0e}·h): no sway effects to amplify"
+            );
+            if model.analysis.method == SecondOrderMethod::Direct {
+                Verdict::second_order(
+                    Classification::NonSway,
+                    format!("{why}; design moments from the direct analysis (AISC 360-16 C1)"),
+                )
+            } else {
+                Verdict::first_order(why)
             }
-            SecondOrderMethod::Ec3AlphaCr => {
-                let a = f.alpha_cr_story;
-                match (ec3::sway_amplifier(a), from_direct) {
-                    _ if a <= 1.0 => unstable(format!(
-                        "α_cr = {a:.2} ≤ 1: the story is unstable (EN 1993-1-1 (5.2))"
-                    )),
-                    _ if a >= ec3::ALPHA_CR_FIRST_ORDER => (
-                        Some(1.0),
-                        Classification::NonSway,
-                        format!(
-                            "α_cr = {a:.2} ≥ 10: first-order analysis suffices (EN 1993-1-1 (5.1))"
-                        ),
-                    ),
-                    (Some(amp), _) => (
-                        Some(amp),
-                        Classification::Sway,
-                        format!(
-                            "α_cr = {a:.2} < 10: sway effects × 1/(1 − 1/α_cr) = {amp:.3} \
-                             (EN 1993-1-1 5.2.2(5)B)"
-                        ),
-                    ),
-                    (None, Some(r)) => (
-                        Some(r),
-                        Classification::Sway,
-                        format!(
-                            "α_cr = {a:.2} < 3: second-order analysis required (EN 1993-1-1 \
-                             5.2.2(5)B); sway effects × Δ2nd/Δ1st = {r:.3} from the direct analysis"
-                        ),
-                    ),
-                    (None, None) => unstable(format!(
-                        "α_cr = {a:.2} < 3 and the direct analysis did not converge"
-                    )),
-                }
-            }
-            SecondOrderMethod::Direct => match (from_direct, f.drift_amplification) {
-                (None, _) => unstable("direct second-order analysis did not converge".into()),
-                (Some(r), Some(_)) => {
-                    let (class, cmp) = against(r <= aisc::B2_NONSWAY);
-                    let why = format!(
-                        "Δ2nd/Δ1st = {r:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
-                        aisc::B2_NONSWAY
-                    );
-                    (Some(r), class, why)
-                }
-                (Some(r), None) => {
-                    let a = f.alpha_cr_story;
-                    let (class, cmp) = against(a >= ec3::ALPHA_CR_FIRST_ORDER);
-                    let cmp = if cmp == "≤" { "≥" } else { "<" };
-                    let why = format!(
-                        "no first-order drift; story α_cr = {a:.2} {cmp} 10 (EN 1993-1-1 (5.1))"
-                    );
-                    (Some(r), class, why)
-                }
-            },
+        } else {
+            method_verdict(model.analysis.method, f, alpha, converged)
         };
-        let (amp, class, criterion) =
-            overrule_story_formula((amp, class, criterion), alpha_cr, alpha, from_direct);
-        f.sway_amplifier = amp;
-        f.classification = class;
-        f.criterion = criterion;
+        overrule_story_formula(verdict, alpha_cr, alpha, converged).apply(f);
     }
     figures
 }
 
-/// Δ2nd/Δ1st of the top level's drift ([`top_drift`]), or None where the first-order top
-/// drift is round-off.
-fn top_drift_amplification(
-    stories: &[Story],
-    no_sway: &Solution,
-    sway: &Solution,
-    direct: &Solution,
-) -> Option<f64> {
-    let first = top_drift(stories, no_sway) + top_drift(stories, sway);
-    let height: f64 = stories.iter().map(|st| st.height()).sum();
-    (first.abs() > 1e-12 * height).then(|| top_drift(stories, direct) / first)
+/// ACI 318-19 6.6.4.6.2(a): δs by the Q method multiplies the story's first-order sway
+/// moments, which presumes that the case's first-order sway has the shape in which the
+/// frame sways (common practice, no source; the same condition as EN 1993-1-1
+/// §5.2.2(6)B, [`ec3::amplified_method_conditions`]). Where it does not (sway forces of
+/// mixed sense, a sway part that relieves), stories amplified by the Q method take the
+/// moments of the second-order analysis instead (6.6.4.6.2(c)) and the criterion says why.
+/// `mode` are the story drifts of the frame's lowest sway mode.
+pub fn aci_first_mode_condition(
+    figures: &mut [StoryFigures],
+    mode: Option<&[f64]>,
+    converged: bool,
+) {
+    if !converged || figures.iter().all(|f| f.route != SwayRoute::Amplified) {
+        return;
+    }
+    let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
+    let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
+    let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
+    if let Err(why) = ec3::amplified_method_conditions(&first, mode, &h, &significant) {
+        for f in figures
+            .iter_mut()
+            .filter(|f| f.route == SwayRoute::Amplified)
+        {
+            let criterion = format!(
+                "{}; but {why}: design moments from the second-order analysis, 6.6.4.6.2(c)",
+                f.criterion
+            );
+            Verdict::second_order(f.classification, criterion).apply(f);
+        }
+    }
+}
+
+/// One story's verdict by `method` (see [`classify`]).
+fn method_verdict(
+    method: SecondOrderMethod,
+    f: &StoryFigures,
+    alpha: f64,
+    converged: bool,
+) -> Verdict {
+    match method {
+        SecondOrderMethod::AiscB1B2 => match f.b2 {
+            None => Verdict::unstable(format!(
+                "α·ΣP/Pe,story = {:.3} ≥ 1 (AISC 360-16 A-8-6)",
+                alpha * f.sum_p / f.p_e_story
+            )),
+            Some(b2) => {
+                let (class, cmp) = against(b2 <= aisc::B2_NONSWAY);
+                Verdict::amplified(
+                    b2,
+                    class,
+                    format!(
+                        "B2 = {b2:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                        aisc::B2_NONSWAY
+                    ),
+                )
+            }
+        },
+        SecondOrderMethod::AciMagnifier => {
+            let q = f.q_index;
+            if q >= 1.0 {
+                Verdict::unstable(format!(
+                    "Q = {q:.3}: the story is unstable (ACI 318-19 6.6.4.4.1, 6.6.4.6.2)"
+                ))
+            } else if q <= aci::Q_NONSWAY {
+                Verdict::first_order(format!(
+                    "Q = {q:.3} ≤ {:.2}: non-sway, first-order end moments (ACI 318-19 \
+                     6.6.4.3(b), which accepts sway effects up to about 5 %)",
+                    aci::Q_NONSWAY
+                ))
+            } else if let Some(ds) = f.delta_s_q {
+                Verdict::amplified(
+                    ds,
+                    Classification::Sway,
+                    format!(
+                        "Q = {q:.3} > {:.2} (ACI 318-19 6.6.4.3(b)); δs = {ds:.3} by the Q \
+                         method, 6.6.4.6.2(a)",
+                        aci::Q_NONSWAY
+                    ),
+                )
+            } else if converged {
+                Verdict::second_order(
+                    Classification::Sway,
+                    format!(
+                        "Q = {q:.3}: δs by the Q method = {:.3} > {:.1}, outside its range \
+                         (ACI 318-19 6.6.4.6.2): design moments from the second-order \
+                         analysis, 6.6.4.6.2(c)",
+                        1.0 / (1.0 - q),
+                        aci::DELTA_S_Q_LIMIT
+                    ),
+                )
+            } else {
+                Verdict::unstable(format!(
+                    "Q = {q:.3}: δs by the Q method > {:.1} and the second-order analysis \
+                     did not converge (ACI 318-19 6.6.4.6.2)",
+                    aci::DELTA_S_Q_LIMIT
+                ))
+            }
+        }
+        // Judged for the whole structure afterwards (ec3::judge_structure); the story value
+        // alone here.
+        SecondOrderMethod::Ec3AlphaCr => {
+            let a = f.alpha_cr_story;
+            if a <= 1.0 {
+                Verdict::unstable(format!(
+                    "α_cr = {a:.2} ≤ 1: the story is unstable (EN 1993-1-1 (5.2))"
+                ))
+            } else {
+                Verdict::first_order(format!("story α_cr = {a:.2} (EN 1993-1-1 (5.2))"))
+            }
+        }
+        SecondOrderMethod::Direct => {
+            if !converged {
+                return Verdict::unstable("direct second-order analysis did not converge".into());
+            }
+            let (figure, value) = match (f.drift_amplification, f.b2) {
+                (Some(r), _) => (format!("Δ2nd/Δ1st = {r:.3}"), r),
+                (None, Some(b2)) => (
+                    format!(
+                        "{}; B2 = {b2:.3} (AISC 360-16 A-8-6 estimates Δ2nd/Δ1st, from memory)",
+                        negligible(f)
+                    ),
+                    b2,
+                ),
+                (None, None) => (
+                    format!("{}; α·ΣP ≥ Pe,story (A-8-6)", negligible(f)),
+                    f64::INFINITY,
+                ),
+            };
+            let (class, cmp) = against(value <= aisc::B2_NONSWAY);
+            Verdict::second_order(
+                class,
+                format!(
+                    "{figure} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory); design \
+                     moments from the direct analysis (AISC 360-16 C1)",
+                    aisc::B2_NONSWAY
+                ),
+            )
+        }
+    }
 }
 
 #[cfg(test)]
@@ -665,24 +824,28 @@ mod tests {
 
     #[test]
     fn story_formula_does_not_overrule_a_stable_buckling_analysis() {
-        // Issue 7 item 1: with α_cr = 3.2 > α = 1.0 and a converged direct analysis, an
-        // unbounded B2 is not a verdict: Δ2nd/Δ1st = 1.45 is used and both are named.
-        let v: Verdict = (None, Classification::Unstable, "B2 unbounded".into());
-        let (amp, class, why) = overrule_story_formula(v.clone(), Some(3.2), 1.0, Some(1.45));
-        assert_eq!((amp, class), (Some(1.45), Classification::Sway));
-        assert!(why.contains("B2 unbounded") && why.contains("α_cr = 3.20"));
+        // Issue 7 item 1, issue 16: with α_cr = 3.2 > α = 1.0 and a converged direct
+        // analysis, an unbounded B2 is not a verdict: the design moments are the direct
+        // analysis's own and both figures are named.
+        let v = Verdict::unstable("B2 unbounded".into());
+        let o = overrule_story_formula(v.clone(), Some(3.2), 1.0, true);
+        assert_eq!(
+            (o.route, o.amplifier, o.class),
+            (SwayRoute::SecondOrderAnalysis, None, Classification::Sway)
+        );
+        assert!(o.criterion.contains("B2 unbounded") && o.criterion.contains("α_cr = 3.20"));
         // The frame buckles below the loads (α_cr ≤ α), or the direct analysis failed:
         // unstable stays.
         assert_eq!(
-            overrule_story_formula(v.clone(), Some(0.9), 1.0, Some(1.45)).1,
+            overrule_story_formula(v.clone(), Some(0.9), 1.0, true).class,
             Classification::Unstable
         );
         assert_eq!(
-            overrule_story_formula(v.clone(), Some(1.5), 1.6, Some(1.45)).1,
+            overrule_story_formula(v.clone(), Some(1.5), 1.6, true).class,
             Classification::Unstable
         );
         assert_eq!(
-            overrule_story_formula(v, Some(3.2), 1.0, None).1,
+            overrule_story_formula(v, Some(3.2), 1.0, false).class,
             Classification::Unstable
         );
     }
