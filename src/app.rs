@@ -573,7 +573,8 @@ pub fn run_check(
             .map(str::to_string)
             .collect(),
     };
-    let settings = settings(&model, model_path, &table, args, &cli_params);
+    let mut settings = settings(&model, model_path, &table, args, &cli_params);
+    settings.extend(crate::report::summary::second_order_setting(&report));
     let envelope = crate::envelope::envelope(&report);
     let approximate = if args.approximate {
         let th = crate::approx::Thresholds::default();

@@ -152,6 +152,14 @@ pub struct StoryEnvelope {
     pub alpha_cr: Option<Peak>,
     /// Stable cases in which the story is classified as sway.
     pub sway_cases: Vec<String>,
+    /// Stable cases whose design moments in this story are the second-order analysis's
+    /// (issue 16).
+    #[serde(default)]
+    pub second_order_cases: Vec<String>,
+    /// Stable cases in which the story's first-order drift is negligible, so that no
+    /// Δ2nd/Δ1st was formed.
+    #[serde(default)]
+    pub negligible_drift_cases: usize,
     /// Number of stable cases considered.
     pub cases: usize,
 }
@@ -352,6 +360,8 @@ pub fn story_envelopes(report: &CheckReport) -> Vec<StoryEnvelope> {
             sway_amplifier: None,
             alpha_cr: None,
             sway_cases: Vec::new(),
+            second_order_cases: Vec::new(),
+            negligible_drift_cases: 0,
             cases: 0,
         })
         .collect();
@@ -391,6 +401,12 @@ pub fn story_envelopes(report: &CheckReport) -> Vec<StoryEnvelope> {
             }
             if f.classification == crate::check::Classification::Sway {
                 env.sway_cases.push(case.id.clone());
+            }
+            if f.route == crate::check::story::SwayRoute::SecondOrderAnalysis {
+                env.second_order_cases.push(case.id.clone());
+            }
+            if f.drift_negligible {
+                env.negligible_drift_cases += 1;
             }
         }
     }

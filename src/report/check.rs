@@ -231,8 +231,15 @@ fn story_row(model: &Model, s: &StoryFigures, decimals: usize) -> Vec<String> {
         opt(s.b2, 3),
         opt(s.delta_s_q, 3),
         num(s.alpha_cr_story, 2),
-        opt(s.drift_amplification, 3),
-        opt(s.sway_amplifier, 3),
+        if s.drift_negligible && s.drift_amplification.is_none() {
+            "negligible".into()
+        } else {
+            opt(s.drift_amplification, 3)
+        },
+        match s.route {
+            crate::check::story::SwayRoute::SecondOrderAnalysis => "2nd-order".into(),
+            _ => opt(s.sway_amplifier, 3),
+        },
         pattern_label(s.stiffness_source).into(),
         s.classification.to_string(),
         s.criterion.clone(),

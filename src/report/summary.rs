@@ -224,6 +224,49 @@ pub fn assumptions_table(s: &Summary) -> Table {
     }
 }
 
+/// The assumptions row naming the cases whose design moments fell back on the
+/// second-order analysis because an amplifier was outside the conditions of its clause
+/// (issue 16); None with the direct method (every case uses it) or when no case fell back.
+pub fn second_order_setting(report: &crate::check::CheckReport) -> Option<Setting> {
+    use crate::check::story::SwayRoute;
+    if report.method == crate::model::SecondOrderMethod::Direct {
+        return None;
+    }
+    let fell_back: Vec<&str> = report
+        .cases
+        .iter()
+        .filter(|c| {
+            c.stories
+                .iter()
+                .any(|s| s.route == SwayRoute::SecondOrderAnalysis)
+        })
+        .map(|c| c.id.as_str())
+        .collect();
+    if fell_back.is_empty() {
+        return None;
+    }
+    const SHOWN: usize = 6;
+    let mut list = fell_back[..fell_back.len().min(SHOWN)].join(", ");
+    if fell_back.len() > SHOWN {
+        list.push_str(&format!(", … ({} more)", fell_back.len() - SHOWN));
+    }
+    Some(Setting {
+        setting: "moments from the second-order analysis".into(),
+        value: format!(
+            "{} of {} cases ({list}): the method's amplifier is outside its clause there; the \
+             story criterion (--detail) says why",
+            fell_back.len(),
+            report.cases.len()
+        ),
+        source: match report.method {
+            crate::model::SecondOrderMethod::Ec3AlphaCr => "EN 1993-1-1 5.2.2(5)B, (6)B",
+            crate::model::SecondOrderMethod::AciMagnifier => "ACI 318-19 6.6.4.6.2(c)",
+            _ => "AISC 360-16 App. 8 (B2 unusable) and Ch. C",
+        }
+        .into(),
+    })
+}
+
 /// `value (case)` or `-`.
 fn peak(p: &Option<Peak>, decimals: usize) -> String {
     p.as_ref().map_or("-".into(), |p| {
@@ -241,12 +284,18 @@ fn drift_peak(p: &Option<Peak>) -> String {
 
 /// The verdict of a story over the cases.
 pub fn story_verdict(e: &StoryEnvelope) -> String {
-    if e.cases == 0 {
+    let verdict = if e.cases == 0 {
         "no stable case".into()
     } else if e.sway_cases.is_empty() {
         format!("non-sway in all {} cases", e.cases)
     } else {
         format!("sway in {} of {} cases", e.sway_cases.len(), e.cases)
+    };
+    let n = e.second_order_cases.len();
+    if n > 0 && n < e.cases {
+        format!("{verdict}; 2nd-order moments in {n}")
+    } else {
+        verdict
     }
 }
 
@@ -264,7 +313,11 @@ pub fn story_table(s: &Summary) -> Table {
                 peak(&e.b2, 3),
                 peak(&e.q_index, 3),
                 peak(&e.delta_s, 3),
-                peak(&e.drift_amplification, 3),
+                if e.drift_amplification.is_none() && e.negligible_drift_cases > 0 {
+                    "negligible".into()
+                } else {
+                    peak(&e.drift_amplification, 3)
+                },
                 peak(&e.alpha_cr, 2),
                 peak(&e.sway_amplifier, 3),
                 story_verdict(e),
