@@ -199,9 +199,16 @@ fn keep<T>(slot: &mut Option<T>, candidate: T, better: impl Fn(&T, &T) -> bool) 
 
 /// The sections of a member in one case at which moments are enveloped: the two ends;
 /// the reported span moment unless it lies at an end with that end's value; and the
-/// largest and smallest moments of the design diagram where they lie inside the span.
+/// largest and smallest moments of the design diagram where they lie inside the span. An
+/// ACI 318-19 column's span value is Mc = δ·M2 (6.6.4.5.1), its design moment along the
+/// member: it alone is enveloped in the span, wherever M2 lies (issue 16 item 5).
 pub fn sections(m: &MemberCheck) -> Vec<(Location, &MomentCheck)> {
     let mut out = vec![(Location::EndI, &m.ends[0]), (Location::EndJ, &m.ends[1])];
+    if m.span_is_mc {
+        out.push((Location::Span, &m.span));
+        out.retain(|(_, s)| s.design.is_finite());
+        return out;
+    }
     let l = m.ends[1].x;
     let at = |s: &MomentCheck, e: &MomentCheck| (s.x - e.x).abs() <= 1e-9 * l.max(1e-9);
     let repeats = |s: &MomentCheck, e: &MomentCheck| {

@@ -73,6 +73,9 @@ pub struct MemberCheck {
     /// diagram inside the span (else at an end); for an ACI 318 column, Mc = δ·M2 at the
     /// section of M2 (6.6.4.5.1).
     pub span: MomentCheck,
+    /// `span` is Mc = δ·M2 of an ACI 318-19 column (6.6.4.5.1), its design moment along
+    /// the member, enveloped as the span value even where M2 sits at an end.
+    pub span_is_mc: bool,
     /// Largest (most positive, sagging for a beam drawn left to right) moment of the design
     /// diagram over the whole member, ends included, with its x (exact).
     pub span_max: MomentCheck,
@@ -637,6 +640,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         span,
         span_max,
         span_min,
+        span_is_mc: aci_col.is_some() && b1.is_finite(),
         c_m,
         p_critical,
         non_sway_amplifier: amp_ns,

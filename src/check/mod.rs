@@ -100,6 +100,11 @@ pub struct CaseCheck {
     pub alpha_cr: Option<f64>,
     /// Buckled shape, largest translation 1.
     pub buckled_shape: Option<Vec<NodeShape>>,
+    /// The lowest member mode of the buckling analysis (a member bowing between nearly
+    /// still ends) where it lies below the lowest sway mode: it is the member's own
+    /// buckling, which belongs to the member check (EN 1993-1-1 §6.3, AISC 360-16 Ch. E),
+    /// and never decides a story's verdict.
+    pub member_mode: Option<MemberMode>,
     pub direct: DirectStatus,
     /// False when the case exceeds a critical load (story, member or frame).
     pub stable: bool,
@@ -127,6 +132,15 @@ pub struct NotionalTerm {
     pub coefficient: f64,
     /// Forces at each story's top level, N (+X).
     pub forces: Vec<f64>,
+}
+
+/// A member's own buckling mode found by the buckling analysis of a case.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MemberMode {
+    /// The member that bows most in the mode.
+    pub member: String,
+    /// Its critical load factor (on the safe side of the mesh error).
+    pub alpha: f64,
 }
 
 /// One node's displacement in a buckled shape (dimensionless, largest translation 1).
@@ -459,6 +473,7 @@ impl Context<'_> {
                 notional,
                 notional_terms: terms,
                 alpha_cr: buckling.as_ref().map(|b| b.alpha_cr),
+                member_mode: None,
                 buckled_shape: buckling.as_ref().map(|b| {
                     model
                         .nodes

@@ -17,7 +17,7 @@ use crate::model::Model;
 use crate::units::Dimension;
 
 /// Version of the JSON document of `check`; raised when a key changes meaning.
-pub const SCHEMA_VERSION: u32 = 2;
+pub const SCHEMA_VERSION: u32 = 3;
 
 /// The sign convention every moment table states.
 pub const SIGN_NOTE: &str = "Moments are internal bending moments, positive with the member's \
