@@ -123,7 +123,14 @@ pub struct MemberInput<'a> {
     /// extremes, when it converged.
     pub direct: Option<&'a super::DirectSolution>,
     pub alpha: f64,
+    /// The largest first-order end moment of any member in the case, N·m: below
+    /// [`ROUND_OFF`] of it a moment is round-off.
+    pub moment_scale: f64,
 }
+
+/// Moments below this fraction of the case's largest are round-off (a pin-ended member's
+/// end moments, for example).
+pub const ROUND_OFF: f64 = 1e-9;
 
 /// A design diagram along one member: `k_ns·Mns(x) + k_s·Ms(x)` (and likewise N(x)).
 ///
@@ -572,7 +579,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         .iter()
         .flat_map(|s| [s.design.abs(), s.first_order.abs()])
         .filter(|v| v.is_finite())
-        .fold(0.0, f64::max);
+        .fold(ROUND_OFF * input.moment_scale, f64::max);
     // ACI columns: Mc = δ·M2 (6.6.4.5.1) at the section of M2, in place of the span value.
     let span = match &aci_col {
         Some(col) => {

@@ -459,6 +459,7 @@ impl Context<'_> {
                 figures: &figures,
                 direct: direct_solution.as_ref(),
                 alpha,
+                moment_scale: largest_end_moment(&combined.no_sway, &sway),
             });
             let stable = direct_status.converged
                 && figures
@@ -577,6 +578,17 @@ impl Context<'_> {
             }
         })
     }
+}
+
+/// The largest first-order end moment |Mns + Ms| of any member, N·m.
+fn largest_end_moment(no_sway: &Solution, sway: &Solution) -> f64 {
+    no_sway
+        .end_forces
+        .iter()
+        .zip(&sway.end_forces)
+        .flat_map(|(a, b)| [(a.i[2] + b.i[2]).abs(), (a.j[2] + b.j[2]).abs()])
+        .filter(|v| v.is_finite())
+        .fold(0.0, f64::max)
 }
 
 /// The notional-load kind in effect: `auto` resolved for the model's method — AISC notional
