@@ -106,6 +106,10 @@ pub fn factored(id: &str, basis: Basis, factors: &[(usize, f64)]) -> FactoredCas
     }
 }
 
+/// One drawn beam of a symmetric frame: A, I, dead and live load, and an optional point
+/// load (place as a fraction of the span, force).
+type BeamDraw = (f64, f64, f64, f64, Option<(f64, f64)>);
+
 /// Cumulative coordinates `0, d1, d1 + d2, …` of `n` steps drawn by `step`.
 fn grid(n: usize, mut step: impl FnMut() -> f64) -> Vec<f64> {
     let mut out = vec![0.0];
@@ -393,7 +397,7 @@ impl RandomFrame {
                 let (a, i) = cols[line.min(lines - 1 - line)];
                 f.member(nodes[s][line], nodes[s + 1][line], e, a, i);
             }
-            let beams: Vec<(f64, f64, f64, f64, Option<(f64, f64)>)> = (0..bays.div_ceil(2))
+            let beams: Vec<BeamDraw> = (0..bays.div_ceil(2))
                 .map(|_| {
                     (
                         r.range(50e-4, 90e-4),
