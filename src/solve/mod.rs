@@ -11,6 +11,7 @@ pub mod first_order;
 pub mod forces;
 pub mod linear;
 pub mod mesh;
+pub mod modes;
 pub mod ordering;
 pub mod parallel;
 pub mod second_order;

@@ -24,6 +24,8 @@
 //! factorization of `K + α·K_G` fails, estimated by shifted inverse iteration and confirmed
 //! by factorization.
 
+use std::sync::OnceLock;
+
 use nalgebra::{DMatrix, DVector, Matrix3, Matrix6, Vector6};
 use serde::Serialize;
 
@@ -32,7 +34,8 @@ use super::element::{elastic_stiffness, geometric_stiffness, released_rotations,
 use super::first_order::Solution;
 use super::linear::{MeshLoads, Response, equivalent_nodal_loads, recover};
 use super::mesh::{MemberStiffness, Mesh};
-use super::skyline::{PIVOT_TOL, SkylineFactor};
+use super::modes::FrameBuckling;
+use super::skyline::{PIVOT_TOL, SkylineFactor, SkylineMatrix};
 use super::system::{
     Direction, Dof, FreeDirection, Restraints, SystemError, assemble_with, element_equations,
     element_matrices, factor_or_locate, number_dofs,
@@ -61,6 +64,11 @@ pub struct SecondOrderModel {
     elastic: Condensed,
     /// Elastic stiffness of each element in global axes (releases condensed).
     element_k: Vec<Matrix6<f64>>,
+    /// Elements per member.
+    segments: usize,
+    /// The nested mesh with `2·segments` elements per member, for the mesh error of the
+    /// buckling factors ([`Self::buckling`]); built on first use.
+    refined: OnceLock<Result<Box<SecondOrderModel>, SystemError>>,
 }
 
 /// The numbering of the condensed system of a segmented mesh.
@@ -112,8 +120,12 @@ struct DenseLdl {
 
 impl DenseLdl {
     /// Factor symmetric `k`; `Err(j)` at the first pivot `d_j ≤ PIVOT_TOL·|k_jj|` (the same
-    /// test as [`super::skyline::SkylineMatrix::factor`]).
-    fn new(k: &DMatrix<f64>) -> Result<DenseLdl, usize> {
+    /// test as [`super::skyline::SkylineMatrix::factor`]), or with `indefinite` at the
+    /// first `|d_j| ≤ PIVOT_TOL·|k_jj|`, negative pivots being kept and counted (as
+    /// [`SkylineMatrix::factor_inertia`] does). Returns the factor and its number of
+    /// negative pivots.
+    fn factor(k: &DMatrix<f64>, indefinite: bool) -> Result<(DenseLdl, usize), usize> {
+        let mut negative = 0;
         let n = k.nrows();
         let mut a = vec![0.0; n * n];
         for i in 0..n {
@@ -126,9 +138,17 @@ impl DenseLdl {
             for r in 0..j {
                 d -= a[j * n + r] * a[j * n + r] * a[r * n + r];
             }
-            if d.is_nan() || d <= PIVOT_TOL * k[(j, j)].abs() {
+            let floor = PIVOT_TOL * k[(j, j)].abs();
+            if d.is_nan()
+                || (if indefinite {
+                    d.abs() <= floor
+                } else {
+                    d <= floor
+                })
+            {
                 return Err(j);
             }
+            negative += usize::from(d < 0.0);
             a[j * n + j] = d;
             for i in j + 1..n {
                 let mut g = a[i * n + j];
@@ -138,7 +158,7 @@ impl DenseLdl {
                 a[i * n + j] = g / d;
             }
         }
-        Ok(DenseLdl { n, a })
+        Ok((DenseLdl { n, a }, negative))
     }
 
     /// Solve `K·x = b` in place.
@@ -185,6 +205,103 @@ struct Condensed {
     axial: Option<Vec<f64>>,
 }
 
+/// The members of a segmented mesh with their interior nodes condensed out.
+struct MemberParts {
+    /// Per member (`None` for a member of one element).
+    blocks: Vec<Option<MemberBlock>>,
+    /// Per member, its condensed 6×6 stiffness in global axes.
+    condensed: Vec<Matrix6<f64>>,
+    /// Negative pivots of the `K_ii` blocks (counted only when indefinite).
+    negative: usize,
+}
+
+/// Condense every member's interior nodes out of the segmented stiffness (elastic, plus the
+/// geometric stiffness of `axial`). With `indefinite`, a `K_ii` with negative pivots is
+/// kept and its negative pivots counted; otherwise it fails. `Err` names the mesh node and
+/// direction (0, 1, 2) of the failing pivot.
+fn condense_members(
+    mesh: &Mesh,
+    axial: Option<&[f64]>,
+    indefinite: bool,
+) -> Result<MemberParts, (usize, usize)> {
+    let mut blocks = Vec::with_capacity(mesh.member_elements.len());
+    let mut condensed = Vec::with_capacity(mesh.member_elements.len());
+    let mut negative = 0;
+    for range in &mesh.member_elements {
+        let first = &mesh.elements[range.start];
+        let segments = range.len();
+        let local = |ie: usize| {
+            let zero = Vector6::zeros();
+            element_matrices(&mesh.elements[ie], axial.map(|a| a[ie]), &zero).0
+        };
+        let t = transformation(first.c, first.s);
+        if segments == 1 {
+            blocks.push(None);
+            condensed.push(t.transpose() * local(range.start) * t);
+            continue;
+        }
+        // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3.
+        let dim = 3 * (segments + 1);
+        let mut k = DMatrix::zeros(dim, dim);
+        for (seg, ie) in range.clone().enumerate() {
+            let kl = local(ie);
+            for r in 0..6 {
+                for c in 0..6 {
+                    k[(3 * seg + r, 3 * seg + c)] += kl[(r, c)];
+                }
+            }
+        }
+        let ext = [0, 1, 2, dim - 3, dim - 2, dim - 1];
+        let ni = dim - 6;
+        let k_ii = k.view((3, 3), (ni, ni)).into_owned();
+        let k_ie = DMatrix::from_fn(ni, 6, |r, c| k[(3 + r, ext[c])]);
+        let (k_ii, below) = DenseLdl::factor(&k_ii, indefinite)
+            .map_err(|j| (mesh.elements[range.start + j / 3].j, j % 3))?;
+        negative += below;
+        let mut w = k_ie.clone();
+        for mut col in w.column_iter_mut() {
+            k_ii.solve(col.as_mut_slice());
+        }
+        let k_ee = Matrix6::from_fn(|r, c| k[(ext[r], ext[c])]);
+        let k_star = k_ee - Matrix6::from_fn(|r, c| k_ie.column(r).dot(&w.column(c)));
+        condensed.push(t.transpose() * k_star * t);
+        blocks.push(Some(MemberBlock {
+            interior: range
+                .clone()
+                .skip(1)
+                .map(|ie| mesh.elements[ie].i)
+                .collect(),
+            k_ii,
+            w,
+        }));
+    }
+    Ok(MemberParts {
+        blocks,
+        condensed,
+        negative,
+    })
+}
+
+/// Negative pivots met when element `e`'s released end rotations are condensed out of its
+/// stiffness under axial force `n` (as [`super::element::condense`] does, end i first).
+/// With the released rotations counted as unknowns of their own, the pencil stays linear
+/// in the load factor, and these pivots belong to its inertia.
+fn released_negatives(e: &super::mesh::Element, n: f64) -> usize {
+    if !e.release.iter().any(|&r| r) {
+        return 0;
+    }
+    let k = elastic_stiffness(e.ea, e.ei, e.length) + geometric_stiffness(n, e.length);
+    match e.release {
+        [true, true] => {
+            let d0 = k[(2, 2)];
+            let d1 = k[(5, 5)] - k[(5, 2)] * k[(2, 5)] / d0;
+            usize::from(d0 < 0.0) + usize::from(d1 < 0.0)
+        }
+        [true, false] => usize::from(k[(2, 2)] < 0.0),
+        _ => usize::from(k[(5, 5)] < 0.0),
+    }
+}
+
 impl Condensed {
     /// Condense and factor; an error when the stiffness is not positive definite (a
     /// mechanism, or with axial forces a load above a critical load).
@@ -194,71 +311,39 @@ impl Condensed {
         model: &Model,
         axial: Option<&[f64]>,
     ) -> Result<Condensed, SystemError> {
-        let mut blocks = Vec::with_capacity(mesh.member_elements.len());
-        let mut condensed = Vec::with_capacity(mesh.member_elements.len());
-        for range in &mesh.member_elements {
-            let first = &mesh.elements[range.start];
-            let segments = range.len();
-            let local = |ie: usize| {
-                let zero = Vector6::zeros();
-                element_matrices(&mesh.elements[ie], axial.map(|a| a[ie]), &zero).0
-            };
-            let t = transformation(first.c, first.s);
-            if segments == 1 {
-                blocks.push(None);
-                condensed.push(t.transpose() * local(range.start) * t);
-                continue;
-            }
-            // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3.
-            let dim = 3 * (segments + 1);
-            let mut k = DMatrix::zeros(dim, dim);
-            for (seg, ie) in range.clone().enumerate() {
-                let kl = local(ie);
-                for r in 0..6 {
-                    for c in 0..6 {
-                        k[(3 * seg + r, 3 * seg + c)] += kl[(r, c)];
-                    }
-                }
-            }
-            let ext = [0, 1, 2, dim - 3, dim - 2, dim - 1];
-            let ni = dim - 6;
-            let k_ii = k.view((3, 3), (ni, ni)).into_owned();
-            let k_ie = DMatrix::from_fn(ni, 6, |r, c| k[(3 + r, ext[c])]);
-            let k_ii = match DenseLdl::new(&k_ii) {
-                Ok(f) => f,
-                Err(j) => {
-                    let node = mesh.elements[range.start + j / 3].j;
-                    return Err(SystemError::Unstable(vec![FreeDirection {
-                        node,
-                        direction: Direction::ALL[j % 3],
-                        place: mesh.describe_node(model, node),
-                    }]));
-                }
-            };
-            let mut w = k_ie.clone();
-            for mut col in w.column_iter_mut() {
-                k_ii.solve(col.as_mut_slice());
-            }
-            let k_ee = Matrix6::from_fn(|r, c| k[(ext[r], ext[c])]);
-            let k_star = k_ee - Matrix6::from_fn(|r, c| k_ie.column(r).dot(&w.column(c)));
-            condensed.push(t.transpose() * k_star * t);
-            blocks.push(Some(MemberBlock {
-                interior: range
-                    .clone()
-                    .skip(1)
-                    .map(|ie| mesh.elements[ie].i)
-                    .collect(),
-                k_ii,
-                w,
-            }));
-        }
-        let matrix = assemble_with(&so.frame, &so.dofs, so.n, |m, _| condensed[m]);
+        let parts = condense_members(mesh, axial, false).map_err(|(node, d)| {
+            SystemError::Unstable(vec![FreeDirection {
+                node,
+                direction: Direction::ALL[d],
+                place: mesh.describe_node(model, node),
+            }])
+        })?;
+        let matrix = assemble_with(&so.frame, &so.dofs, so.n, |m, _| parts.condensed[m]);
         let factor = factor_or_locate(model, &so.frame, &so.dofs, &matrix, axial.is_some())?;
         Ok(Condensed {
-            blocks,
+            blocks: parts.blocks,
             factor,
             axial: axial.map(<[f64]>::to_vec),
         })
+    }
+
+    /// The number of negative eigenvalues of the segmented stiffness with the geometric
+    /// stiffness of `axial` (released end rotations counted as unknowns): the sum of the
+    /// negative pivots of every member's `K_ii`, of the condensed frame matrix and of the
+    /// released end rotations (inertia additivity over Schur complements, Haynsworth, from
+    /// memory). `None` when a pivot is zero to round-off (the factor sits on an eigenvalue).
+    fn inertia(mesh: &Mesh, so: &Layout, axial: &[f64]) -> Option<usize> {
+        let parts = condense_members(mesh, Some(axial), true).ok()?;
+        let matrix: SkylineMatrix =
+            assemble_with(&so.frame, &so.dofs, so.n, |m, _| parts.condensed[m]);
+        let (_, frame) = matrix.factor_inertia().ok()?;
+        let released: usize = mesh
+            .elements
+            .iter()
+            .zip(axial)
+            .map(|(e, &n)| released_negatives(e, n))
+            .sum();
+        Some(parts.negative + frame + released)
     }
 
     /// Displacements of every mesh node (global axes) under nodal forces `p` (global, per
@@ -378,6 +463,8 @@ impl SecondOrderModel {
             layout,
             elastic,
             element_k,
+            segments: segments.max(1),
+            refined: OnceLock::new(),
         })
     }
 
@@ -452,6 +539,11 @@ impl SecondOrderModel {
     /// element is in compression or the frame does not buckle below [`ALPHA_CR_CEILING`]
     /// times the load.
     ///
+    /// This is the LOWEST mode on the model's mesh, whatever its kind: it may be one
+    /// member's own buckling rather than the frame's sway mode. [`Self::buckling`] sorts the
+    /// modes into sway and member modes and puts the factors on the safe side of the mesh
+    /// error.
+    ///
     /// α_cr is the smallest λ at which `K + λ·K_G(N)` stops being positive definite
     /// (Sylvester's law of inertia: a failed Cholesky pivot marks λ ≥ α_cr). It is first
     /// estimated by shifted inverse iteration ([`Self::estimate_alpha_cr`]) and then
@@ -466,6 +558,34 @@ impl SecondOrderModel {
     ) -> Result<Option<Buckling>, SystemError> {
         let first = self.first_order(model, loads)?;
         let axial = element_axial(&first);
+        Ok(self
+            .lowest_mode(model, &axial)?
+            .map(|(alpha_cr, x)| Buckling {
+                alpha_cr,
+                shape: self.node_shape(&x),
+            }))
+    }
+
+    /// Elastic buckling of `loads` sorted into the frame's lowest SWAY mode and the lowest
+    /// MEMBER mode below it, with critical load factors on the safe side of the mesh error
+    /// (see [`super::modes`] for the classification, the search above member modes and the
+    /// nested mesh). `None` when no element is in compression.
+    pub fn buckling(
+        &self,
+        model: &Model,
+        loads: &MeshLoads,
+    ) -> Result<Option<FrameBuckling>, SystemError> {
+        super::modes::frame_buckling(self, model, loads)
+    }
+
+    /// The lowest mode of the element axial forces `axial` (see [`Self::critical_factor`]):
+    /// its factor and its vector over the mesh nodes (global `[ux, uy, θ]`, any scale).
+    /// `None` when nothing is in compression or nothing buckles below the ceiling.
+    pub(super) fn lowest_mode(
+        &self,
+        model: &Model,
+        axial: &[f64],
+    ) -> Result<Option<ModeVector>, SystemError> {
         if axial.iter().all(|&n| n >= 0.0) {
             return Ok(None);
         }
@@ -473,17 +593,17 @@ impl SecondOrderModel {
             let scaled: Vec<f64> = axial.iter().map(|n| lambda * n).collect();
             self.with_axial(model, &scaled)
         };
-        let estimate = self.estimate_alpha_cr(&axial, &stable)?;
+        let estimate = self.estimate_alpha_cr(axial, &stable)?;
         let tol = ALPHA_CR_TOLERANCE;
-        if let Some(b) = &estimate {
-            let (below, above) = (b.alpha_cr * (1.0 - tol), b.alpha_cr * (1.0 + tol));
+        if let Some((alpha, _)) = &estimate {
+            let (below, above) = (alpha * (1.0 - tol), alpha * (1.0 + tol));
             if stable(below)?.is_some() && stable(above)?.is_none() {
                 return Ok(estimate);
             }
         }
         // Search for a bracket (lo stable, hi not), from the estimate if there is one.
         let (mut lo, mut hi) = match &estimate {
-            Some(b) => (b.alpha_cr / 1.25, b.alpha_cr * 1.25),
+            Some((alpha, _)) => (alpha / 1.25, alpha * 1.25),
             None => (0.0, 1.0),
         };
         while lo > 0.0 && stable(lo)?.is_none() {
@@ -506,16 +626,16 @@ impl SecondOrderModel {
             }
         }
         let alpha_cr = 0.5 * (lo + hi);
-        let shape = match stable(0.999 * lo)? {
-            Some(system) => self.mode_shape(&system),
-            None => vec![[0.0; 3]; self.mesh.model_nodes],
+        let x = match stable(0.999 * lo)? {
+            Some(system) => self.mode_vector(&system),
+            None => vec![[0.0; 3]; self.mesh.nodes.len()],
         };
-        Ok(Some(Buckling { alpha_cr, shape }))
+        Ok(Some((alpha_cr, x)))
     }
 
     /// A vector over the mesh's unknowns, `value(equation number)` in each, zero on held
     /// and idle directions (a start vector for the inverse iterations).
-    fn start_vector(&self, value: impl Fn(usize) -> f64) -> Vec<[f64; 3]> {
+    pub(super) fn start_vector(&self, value: impl Fn(usize) -> f64) -> Vec<[f64; 3]> {
         self.layout
             .mesh_dofs
             .iter()
@@ -530,12 +650,7 @@ impl SecondOrderModel {
     fn elastic_times(&self, x: &[[f64; 3]]) -> Vec<[f64; 3]> {
         let mut y = vec![[0.0; 3]; x.len()];
         for (e, k) in self.mesh.elements.iter().zip(&self.element_k) {
-            let (a, b) = (x[e.i], x[e.j]);
-            let f = k * Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
-            for k in 0..3 {
-                y[e.i][k] += f[k];
-                y[e.j][k] += f[3 + k];
-            }
+            add_element_product(&mut y, e, k, x);
         }
         for (node, d) in self.layout.mesh_dofs.iter().enumerate() {
             for k in 0..3 {
@@ -545,6 +660,106 @@ impl SecondOrderModel {
             }
         }
         y
+    }
+
+    /// `G = −K_G` of every element in global axes for the axial forces `axial` at λ = 1,
+    /// a released element's as the secant of its condensed matrix between λ = 0 and 1 (the
+    /// estimate of [`Self::estimate_alpha_cr`], confirmed by factorization).
+    fn secant_geometric(&self, axial: &[f64]) -> Vec<Matrix6<f64>> {
+        let zero = Vector6::zeros();
+        self.mesh
+            .elements
+            .iter()
+            .zip(axial)
+            .map(|(e, &n)| {
+                let (with_g, _) = element_matrices(e, Some(n), &zero);
+                let (without, _) = element_matrices(e, None, &zero);
+                let t = transformation(e.c, e.s);
+                -(t.transpose() * (with_g - without) * t)
+            })
+            .collect()
+    }
+
+    /// The buckling pencil `K·φ = λ·G·φ` of the element axial forces `axial` (see
+    /// [`Pencil`]): exact and linear in λ.
+    pub(super) fn pencil(&self, axial: &[f64]) -> Pencil {
+        let mut g = Vec::with_capacity(self.mesh.elements.len());
+        let mut released = Vec::new();
+        let mut slot = 3 * self.mesh.nodes.len();
+        for (ie, (e, &n)) in self.mesh.elements.iter().zip(axial).enumerate() {
+            let t = transformation(e.c, e.s);
+            if e.release.iter().any(|&r| r) && n != 0.0 {
+                g.push(Matrix6::zeros());
+                let extra = e.release.iter().filter(|&&r| r).count();
+                released.push(Released {
+                    element: ie,
+                    ends: e.release,
+                    slot,
+                    k: elastic_stiffness(e.ea, e.ei, e.length),
+                    g: -geometric_stiffness(n, e.length),
+                    t,
+                });
+                slot += extra;
+            } else {
+                g.push(-(t.transpose() * geometric_stiffness(n, e.length) * t));
+            }
+        }
+        Pencil {
+            g,
+            released,
+            dim: slot,
+        }
+    }
+
+    /// The number of eigenvalues of the buckling problem of `axial` below `lambda`
+    /// (`Condensed::inertia` of the stiffness at `lambda`, the Sturm sequence count);
+    /// `None` when `lambda` is an eigenvalue to round-off.
+    pub(super) fn count_below(&self, axial: &[f64], lambda: f64) -> Option<usize> {
+        let scaled: Vec<f64> = axial.iter().map(|n| lambda * n).collect();
+        Condensed::inertia(&self.mesh, &self.layout, &scaled)
+    }
+
+    /// `K⁻¹·r` with the factored elastic stiffness (zero on held and idle directions).
+    pub(super) fn elastic_solve(&self, r: &[[f64; 3]]) -> Vec<[f64; 3]> {
+        self.elastic.solve_nodal(&self.mesh, &self.layout, r)
+    }
+
+    /// Zero the held and idle directions of a mesh vector.
+    pub(super) fn clear_held(&self, y: &mut [[f64; 3]]) {
+        for (yn, d) in y.iter_mut().zip(&self.layout.mesh_dofs) {
+            for k in 0..3 {
+                if d[k].equation().is_none() {
+                    yn[k] = 0.0;
+                }
+            }
+        }
+    }
+
+    /// Elements per member of this mesh.
+    pub fn segments(&self) -> usize {
+        self.segments
+    }
+
+    /// The nested mesh with twice the elements per member (built once, on first use): its
+    /// nodes include every node of this mesh, so its buckling factors are bounded by this
+    /// mesh's (Rayleigh–Ritz on a larger trial space).
+    pub(super) fn refined(&self, model: &Model) -> Result<&SecondOrderModel, SystemError> {
+        let built = self.refined.get_or_init(|| {
+            let stiffness: Vec<MemberStiffness> = self
+                .mesh
+                .member_elements
+                .iter()
+                .map(|r| {
+                    let e = &self.mesh.elements[r.start];
+                    MemberStiffness { ea: e.ea, ei: e.ei }
+                })
+                .collect();
+            SecondOrderModel::new(model, &stiffness, 2 * self.segments).map(Box::new)
+        });
+        match built {
+            Ok(fine) => Ok(fine),
+            Err(e) => Err(e.clone()),
+        }
     }
 
     /// Estimate α_cr and its mode by inverse iteration on the pencil `K·φ = λ·G·φ`
@@ -561,39 +776,15 @@ impl SecondOrderModel {
         &self,
         axial: &[f64],
         stable: &dyn Fn(f64) -> Result<Option<Condensed>, SystemError>,
-    ) -> Result<Option<Buckling>, SystemError> {
-        // Element geometric matrices in global axes.
-        let parts: Vec<Matrix6<f64>> = self
-            .mesh
-            .elements
-            .iter()
-            .zip(axial)
-            .map(|(e, &na)| {
-                let zero = Vector6::zeros();
-                let (with_g, _) = element_matrices(e, Some(na), &zero);
-                let (without, _) = element_matrices(e, None, &zero);
-                let t = transformation(e.c, e.s);
-                t.transpose() * (with_g - without) * t
-            })
-            .collect();
-        // y = G·x = −K_G·x on the unknowns.
+    ) -> Result<Option<ModeVector>, SystemError> {
+        let parts = self.secant_geometric(axial);
+        // y = G·x on the unknowns.
         let g = |x: &[[f64; 3]]| -> Vec<[f64; 3]> {
             let mut y = vec![[0.0; 3]; x.len()];
             for (e, kg) in self.mesh.elements.iter().zip(&parts) {
-                let (a, b) = (x[e.i], x[e.j]);
-                let f = kg * Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
-                for k in 0..3 {
-                    y[e.i][k] -= f[k];
-                    y[e.j][k] -= f[3 + k];
-                }
+                add_element_product(&mut y, e, kg, x);
             }
-            for (yn, d) in y.iter_mut().zip(&self.layout.mesh_dofs) {
-                for k in 0..3 {
-                    if d[k].equation().is_none() {
-                        yn[k] = 0.0;
-                    }
-                }
-            }
+            self.clear_held(&mut y);
             y
         };
         let dot = |a: &[[f64; 3]], b: &[[f64; 3]]| {
@@ -661,15 +852,12 @@ impl SecondOrderModel {
         if !(lambda > 0.0 && lambda.is_finite()) {
             return Ok(None);
         }
-        Ok(Some(Buckling {
-            alpha_cr: lambda,
-            shape: self.node_shape(&x),
-        }))
+        Ok(Some((lambda, x)))
     }
 
     /// Per model node `[ux, uy, θ]` of a mesh vector, scaled so that the largest
     /// translation is 1 (positive).
-    fn node_shape(&self, x: &[[f64; 3]]) -> Vec<[f64; 3]> {
+    pub(super) fn node_shape(&self, x: &[[f64; 3]]) -> Vec<[f64; 3]> {
         let mut shape: Vec<[f64; 3]> = x[..self.mesh.model_nodes].to_vec();
         let peak = shape
             .iter()
@@ -683,8 +871,8 @@ impl SecondOrderModel {
         shape
     }
 
-    /// Inverse iteration on a nearly singular system: its near-null vector, per model node.
-    fn mode_shape(&self, system: &Condensed) -> Vec<[f64; 3]> {
+    /// Inverse iteration on a nearly singular system: its near-null vector over the mesh.
+    fn mode_vector(&self, system: &Condensed) -> Vec<[f64; 3]> {
         let mut x = self.start_vector(|k| 1.0 + (k % 7) as f64 * 0.01);
         for _ in 0..8 {
             x = system.solve_nodal(&self.mesh, &self.layout, &x);
@@ -694,9 +882,277 @@ impl SecondOrderModel {
             }
             x.iter_mut().flatten().for_each(|v| *v /= norm);
         }
-        self.node_shape(&x)
+        x
     }
 }
+
+/// `y += k·x` over the two end nodes of element `e` (`k` in global axes).
+fn add_element_product(
+    y: &mut [[f64; 3]],
+    e: &super::mesh::Element,
+    k: &Matrix6<f64>,
+    x: &[[f64; 3]],
+) {
+    let (a, b) = (x[e.i], x[e.j]);
+    let f = k * Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
+    for r in 0..3 {
+        y[e.i][r] += f[r];
+        y[e.j][r] += f[3 + r];
+    }
+}
+
+/// The buckling pencil `K·φ = λ·G·φ` of one load over a segmented mesh, on flat vectors:
+/// `[ux, uy, θ]` of every mesh node (zero on held and idle directions), then the rotation of
+/// every released element end that carries axial force.
+///
+/// A released end's rotation is condensed out of `k + λ·k_G` elsewhere, which makes the
+/// condensed matrix non-linear in λ. Kept as an unknown of its own it leaves the pencil
+/// linear and exact, with the same eigenvalues; its pivot belongs to the Sturm count
+/// (`released_negatives`). Elements without axial force keep their releases condensed (no
+/// geometric stiffness: nothing is lost).
+#[derive(Debug, Clone)]
+pub(super) struct Pencil {
+    /// `G = −K_G` of every element in global axes (zero for the [`Released`] ones).
+    g: Vec<Matrix6<f64>>,
+    /// The released elements with axial force.
+    released: Vec<Released>,
+    /// Length of the flat vectors.
+    dim: usize,
+}
+
+/// An element with released ends and axial force, in the buckling pencil.
+#[derive(Debug, Clone)]
+struct Released {
+    element: usize,
+    /// Which of its ends are released.
+    ends: [bool; 2],
+    /// Position of its first released rotation in the flat vectors (end i before end j).
+    slot: usize,
+    /// Elastic stiffness and `G = −K_G`, local axes, not condensed.
+    k: Matrix6<f64>,
+    g: Matrix6<f64>,
+    /// Global to local.
+    t: Matrix6<f64>,
+}
+
+impl Released {
+    /// Local DOFs of its released rotations (2 at end i, 5 at end j) and their slots.
+    fn extras(&self, e: &super::mesh::Element) -> Vec<(usize, usize)> {
+        let mut out = Vec::with_capacity(2);
+        let mut slot = self.slot;
+        for (end, &r) in e.release.iter().enumerate() {
+            if r {
+                out.push((2 + 3 * end, slot));
+                slot += 1;
+            }
+        }
+        out
+    }
+
+    /// Local displacements from a flat vector, the released rotations from their slots.
+    fn local(&self, e: &super::mesh::Element, x: &[f64]) -> Vector6<f64> {
+        let (i, j) = (3 * e.i, 3 * e.j);
+        let global = Vector6::new(x[i], x[i + 1], x[i + 2], x[j], x[j + 1], x[j + 2]);
+        let mut u = self.t * global;
+        for (dof, slot) in self.extras(e) {
+            u[dof] = x[slot];
+        }
+        u
+    }
+
+    /// Add local end forces `f` to a flat vector: released rotations to their slots, the
+    /// rest to the nodes.
+    fn scatter(&self, e: &super::mesh::Element, mut f: Vector6<f64>, y: &mut [f64]) {
+        for (dof, slot) in self.extras(e) {
+            y[slot] += f[dof];
+            f[dof] = 0.0;
+        }
+        let g = self.t.transpose() * f;
+        for r in 0..3 {
+            y[3 * e.i + r] += g[r];
+            y[3 * e.j + r] += g[3 + r];
+        }
+    }
+}
+
+/// `y += k·x` on flat vectors over the two end nodes of element `e` (`k` in global axes).
+fn add_flat_product(y: &mut [f64], e: &super::mesh::Element, k: &Matrix6<f64>, x: &[f64]) {
+    let (i, j) = (3 * e.i, 3 * e.j);
+    let f = k * Vector6::new(x[i], x[i + 1], x[i + 2], x[j], x[j + 1], x[j + 2]);
+    for r in 0..3 {
+        y[i + r] += f[r];
+        y[j + r] += f[3 + r];
+    }
+}
+
+impl Pencil {
+    /// Length of the flat vectors.
+    pub(super) fn dim(&self) -> usize {
+        self.dim
+    }
+
+    /// The released ends of element `ie` carrying axial force, as `(end, slot)` (end 0 for
+    /// i, 1 for j); none for any other element.
+    pub(super) fn released_slots(&self, ie: usize) -> Vec<(usize, usize)> {
+        self.released
+            .iter()
+            .find(|r| r.element == ie)
+            .map(|r| {
+                let mut slot = r.slot;
+                r.ends
+                    .iter()
+                    .enumerate()
+                    .filter(|(_, e)| **e)
+                    .map(|(end, _)| {
+                        slot += 1;
+                        (end, slot - 1)
+                    })
+                    .collect()
+            })
+            .unwrap_or_default()
+    }
+
+    /// Every released end carrying axial force: `(element, end, slot)`.
+    pub(super) fn released_ends(&self) -> Vec<(usize, usize, usize)> {
+        self.released
+            .iter()
+            .flat_map(|r| {
+                self.released_slots(r.element)
+                    .into_iter()
+                    .map(move |(end, slot)| (r.element, end, slot))
+            })
+            .collect()
+    }
+
+    /// Zero the held and idle node directions of a flat vector.
+    pub(super) fn clear_held(&self, so: &SecondOrderModel, y: &mut [f64]) {
+        for (n, d) in so.layout.mesh_dofs.iter().enumerate() {
+            for k in 0..3 {
+                if d[k].equation().is_none() {
+                    y[3 * n + k] = 0.0;
+                }
+            }
+        }
+    }
+
+    /// `K·x` (elastic, springs included).
+    pub(super) fn k_times(&self, so: &SecondOrderModel, x: &[f64]) -> Vec<f64> {
+        let mut y = vec![0.0; self.dim];
+        let mut skip = vec![false; so.mesh.elements.len()];
+        for r in &self.released {
+            let e = &so.mesh.elements[r.element];
+            r.scatter(e, r.k * r.local(e, x), &mut y);
+            skip[r.element] = true;
+        }
+        for ((e, k), _) in so
+            .mesh
+            .elements
+            .iter()
+            .zip(&so.element_k)
+            .zip(&skip)
+            .filter(|(_, s)| !**s)
+        {
+            add_flat_product(&mut y, e, k, x);
+        }
+        for (n, d) in so.layout.mesh_dofs.iter().enumerate() {
+            for k in 0..3 {
+                if let Dof::Spring(_, ks) = d[k] {
+                    y[3 * n + k] += ks * x[3 * n + k];
+                }
+            }
+        }
+        self.clear_held(so, &mut y);
+        y
+    }
+
+    /// `G·x`.
+    pub(super) fn g_times(&self, so: &SecondOrderModel, x: &[f64]) -> Vec<f64> {
+        let mut y = vec![0.0; self.dim];
+        for (e, g) in so.mesh.elements.iter().zip(&self.g) {
+            add_flat_product(&mut y, e, g, x);
+        }
+        for r in &self.released {
+            let e = &so.mesh.elements[r.element];
+            r.scatter(e, r.g * r.local(e, x), &mut y);
+        }
+        self.clear_held(so, &mut y);
+        y
+    }
+
+    /// `K⁻¹·r` exactly, by static condensation: each released rotation's load is moved onto
+    /// its element's other DOFs (`r_c − k_cr·k_rr⁻¹·r_r`), the condensed frame is solved with
+    /// the factored elastic stiffness, and the released rotations are recovered
+    /// (`k_rr⁻¹·(r_r − k_rc·u_c)`).
+    pub(super) fn solve(&self, so: &SecondOrderModel, r: &[f64]) -> Vec<f64> {
+        let nodes = 3 * so.mesh.nodes.len();
+        let mut f: Vec<[f64; 3]> = r[..nodes]
+            .chunks_exact(3)
+            .map(|c| [c[0], c[1], c[2]])
+            .collect();
+        // Per released element: (retained local DOFs, released local DOFs, k_rr⁻¹).
+        let split = |rel: &Released, e: &super::mesh::Element| {
+            let extras = rel.extras(e);
+            let dofs: Vec<usize> = extras.iter().map(|x| x.0).collect();
+            let n = dofs.len();
+            let k_rr = DMatrix::from_fn(n, n, |a, b| rel.k[(dofs[a], dofs[b])]);
+            (extras, k_rr.try_inverse())
+        };
+        for rel in &self.released {
+            let e = &so.mesh.elements[rel.element];
+            let (extras, Some(inv)) = split(rel, e) else {
+                continue;
+            };
+            let rr = DVector::from_iterator(extras.len(), extras.iter().map(|x| r[x.1]));
+            let z = &inv * rr;
+            // Local loads −k_cr·z on the element's DOFs (the released rows excluded).
+            let mut fl = Vector6::zeros();
+            for c in 0..6 {
+                if extras.iter().all(|x| x.0 != c) {
+                    fl[c] = -(0..extras.len())
+                        .map(|a| rel.k[(c, extras[a].0)] * z[a])
+                        .sum::<f64>();
+                }
+            }
+            let g = rel.t.transpose() * fl;
+            for k in 0..3 {
+                f[e.i][k] += g[k];
+                f[e.j][k] += g[3 + k];
+            }
+        }
+        let u = so.elastic_solve(&f);
+        let mut out = vec![0.0; self.dim];
+        for (n, v) in u.iter().enumerate() {
+            out[3 * n..3 * n + 3].copy_from_slice(v);
+        }
+        for rel in &self.released {
+            let e = &so.mesh.elements[rel.element];
+            let (extras, Some(inv)) = split(rel, e) else {
+                continue;
+            };
+            let (a, b) = (u[e.i], u[e.j]);
+            let ul = rel.t * Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
+            let rhs = DVector::from_iterator(
+                extras.len(),
+                extras.iter().map(|&(dof, slot)| {
+                    r[slot]
+                        - (0..6)
+                            .filter(|c| extras.iter().all(|x| x.0 != *c))
+                            .map(|c| rel.k[(dof, c)] * ul[c])
+                            .sum::<f64>()
+                }),
+            );
+            let theta = &inv * rhs;
+            for (a, &(_, slot)) in extras.iter().enumerate() {
+                out[slot] = theta[a];
+            }
+        }
+        out
+    }
+}
+
+/// A buckling mode found by [`SecondOrderModel::lowest_mode`]: its factor and its vector
+/// over the mesh nodes.
+pub(super) type ModeVector = (f64, Vec<[f64; 3]>);
 
 /// Above this load factor a frame is reported as not buckling under the load.
 pub const ALPHA_CR_CEILING: f64 = 1.0e6;
