@@ -246,7 +246,10 @@ fn span_extremes_equal_a_dense_sampling_of_the_design_diagram() {
         "span extremes checked against dense sampling on {checked} member results; direct \
          method extremes bracket the end moments on {direct}"
     );
-    assert!(checked > 10_000, "{checked}");
+    // Since issue 16 a case whose amplifier is outside its clause takes the second-order
+    // analysis's moments (checked with the direct method's above), so fewer results are
+    // amplified ones.
+    assert!(checked > 5_000, "{checked}");
 }
 
 /// A second-order amplifier of sway effects is never below 1: B2 (AISC 360-16 A-8-6 is

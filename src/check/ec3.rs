@@ -51,7 +51,7 @@ pub fn structure_alpha_cr(
 /// a first-order sway of which more than about 30 % lies outside the first mode is not
 /// amplified by 1/(1 − 1/α_cr), and where its sway part relieves the no-sway part the
 /// amplified total is then too small).
-pub const MODE_SHAPE_MIN_COSINE: f64 = 0.95;
+pub const MODE_SHAPE_MIN_COSINE: f64 = 0.99;
 
 /// Whether the case's first-order sway fits the amplified sway method (§5.2.2(6)B):
 /// `Ok(figures)` or `Err(why not)`, each naming the deciding figures.
@@ -172,7 +172,21 @@ pub fn judge_structure(
     let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
     let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
     let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
-    let conditions = amplified_method_conditions(&first, mode, &h, &significant);
+    // The first sway mode governs the case's sway only if the growth the second-order
+    // analysis measures agrees with the amplifier (the largest significant Δ2nd/Δ1st).
+    let measured = figures
+        .iter()
+        .filter_map(|f| f.drift_amplification)
+        .fold(None, |m: Option<f64>, r| Some(m.map_or(r, |m| m.max(r))));
+    let conditions = amplified_method_conditions(&first, mode, &h, &significant).and_then(|why| {
+        match (sway_amplifier(a), measured) {
+            (Some(amp), Some(r)) if !super::story::amplifiers_agree(amp, r) => Err(format!(
+                "1/(1 − 1/α_cr) = {amp:.3} against Δ2nd/Δ1st = {r:.3} of the second-order \
+                 analysis: the first sway mode does not govern this case's sway"
+            )),
+            _ => Ok(why),
+        }
+    });
     let verdict = if a >= ALPHA_CR_FIRST_ORDER {
         Verdict::first_order(format!(
             "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices (EN 1993-1-1 (5.1), 5.2.1(3))"

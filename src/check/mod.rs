@@ -96,9 +96,10 @@ pub struct CaseCheck {
     pub notional: Vec<f64>,
     /// The terms of `notional`, each with its rule.
     pub notional_terms: Vec<NotionalTerm>,
-    /// Elastic critical load factor from the buckling analysis (None: nothing buckles).
+    /// Elastic critical load factor of the frame's lowest sway mode, on the safe side of
+    /// the mesh error (None: no sway mode below the ceiling, or nothing in compression).
     pub alpha_cr: Option<f64>,
-    /// Buckled shape, largest translation 1.
+    /// Buckled shape of that sway mode, largest translation 1.
     pub buckled_shape: Option<Vec<NodeShape>>,
     /// The lowest member mode of the buckling analysis (a member bowing between nearly
     /// still ends) where it lies below the lowest sway mode: it is the member's own
@@ -369,7 +370,17 @@ impl Context<'_> {
         let lateral = loads.resultant(&self.second.mesh)[0];
         let v_total = gravity.sum_p.first().copied().unwrap_or(0.0).max(0.0);
 
-        let buckling = self.second.critical_factor(model, &loads)?;
+        // The frame's lowest sway mode decides; a member's own buckling below it is
+        // reported with its member (issue 16 item 3).
+        let frame_buckling = self.second.buckling(model, &loads)?;
+        let member_mode = frame_buckling
+            .as_ref()
+            .and_then(|f| f.member.as_ref())
+            .map(|m| MemberMode {
+                member: model.members[m.member].id.clone(),
+                alpha: m.alpha_cr,
+            });
+        let buckling = frame_buckling.and_then(|f| f.sway);
 
         // Notional loads: which directions, and how large at each level.
         let own: Vec<f64> = combined.holding.iter().map(|h| -h).collect();
@@ -442,13 +453,20 @@ impl Context<'_> {
                     mode.as_deref(),
                     direct_status.converged,
                 ),
-                SecondOrderMethod::AciMagnifier => story::aci_first_mode_condition(
+                SecondOrderMethod::AciMagnifier => story::aci_q_method_conditions(
+                    &mut figures,
+                    mode.as_deref(),
+                    buckling.as_ref().map(|b| b.alpha_cr),
+                    direct_status.converged,
+                ),
+                SecondOrderMethod::AiscB1B2 => story::aisc_b2_conditions(
                     &mut figures,
                     mode.as_deref(),
                     direct_status.converged,
                 ),
-                SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Direct => {}
+                SecondOrderMethod::Direct => {}
             }
+            story::one_route_per_case(&mut figures);
             let members = member::members(&member::MemberInput {
                 model,
                 stories: self.stories,
@@ -474,7 +492,7 @@ impl Context<'_> {
                 notional,
                 notional_terms: terms,
                 alpha_cr: buckling.as_ref().map(|b| b.alpha_cr),
-                member_mode: None,
+                member_mode: member_mode.clone(),
                 buckled_shape: buckling.as_ref().map(|b| {
                     model
                         .nodes

@@ -684,9 +684,15 @@ pub fn classify(
 /// mixed sense, a sway part that relieves), stories amplified by the Q method take the
 /// moments of the second-order analysis instead (6.6.4.6.2(c)) and the criterion says why.
 /// `mode` are the story drifts of the frame's lowest sway mode.
-pub fn aci_first_mode_condition(
+///
+/// The range of the Q method, δs ≤ 1.5 (6.6.4.6.2), is also read off the buckling
+/// analysis: Q leaves out the columns' own P-δ softening, which the frame's lowest sway
+/// mode includes, so where that mode's amplifier 1/(1 − 1/α_cr) exceeds 1.5 the Q method
+/// is outside its range too (`alpha_cr`: the lowest sway mode's factor).
+pub fn aci_q_method_conditions(
     figures: &mut [StoryFigures],
     mode: Option<&[f64]>,
+    alpha_cr: Option<f64>,
     converged: bool,
 ) {
     if !converged || figures.iter().all(|f| f.route != SwayRoute::Amplified) {
@@ -695,19 +701,94 @@ pub fn aci_first_mode_condition(
     let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
     let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
     let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
-    if let Err(why) = ec3::amplified_method_conditions(&first, mode, &h, &significant) {
-        for f in figures
-            .iter_mut()
-            .filter(|f| f.route == SwayRoute::Amplified)
-        {
-            let criterion = format!(
-                "{}; but {why}: design moments from the second-order analysis, 6.6.4.6.2(c)",
-                f.criterion
-            );
-            Verdict::second_order(f.classification, criterion).apply(f);
-        }
+    let range = match alpha_cr {
+        Some(a) if a > 1.0 && 1.0 / (1.0 - 1.0 / a) > aci::DELTA_S_Q_LIMIT => Err(format!(
+            "the frame's lowest sway mode α_cr = {a:.2} gives 1/(1 − 1/α_cr) = {:.3} > {:.1}, \
+             beyond the Q method's range",
+            1.0 / (1.0 - 1.0 / a),
+            aci::DELTA_S_Q_LIMIT
+        )),
+        _ => Ok(()),
+    };
+    let conditions = range.and_then(|()| {
+        ec3::amplified_method_conditions(&first, mode, &h, &significant).map(|_| ())
+    });
+    if let Err(why) = conditions {
+        to_second_order(figures, &why, "6.6.4.6.2(c)");
     }
 }
+
+/// AISC 360-16 App. 8: B2 multiplies the moments of the lateral translation of the story
+/// (Mlt, A-8-1), which presumes, as the Q method does, that the case's first-order sway has
+/// the frame's sway shape ([`ec3::amplified_method_conditions`]; common practice, no
+/// source). Where it does not, the amplified stories take the moments of the second-order
+/// analysis (AISC 360-16 C1 permits any second-order analysis; from memory).
+pub fn aisc_b2_conditions(figures: &mut [StoryFigures], mode: Option<&[f64]>, converged: bool) {
+    if !converged || figures.iter().all(|f| f.route != SwayRoute::Amplified) {
+        return;
+    }
+    let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
+    let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
+    let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
+    if let Err(why) = ec3::amplified_method_conditions(&first, mode, &h, &significant) {
+        to_second_order(figures, &why, "AISC 360-16 C1");
+    }
+}
+
+/// Send every amplified story to the second-order route, saying why.
+fn to_second_order(figures: &mut [StoryFigures], why: &str, clause: &str) {
+    for f in figures
+        .iter_mut()
+        .filter(|f| f.route == SwayRoute::Amplified)
+    {
+        let criterion = format!(
+            "{}; but {why}: design moments from the second-order analysis, {clause}",
+            f.criterion
+        );
+        Verdict::second_order(f.classification, criterion).apply(f);
+    }
+}
+
+/// Where one story of a case takes the moments of the second-order analysis, every story
+/// of the case does: that analysis is of the whole frame, and a story amplified on its own
+/// beside it would miss what the other story's sway does to the members they share (a
+/// column at the level between them). The criterion names the story that needed it.
+pub fn one_route_per_case(figures: &mut [StoryFigures]) {
+    let Some(first) = figures
+        .iter()
+        .find(|f| f.route == SwayRoute::SecondOrderAnalysis)
+        .map(|f| f.story)
+    else {
+        return;
+    };
+    for f in figures
+        .iter_mut()
+        .filter(|f| matches!(f.route, SwayRoute::FirstOrder | SwayRoute::Amplified))
+    {
+        let criterion = format!(
+            "{}; design moments from the second-order analysis, which story {first} needs (the \
+             frame is analysed as a whole)",
+            f.criterion
+        );
+        Verdict::second_order(f.classification, criterion).apply(f);
+    }
+}
+
+/// A story amplifier agrees with the growth the second-order analysis measures, Δ2nd/Δ1st
+/// of the same story (significant drift only), when neither growth (amplifier − 1) is more
+/// than twice the other plus 0.05 (common practice, no source: B2 with RM = 0.85 and a
+/// reference pattern is a deliberately conservative estimate of the same growth, so a
+/// factor of two is generous; beyond it the story figure describes another story).
+pub fn amplifiers_agree(amplifier: f64, ratio: f64) -> bool {
+    let (a, r) = (amplifier - 1.0, ratio.max(1.0) - 1.0);
+    a <= AGREEMENT_FACTOR * r + AGREEMENT_SLACK && r <= AGREEMENT_FACTOR * a + AGREEMENT_SLACK
+}
+
+/// Factor between two growths that still agree ([`amplifiers_agree`]).
+pub const AGREEMENT_FACTOR: f64 = 2.0;
+
+/// Slack on the growths for amplifiers near 1 ([`amplifiers_agree`]).
+pub const AGREEMENT_SLACK: f64 = 0.05;
 
 /// One story's verdict by `method` (see [`classify`]).
 fn method_verdict(
@@ -724,14 +805,22 @@ fn method_verdict(
             )),
             Some(b2) => {
                 let (class, cmp) = against(b2 <= aisc::B2_NONSWAY);
-                Verdict::amplified(
-                    b2,
-                    class,
-                    format!(
-                        "B2 = {b2:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
-                        aisc::B2_NONSWAY
+                let why = format!(
+                    "B2 = {b2:.3} {cmp} {:.2} (AISC 360-16 App. 7.2.3(b), from memory)",
+                    aisc::B2_NONSWAY
+                );
+                match f.drift_amplification {
+                    Some(r) if converged && !amplifiers_agree(b2, r) => Verdict::second_order(
+                        class,
+                        format!(
+                            "{why}; but the second-order analysis gives Δ2nd/Δ1st = {r:.3} for \
+                             this story: the story figures do not represent it (A-8-7 takes ΔH \
+                             of a representative lateral load, from memory), so the design \
+                             moments are the second-order analysis's"
+                        ),
                     ),
-                )
+                    _ => Verdict::amplified(b2, class, why),
+                }
             }
         },
         SecondOrderMethod::AciMagnifier => {
@@ -746,6 +835,21 @@ fn method_verdict(
                      6.6.4.3(b), which accepts sway effects up to about 5 %)",
                     aci::Q_NONSWAY
                 ))
+            } else if let Some((ds, r)) = f
+                .delta_s_q
+                .zip(f.drift_amplification)
+                .filter(|&(ds, r)| converged && !amplifiers_agree(ds, r))
+            {
+                Verdict::second_order(
+                    Classification::Sway,
+                    format!(
+                        "Q = {q:.3} > {:.2} (ACI 318-19 6.6.4.3(b)); δs = {ds:.3} by the Q \
+                         method against Δ2nd/Δ1st = {r:.3} of the second-order analysis: the \
+                         story figures do not represent this story, so the design moments \
+                         are the second-order analysis's, 6.6.4.6.2(c)",
+                        aci::Q_NONSWAY
+                    ),
+                )
             } else if let Some(ds) = f.delta_s_q {
                 Verdict::amplified(
                     ds,
