@@ -183,6 +183,11 @@ pub struct Envelope {
     pub unstable: Vec<String>,
     pub stories: Vec<StoryEnvelope>,
     pub members: Vec<MemberEnvelope>,
+    /// Members whose own buckling (a member mode below the frame's lowest sway mode) the
+    /// buckling analysis found, each with its smallest factor over the cases (issue 16): it
+    /// belongs to the member check, not to the frame's α_cr.
+    #[serde(default)]
+    pub member_modes: Vec<MemberModePeak>,
     /// Stable cases that give no member envelope value, no column axial extreme and no
     /// story's largest sway amplifier or smallest α_cr.
     pub never_govern: Vec<String>,
@@ -479,9 +484,41 @@ pub fn envelope(report: &CheckReport) -> Envelope {
             .collect(),
         never_govern: never_governing(report, &members, &stories),
         residual: largest_residual(report),
+        member_modes: member_modes(report),
         stories,
         members,
     }
+}
+
+/// The smallest member-mode factor of one member over the cases.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct MemberModePeak {
+    pub member: String,
+    /// Critical load factor of the member's own buckling mode.
+    pub alpha: f64,
+    pub case: String,
+}
+
+/// Every member with a member mode in some case, with its smallest factor, lowest first.
+fn member_modes(report: &CheckReport) -> Vec<MemberModePeak> {
+    let mut out: Vec<MemberModePeak> = Vec::new();
+    for c in &report.cases {
+        let Some(m) = &c.member_mode else { continue };
+        match out.iter_mut().find(|p| p.member == m.member) {
+            Some(p) if m.alpha < p.alpha => {
+                p.alpha = m.alpha;
+                p.case = c.id.clone();
+            }
+            Some(_) => {}
+            None => out.push(MemberModePeak {
+                member: m.member.clone(),
+                alpha: m.alpha,
+                case: c.id.clone(),
+            }),
+        }
+    }
+    out.sort_by(|a, b| a.alpha.total_cmp(&b.alpha));
+    out
 }
 
 /// The governing design moment of one member (the `governing[]` list of the JSON report).

@@ -113,11 +113,16 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     let lf = u.label(Dimension::Force);
     let f = |v: f64| num(u.from_si(v, Dimension::Force), 1);
     let mut out = format!("Case {}: {}  [{}]\n", c.id, c.expression, c.basis);
-    let buckling = c
-        .alpha_cr
-        .map_or("no member in compression".to_string(), |a| {
-            format!("α_cr = {}", num(a, 2))
-        });
+    let mut buckling = c.alpha_cr.map_or("no sway mode".to_string(), |a| {
+        format!("α_cr = {} (lowest sway mode)", num(a, 2))
+    });
+    if let Some(m) = &c.member_mode {
+        buckling.push_str(&format!(
+            "; member {} buckles on its own at {} (a member check)",
+            m.member,
+            num(m.alpha, 2)
+        ));
+    }
     let direct = if c.direct.converged {
         format!("converged in {} iterations", c.direct.iterations)
     } else {

@@ -559,6 +559,26 @@ pub fn closing_lines(s: &Summary) -> Vec<String> {
             e.unstable.join(", ")
         )
     });
+    if !e.member_modes.is_empty() {
+        const SHOWN: usize = 6;
+        let list: Vec<String> = e
+            .member_modes
+            .iter()
+            .take(SHOWN)
+            .map(|p| format!("{} at α = {} ({})", p.member, num(p.alpha, 2), p.case))
+            .collect();
+        let more = e.member_modes.len().saturating_sub(SHOWN);
+        out.push(format!(
+            "Members that buckle on their own below the frame's sway mode (a member check, EN \
+             1993-1-1 §6.3, AISC 360-16 Ch. E; not the frame's α_cr): {}{}",
+            list.join(", "),
+            if more > 0 {
+                format!(", … ({more} more)")
+            } else {
+                String::new()
+            }
+        ));
+    }
     if let Some(r) = &e.residual {
         let f = Fmt { model: s.model };
         out.push(format!(
