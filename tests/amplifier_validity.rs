@@ -76,11 +76,23 @@ fn end_ratios(c: &CaseCheck) -> Vec<(f64, String)> {
     out
 }
 
+/// The route of a member in a case: where its design moments came from.
+fn route_of(m: &plumbline::check::MemberCheck) -> &'static str {
+    if m.second_order {
+        "second-order"
+    } else if m.sway_amplifier == Some(1.0) {
+        "first-order"
+    } else {
+        "amplified"
+    }
+}
+
 #[test]
 fn spread_of_design_over_second_order_end_moments() {
+    // Printed for the record (issue 16 asks for the distribution per route); the
+    // assertions are in `amplified_routes_stay_within_their_conditions_on_random_frames`.
     for method in METHODS {
-        let mut ratios = Vec::new();
-        let mut short = 0usize;
+        let mut by_route: std::collections::BTreeMap<&str, Vec<f64>> = Default::default();
         let mut worst = (f64::INFINITY, String::new());
         for seed in 0..FRAMES {
             let mut rf = RandomFrame::new(seed);
@@ -89,100 +101,31 @@ fn spread_of_design_over_second_order_end_moments() {
                 continue;
             };
             for c in report.cases.iter().filter(|c| c.stable) {
+                let routes: std::collections::HashMap<&str, &str> = c
+                    .members
+                    .iter()
+                    .map(|m| (m.member.as_str(), route_of(m)))
+                    .collect();
                 for (r, what) in end_ratios(c) {
-                    if r < 0.95 {
-                        short += 1;
-                    }
+                    let member = what.split(' ').next().unwrap_or("");
+                    by_route.entry(routes[member]).or_default().push(r);
+                    by_route.entry("all").or_default().push(r);
                     if r < worst.0 {
                         worst = (r, format!("seed {seed}, case {}, {what}", c.id));
                     }
-                    ratios.push(r);
                 }
             }
         }
-        let n = ratios.len();
-        let s = spread(&mut ratios);
-        println!(
-            "{method}: design / second-order end moment, n = {n}: min {:.3}, 10 % {:.3}, median {:.3}, 90 % {:.3}, max {:.3}; below 0.95: {short}; lowest at {}",
-            s[0], s[1], s[2], s[3], s[4], worst.1
-        );
-    }
-}
-
-/// A diagnostic, not a check: `SEED=7 METHOD=aci CASE="1.4D" MEMBER=M3 cargo test --test
-/// amplifier_validity debug_one -- --ignored --nocapture` prints one case of one random
-/// frame (MEMBER=unstable lists the unstable members).
-#[test]
-#[ignore]
-fn debug_one() {
-    let seed: u64 = std::env::var("SEED").unwrap().parse().unwrap();
-    let method = match std::env::var("METHOD").unwrap().as_str() {
-        "aci" => SecondOrderMethod::AciMagnifier,
-        "ec3" => SecondOrderMethod::Ec3AlphaCr,
-        "aisc" => SecondOrderMethod::AiscB1B2,
-        _ => SecondOrderMethod::Direct,
-    };
-    let case = std::env::var("CASE").unwrap();
-    let member = std::env::var("MEMBER").unwrap();
-    let mut rf = RandomFrame::new(seed);
-    rf.model.analysis.method = method;
-    println!(
-        "bays {} stories {} base {:?} braces {:?} leaning {:?} lateral {:?}",
-        rf.bays, rf.stories, rf.base, rf.braces, rf.leaning, rf.lateral
-    );
-    let report = check(&rf.model, &rf.cases).unwrap();
-    let c = report.cases.iter().find(|c| c.id == case).unwrap();
-    println!("alpha_cr {:?} notional {:?}", c.alpha_cr, c.notional);
-    for s in &c.stories {
-        println!(
-            "story {} drift1 {:.3e} drift2 {:?} amp {:?} route {} Q {:.3} {}",
-            s.story,
-            s.drift_first_order,
-            s.drift_second_order,
-            s.sway_amplifier,
-            s.route,
-            s.q_index,
-            s.criterion
-        );
-    }
-    if member == "unstable" {
-        for m in c.members.iter().filter(|m| !m.stable) {
+        for (route, mut ratios) in by_route {
+            let n = ratios.len();
+            let short = ratios.iter().filter(|&&r| r < 0.95).count();
+            let s = spread(&mut ratios);
             println!(
-                "{} {:?} release {:?} {:?} c_m {:?} pcrit {:?} p_r {:?} notes {:?}",
-                m.member,
-                m.role,
-                rf.model
-                    .members
-                    .iter()
-                    .find(|x| x.id == m.member)
-                    .map(|x| (x.release_i, x.release_j)),
-                m.compression,
-                m.c_m,
-                m.p_critical,
-                m.p_r,
-                m.notes
+                "{method:>14} {route:>12}: n = {n:>6}, min {:.3}, 10 % {:.3}, median {:.3}, 90 % {:.3}, max {:.3}; below 0.95: {short}",
+                s[0], s[1], s[2], s[3], s[4]
             );
         }
-        return;
-    }
-    let m = c.members.iter().find(|m| m.member == member).unwrap();
-    println!("{m:#?}");
-    for (k, x) in c.members.iter().enumerate() {
-        let mem = &rf.model.members[k];
-        let ei = rf.model.materials[mem.material].e * rf.model.sections[mem.section].inertia;
-        let n_cr = std::f64::consts::PI.powi(2) * ei / rf.model.length(k).powi(2);
-        println!(
-            "{} {:?} {}-{} N/Ncr {:.3} ends {:.3e} {:.3e} so {:?} {:?}",
-            x.member,
-            x.role,
-            rf.model.nodes[mem.i].id,
-            rf.model.nodes[mem.j].id,
-            x.compression / n_cr,
-            x.ends[0].design,
-            x.ends[1].design,
-            x.ends[0].second_order,
-            x.ends[1].second_order
-        );
+        println!("{method:>14} lowest at {}", worst.1);
     }
 }
 

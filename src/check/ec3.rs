@@ -51,7 +51,7 @@ pub fn structure_alpha_cr(
 /// a first-order sway of which more than about 30 % lies outside the first mode is not
 /// amplified by 1/(1 − 1/α_cr), and where its sway part relieves the no-sway part the
 /// amplified total is then too small).
-pub const MODE_SHAPE_MIN_COSINE: f64 = 0.99;
+pub const MODE_SHAPE_MIN_COSINE: f64 = 0.95;
 
 /// Whether the case's first-order sway fits the amplified sway method (§5.2.2(6)B):
 /// `Ok(figures)` or `Err(why not)`, each naming the deciding figures.
@@ -87,7 +87,8 @@ pub fn amplified_method_conditions(
     let psi: Vec<f64> = mode.iter().zip(h).map(|(d, h)| d / h).collect();
     let dot: f64 = theta.iter().zip(&psi).map(|(a, b)| a * b).sum();
     let norm = |v: &[f64]| v.iter().map(|x| x * x).sum::<f64>().sqrt();
-    let cosine = dot / (norm(&theta) * norm(&psi));
+    // A mode has no sign of its own: the cosine of the shapes is taken unsigned.
+    let cosine = dot.abs() / (norm(&theta) * norm(&psi));
     let sense = dot.signum();
     let against: Vec<usize> = theta
         .iter()
@@ -173,18 +174,19 @@ pub fn judge_structure(
     let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
     let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
     // The first sway mode governs the case's sway only if the growth the second-order
-    // analysis measures agrees with the amplifier (the largest significant Δ2nd/Δ1st).
-    let measured = figures
-        .iter()
-        .filter_map(|f| f.drift_amplification)
-        .fold(None, |m: Option<f64>, r| Some(m.map_or(r, |m| m.max(r))));
+    // analysis measures in every story (significant Δ2nd/Δ1st) agrees with the amplifier.
     let conditions = amplified_method_conditions(&first, mode, &h, &significant).and_then(|why| {
-        match (sway_amplifier(a), measured) {
-            (Some(amp), Some(r)) if !super::story::amplifiers_agree(amp, r) => Err(format!(
-                "1/(1 − 1/α_cr) = {amp:.3} against Δ2nd/Δ1st = {r:.3} of the second-order \
-                 analysis: the first sway mode does not govern this case's sway"
+        let amp = sway_amplifier(a);
+        let off = figures.iter().find_map(|f| {
+            let (amp, r) = (amp?, f.drift_amplification?);
+            (!super::story::amplifiers_agree(amp, r)).then_some((f.story, amp, r))
+        });
+        match off {
+            Some((story, amp, r)) => Err(format!(
+                "1/(1 − 1/α_cr) = {amp:.3} against Δ2nd/Δ1st = {r:.3} of story {story} in the \
+                 second-order analysis: the first sway mode does not govern this case's sway"
             )),
-            _ => Ok(why),
+            None => Ok(why),
         }
     });
     let verdict = if a >= ALPHA_CR_FIRST_ORDER {

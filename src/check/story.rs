@@ -775,20 +775,23 @@ pub fn one_route_per_case(figures: &mut [StoryFigures]) {
 }
 
 /// A story amplifier agrees with the growth the second-order analysis measures, Δ2nd/Δ1st
-/// of the same story (significant drift only), when neither growth (amplifier − 1) is more
-/// than twice the other plus 0.05 (common practice, no source: B2 with RM = 0.85 and a
-/// reference pattern is a deliberately conservative estimate of the same growth, so a
-/// factor of two is generous; beyond it the story figure describes another story).
+/// of the same story (significant drift only), when the two growths (amplifier − 1 and
+/// ratio − 1) differ by at most [`AGREEMENT_SHARE`] of the larger plus
+/// [`AGREEMENT_SLACK`] (common practice, no source: B2 with RM = 0.85, δs of the Q method
+/// and 1/(1 − 1/α_cr) are estimates of that same growth, the first two deliberately
+/// conservative; beyond this they describe another sway than the case's, and the sway
+/// parts they multiply, where they relieve the no-sway part, are then over- or
+/// under-amplified).
 pub fn amplifiers_agree(amplifier: f64, ratio: f64) -> bool {
     let (a, r) = (amplifier - 1.0, ratio.max(1.0) - 1.0);
-    a <= AGREEMENT_FACTOR * r + AGREEMENT_SLACK && r <= AGREEMENT_FACTOR * a + AGREEMENT_SLACK
+    (a - r).abs() <= AGREEMENT_SHARE * a.max(r) + AGREEMENT_SLACK
 }
 
-/// Factor between two growths that still agree ([`amplifiers_agree`]).
-pub const AGREEMENT_FACTOR: f64 = 2.0;
+/// Share of the larger growth by which two growths may differ ([`amplifiers_agree`]).
+pub const AGREEMENT_SHARE: f64 = 0.25;
 
 /// Slack on the growths for amplifiers near 1 ([`amplifiers_agree`]).
-pub const AGREEMENT_SLACK: f64 = 0.05;
+pub const AGREEMENT_SLACK: f64 = 0.02;
 
 /// One story's verdict by `method` (see [`classify`]).
 fn method_verdict(
