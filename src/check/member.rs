@@ -381,10 +381,17 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     let in_stories = member_stories(model, input.stories, m);
     let figures: Vec<&StoryFigures> = in_stories.iter().map(|&k| &input.figures[k]).collect();
     let story_unstable = figures.iter().any(|f| f.route == SwayRoute::None);
+    // A member in no story (a grade beam, a link at the base) follows the case: every
+    // story of a case takes the same route (`story::one_route_per_case`).
     let second_order = method == SecondOrderMethod::Direct
         || figures
             .iter()
-            .any(|f| f.route == SwayRoute::SecondOrderAnalysis);
+            .any(|f| f.route == SwayRoute::SecondOrderAnalysis)
+        || (figures.is_empty()
+            && input
+                .figures
+                .iter()
+                .any(|f| f.route == SwayRoute::SecondOrderAnalysis));
     if story_unstable {
         stable = false;
         notes.push("its story is unstable under this case".into());
