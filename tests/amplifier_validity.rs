@@ -613,38 +613,3 @@ fn alpha_cr_at_the_default_mesh_is_never_above_the_converged_value() {
     );
     assert!(compared > 200, "{compared}");
 }
-
-#[test]
-#[ignore]
-fn debug_modes() {
-    use plumbline::solve::linear::MeshLoads;
-    use plumbline::solve::mesh::member_stiffness;
-    use plumbline::solve::second_order::SecondOrderModel;
-    let seed: u64 = std::env::var("SEED").unwrap().parse().unwrap();
-    let rf = RandomFrame::new(seed);
-    println!(
-        "bays {} stories {} base {:?} braces {:?} leaning {:?} lateral {:?}",
-        rf.bays, rf.stories, rf.base, rf.braces, rf.leaning, rf.lateral
-    );
-    for segments in [2, 4, 8, 16] {
-        let st = member_stiffness(&rf.model);
-        let so = SecondOrderModel::new(&rf.model, &st, segments).unwrap();
-        let mut loads = MeshLoads::zero(&so.mesh);
-        for &(k, f) in &rf.cases[1].factors {
-            loads.add_case(&rf.model, &so.mesh, k, f);
-        }
-        let b = so.buckling(&rf.model, &loads).unwrap().unwrap();
-        println!(
-            "segments {segments}: {:?} sway {:?} member {:?}",
-            b.search,
-            b.sway.as_ref().map(|s| s.alpha_cr),
-            b.member.as_ref().map(|m| (m.member, m.alpha_cr))
-        );
-        for m in &b.modes {
-            println!(
-                "   {:.6} mesh {:.6} nested {:?} {:?} rho {:.3} beta {:.3}",
-                m.alpha_cr, m.alpha_mesh, m.alpha_refined, m.kind, m.chord_rotation, m.bow
-            );
-        }
-    }
-}
