@@ -14,57 +14,67 @@
 //!
 //! * chord rotation `ρ_m = |v_j − v_i| / L_m` (the relative transverse translation of its
 //!   two end nodes: the member's share of a sway);
-//! * bow `β_m = max_k |v_k − v_chord(x_k)| / L_m` over its interior nodes k (the deviation
-//!   from the straight line through its end nodes: the member's own curvature).
+//! * bow `β_m = max |v(x) − v_chord(x)| / L_m` over its interior nodes and the quarter
+//!   points of each of its elements, v(x) being the element's cubic (the deviation from the
+//!   straight line through its end nodes: the member's own curvature; the quarter points
+//!   catch the bows that a coarse mesh carries by node rotations alone).
 //!
 //! A mode is a **sway mode** when `max_m ρ_m ≥ SWAY_RATIO · max_m β_m` with
 //! [`SWAY_RATIO`] = 1: the levels translate more than any member bows. Otherwise it is a
 //! **member mode**, attributed to the member with the largest β. A mode in which the joints
 //! only rotate (a braced frame's non-sway mode) has ρ = 0 and is a member mode.
 //!
-//! Why 1 (measured on the modes of `tests/buckling_modes.rs`, ρ/β = max ρ / max β): a
-//! column swaying in double curvature bows by at most about 0.1 of its drift (fixed-base
-//! portal with a stiff beam, v = Δ(1 − cos πx/h)/2: β/ρ = 0.105; measured ρ/β ≈ 9.4), a
-//! column swaying in single curvature by about 0.2 (pinned-base portal, or a cantilever,
-//! v = Δ sin(πx/2h): β/ρ = 0.21; measured ρ/β ≈ 4.6), while in a member mode the chord
-//! barely turns (a leaning post's bow, a brace's bow or a braced column between floors:
-//! measured ρ/β below 0.05). The threshold sits between the two families with a margin of
-//! about 4 on the sway side and 20 on the member side.
+//! Why 1. A column swaying in double curvature bows by about 0.1 of its chord rotation
+//! (v = Δ(1 − cos πx/h)/2: β/ρ = 0.105), one swaying in single curvature by about 0.2
+//! (v = Δ·sin(πx/2h): β/ρ = 0.21), while in a member mode the chord barely turns. Measured
+//! on the modes of `tests/buckling_modes.rs` with 4 elements per member, ρ/β is: sway
+//! modes 9.8 (fixed-base portal with a leaning post), 7.0 (pinned-base portal), 4.8
+//! (cantilever column), 5.5 (three bays with a brace and a leaning column), 3.9 (braced
+//! frame swaying by stretching its brace), 18 (braced frame with rigid joints); member
+//! modes 0 to 10⁻³ (a leaning post's and a pin-ended brace's bows), 0.07 to 0.22 (a braced
+//! frame's columns buckling between floors, joints rotating), and up to 0.78 for a higher
+//! column mode of a braced frame that carries some sway. The threshold sits between the
+//! two families with a margin of about 4 on the sway side and 1.3 on the member side; with
+//! 2 elements per member a braced frame's sway mode, mixed with its brace's higher bows,
+//! measured 1.4.
 //!
 //! # Finding the lowest sway mode above member modes
 //!
-//! The common case costs what it cost before: when the lowest mode is a sway mode it is the
-//! answer. Otherwise the modes are found upwards, in ascending order, until the first sway
-//! mode, the ceiling [`ALPHA_CR_CEILING`] or [`MAX_MODES`] modes:
+//! The common case costs little more than before: when the lowest mode
+//! ([`SecondOrderModel::critical_factor`]'s) is a sway mode it is the answer, and only its
+//! factor on the nested mesh is added (below). Otherwise the modes are found upwards, in
+//! ascending order, until the first sway mode, the ceiling [`ALPHA_CR_CEILING`] or
+//! [`MAX_MODES`] modes:
 //!
+//! * **Exact linear pencil**: a released element end that carries axial force keeps its
+//!   own rotation as an unknown (`second_order::Pencil`), so the pencil is linear in λ and
+//!   has the eigenvalues of the analysis (whose releases are condensed from `k + λ·k_G` at
+//!   each λ); every other element's releases stay condensed.
 //! * **Block eigensolver**: the locally optimal block preconditioned conjugate gradient
 //!   method (LOBPCG; A. V. Knyazev, SIAM J. Sci. Comput. 23(2), 2001, from memory) on the
 //!   pencil `G·φ = μ·K·φ`, μ = 1/λ, whose largest μ are the smallest positive λ. Each step
 //!   takes the Rayleigh–Ritz solution on the span of the current vectors X, their
 //!   preconditioned residuals W = K⁻¹(G·X − μ·K·X) and the previous directions P. The
-//!   preconditioner is the elastic stiffness already factored, so no new factorization is
-//!   needed. The projected pencil is solved densely (nalgebra): `XᵀKX` is positive definite
-//!   on independent vectors, so the basis is first made K-orthonormal through the
-//!   eigenvectors of that Gram matrix (dropping dependent directions), and then `XᵀGX` is a
-//!   symmetric eigenproblem. Converged vectors are locked: later vectors are kept
-//!   K-orthogonal to them (buckling modes are K- and G-orthogonal to each other), so the
-//!   block moves on to the next modes. The start block holds the lowest mode, the static
+//!   preconditioner is the elastic stiffness already factored (the exact K⁻¹), so no new
+//!   factorization is needed. The projected pencil is solved densely (nalgebra): `XᵀKX` is
+//!   positive definite on independent vectors, so the basis is first made K-orthonormal
+//!   through the eigenvectors of that Gram matrix (dropping dependent directions), and then
+//!   `XᵀGX` is a symmetric eigenproblem. Converged vectors are locked: later vectors are
+//!   kept K-orthogonal to them (buckling modes are K- and G-orthogonal to each other), so
+//!   the block moves on to the next modes; the last third of a full block is not locked
+//!   (its ranks are not yet trusted). The start block holds the lowest mode, the static
 //!   sway shapes K⁻¹·H (H: unit lateral forces at every model node, uniform and growing
 //!   with height) and smooth pseudo-random vectors.
 //! * **Sturm count**: the inertia of `K − σ·G` (negative pivots of every member's interior
-//!   block `K_ii`, of the condensed frame matrix and of released end rotations, added by
-//!   Haynsworth's inertia additivity) is the number of eigenvalues below σ. At σ just above
-//!   the reported sway factor it must equal the number of modes found below it; if it is
-//!   larger, modes were missed and the search goes on from the modes found. A frame whose
-//!   modes are all counted and all member modes up to the ceiling has no sway mode
-//!   ([`SwaySearch::Complete`], `sway` = `None`); when [`MAX_MODES`] member modes are found
-//!   first, the count proves the sway mode is above the last of them
-//!   ([`SwaySearch::LowerBound`]).
-//!
-//! Released element ends carrying axial force make the pencil non-linear in λ (the release
-//! is condensed from `k + λ·k_G`); there the pencil is linearised through two points close
-//! to the mode sought and the reported modes are solved again at their own factor until it
-//! settles, before the (exact) count.
+//!   block `K_ii`, of the condensed frame matrix and of the released end rotations, added
+//!   by Haynsworth's inertia additivity) is the number of eigenvalues below σ. At σ just
+//!   above the reported sway factor it must equal the number of modes found below it; if
+//!   it is larger, modes were missed (a block holds only so many copies of a multiple
+//!   eigenvalue, as identical leaning posts give) and the search goes on from fresh
+//!   vectors, K-orthogonal to the modes found. A frame whose modes up to the ceiling are
+//!   all counted and all member modes has no sway mode ([`SwaySearch::Complete`], `sway` =
+//!   `None`); when [`MAX_MODES`] member modes are found first, the count proves the sway
+//!   mode is above the last of them ([`SwaySearch::LowerBound`]).
 //!
 //! # Safe side of the mesh error
 //!
@@ -74,8 +84,9 @@
 //! error falls like h⁴ for these elements (measured: 0.75 %, 0.047 %, 0.003 % for a
 //! pin-ended column with 2, 4, 8 elements). Each mode is therefore solved again on the
 //! nested mesh with 2n elements per member (built once per model; the start vectors are the
-//! n-mesh modes, interpolated exactly, and the axial forces come from the n-mesh first-order
-//! solution by statics), and the reported factor is [`safe_side`]: `α(2n) − (α(n) − α(2n))/3`,
+//! n-mesh modes, interpolated exactly and corrected at the new middle nodes, and the axial
+//! forces come from the n-mesh first-order solution by statics; one solve usually confirms
+//! a mode), and the reported factor is [`safe_side`]: `α(2n) − (α(n) − α(2n))/3`,
 //! the Richardson extrapolation for an error falling like h², which lies below α(∞) by about
 //! a quarter of `α(n) − α(2n)` when the error falls like h⁴. Where the axial force varies
 //! along a member (its own weight, an inclined member under gravity), each element takes
@@ -109,8 +120,9 @@ pub const SWAY_RATIO: f64 = 1.0;
 pub const MAX_MODES: usize = 48;
 
 /// From this many elements per member on, the mesh factors are reported without the nested
-/// mesh: the mesh error is then below 10⁻⁵ (h⁴ convergence, measured from 0.75 % at two
-/// elements).
+/// mesh: the mesh error is then below 10⁻⁵ where axial forces are constant along members
+/// (h⁴ convergence, measured from 0.75 % at two elements), and where they vary it is from
+/// below (0.16 % for a column under its own weight), on the safe side.
 pub const REFINE_BELOW: usize = 16;
 
 /// Vectors iterated together by the block eigensolver.
@@ -213,10 +225,10 @@ pub enum SwaySearch {
     /// Every mode below the sway mode (or below the ceiling, when there is no sway mode)
     /// was found: the Sturm count agrees.
     Complete,
-    /// [`MAX_MODES`] member modes lie below the sway mode. The count proves that none of
-    /// the modes below the last of them was missed, so the lowest sway factor is at least
-    /// that mode's: `sway.alpha_cr` is that lower bound and `sway.shape` the static sway
-    /// shape.
+    /// At least [`MAX_MODES`] member modes lie below the sway mode. The count proves that
+    /// none of the modes below the last of them was missed, so the lowest sway factor is at
+    /// least that mode's: `sway.alpha_cr` is that lower bound (on the safe side of the mesh
+    /// error) and `sway.shape` the static sway shape.
     LowerBound,
     /// The count did not confirm the search (modes remained missing after the retries):
     /// `sway.alpha_cr` is the lowest mode's factor, on the safe side.
@@ -498,9 +510,9 @@ impl Block {
 
     /// Remove the K-components along the locked modes (K-normalised) from every vector,
     /// twice (classical Gram–Schmidt twice, from memory: one pass leaves round-off along the
-    /// locked modes); the products follow by linearity. A vector that lies in the span of the locked modes to
-    /// round-off (its K-norm falls below 10⁻⁸ of what it was) is dropped: scaled up, its
-    /// round-off would bring the locked modes back.
+    /// locked modes); the products follow by linearity. A vector that lies in the span of
+    /// the locked modes to round-off (its K-norm falls below 10⁻⁸ of what it was) is
+    /// dropped: scaled up, its round-off would bring the locked modes back.
     fn deflate(&mut self, locked: &[Pair]) {
         if locked.is_empty() {
             return;
@@ -592,11 +604,11 @@ fn rayleigh_ritz(b: &Block) -> Option<(Vec<f64>, DMatrix<f64>)> {
 /// `locked`, `block` vectors at a time, to the residual `tolerance` (the preconditioned
 /// residual `‖K⁻¹(G·x − μ·K·x)‖_K` of a K-normalised x over the largest μ met, the lowest
 /// mode's; with the exact K⁻¹ it bounds the error of μ). `fill(k)` gives the k-th extra
-/// start vector when the block runs short. After each lock, `done(locked)` decides whether to stop; the
-/// search also stops when no positive eigenvalue is left above the ceiling's μ (as far as
-/// the block sees: the caller's Sturm count decides), at `max_modes` locked modes or at
-/// the iteration limit. The modes come back in the order they were locked (ascending but
-/// for modes found late).
+/// start vector when the block runs short. After each lock, `done(locked)` decides whether
+/// to stop; the search also stops when no positive eigenvalue is left above the ceiling's
+/// μ (as far as the block sees: the caller's Sturm count decides), at `max_modes` locked
+/// modes or at the iteration limit. The modes come back in the order they were locked
+/// (ascending but for modes found late).
 #[allow(clippy::too_many_arguments)]
 pub(super) fn lowest_modes(
     ops: &dyn Operators,
