@@ -638,3 +638,45 @@ fn past_the_most_modes_the_sway_factor_is_a_counted_lower_bound() {
     assert!(bound < story, "{bound} vs {story}");
     assert!(bound > 4.0 * euler, "{bound} vs {euler}");
 }
+
+#[test]
+fn random_frames_give_complete_consistent_buckling() {
+    // Properties, no engineering number (common practice, no source): on seeded random
+    // frames (`tests/common/random_frame.rs`, beam releases included) the search is
+    // complete; the lowest mode is `critical_factor`'s; a lowest sway mode is reported at
+    // most at its mesh factor (the safe side only lowers it); a member mode is reported
+    // below the sway mode.
+    use common::random_frame::RandomFrame;
+    for seed in 0..24 {
+        let rf = RandomFrame::new(seed);
+        let st = member_stiffness(&rf.model);
+        let so = SecondOrderModel::new(&rf.model, &st, rf.model.analysis.segments).unwrap();
+        for fc in &rf.cases {
+            let mut loads = MeshLoads::zero(&so.mesh);
+            for &(k, f) in &fc.factors {
+                loads.add_case(&rf.model, &so.mesh, k, f);
+            }
+            let raw = so.critical_factor(&rf.model, &loads).unwrap();
+            let Some(b) = so.buckling(&rf.model, &loads).unwrap() else {
+                assert!(raw.is_none(), "seed {seed}");
+                continue;
+            };
+            assert_eq!(b.search, SwaySearch::Complete, "seed {seed} {}", fc.id);
+            let (Some(raw), Some(first)) = (raw, b.modes.first()) else {
+                continue;
+            };
+            let tol = 1e-6 * raw.alpha_cr;
+            assert!(
+                (first.alpha_mesh - raw.alpha_cr).abs() <= tol,
+                "seed {seed}"
+            );
+            if first.kind == ModeKind::Sway {
+                assert!(sway(&b) <= raw.alpha_cr + tol, "seed {seed}");
+                assert!(b.member.is_none());
+            }
+            if let (Some(m), Some(s)) = (&b.member, &b.sway) {
+                assert!(m.alpha_cr <= s.alpha_cr, "seed {seed}");
+            }
+        }
+    }
+}
