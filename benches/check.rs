@@ -15,6 +15,11 @@
 //! * `cargo bench --bench check -- frame BAYS STORIES [CASES]` — one run of one frame
 //!   (optionally only the first CASES factored cases), one line of figures.
 //! * `cargo bench --bench check -- dense` — the dense baseline only.
+//! * `cargo bench --bench check -- buckling [BAYS STORIES [lean]]` — the buckling analysis
+//!   alone, per factored case: the raw lowest mode (`critical_factor`) against the sorted
+//!   modes with factors on the safe side (`buckling`), on the standard frames (their lowest
+//!   mode is the sway mode) or on one frame; `lean` adds a line of pin-ended leaning columns
+//!   carrying 100 kN per level (illustrative), whose bows lie below the sway mode.
 //!
 //! Peak memory is the process's resident high-water mark (`VmHWM` in `/proc/self/status`,
 //! Linux); elsewhere it prints as 0.
@@ -27,6 +32,10 @@ use plumbline::combos::{FactoredCase, expand, load_table};
 use plumbline::input::parse_model;
 use plumbline::model::Model;
 use plumbline::solve::first_order::FirstOrder;
+use plumbline::solve::linear::MeshLoads;
+use plumbline::solve::mesh::member_stiffness;
+use plumbline::solve::modes::SwaySearch;
+use plumbline::solve::second_order::SecondOrderModel;
 
 /// The model file of an invented `bays` × `stories` frame (illustrative sections).
 fn model_text(bays: usize, stories: usize) -> String {
@@ -116,6 +125,117 @@ fn frame(bays: usize, stories: usize) -> Result<(Model, Vec<FactoredCase>), Stri
         .expect("expands")
         .cases;
     Ok((model, cases))
+}
+
+/// The lines added to a bench frame by `lean`: a leaning column line 8 m right of the last
+/// grid line, one pin-ended column per story (illustrative section), tied to the frame at
+/// every level by a link pinned at both ends, carrying 100 kN at every level.
+fn leaning_text(bays: usize, stories: usize) -> String {
+    let x = 8.0 * (bays + 1) as f64;
+    let mut t = String::from(
+        "[[section]]\nid = \"LEAN\"\nA = \"5000 mm^2\"\nI = \"4.0e7 mm^4\"\nrole = \"column\"\n",
+    );
+    for k in 0..=stories {
+        t += &format!("[[node]]\nid = \"L{k}\"\nx = {x}\ny = {}\n", 4.0 * k as f64);
+    }
+    for k in 1..=stories {
+        t += &format!(
+            "[[member]]\nid = \"LC{k}\"\ni = \"L{}\"\nj = \"L{k}\"\nsection = \"LEAN\"\n\
+             material = \"S\"\n[[member]]\nid = \"LK{k}\"\ni = \"N{}.{k}\"\nj = \"L{k}\"\n\
+             section = \"BM\"\nmaterial = \"S\"\nhinge = \"both\"\n",
+            k - 1,
+            bays + 1
+        );
+    }
+    t += "[[support]]\nnode = \"L0\"\ntype = \"pinned\"\n";
+    t += "[[case]]\nid = \"DL\"\ncategory = \"dead\"\n";
+    for k in 1..=stories {
+        t += &format!("[[case.node_load]]\nnodes = \"L{k}\"\nfy = -100\n");
+    }
+    t
+}
+
+/// The buckling analysis alone on one frame: per factored case, `critical_factor` against
+/// `buckling` (after one warm-up call that builds the nested mesh, timed apart). Prints one
+/// line of figures.
+fn run_buckling(bays: usize, stories: usize, lean: bool) {
+    let mut text = model_text(bays, stories);
+    if lean {
+        text += &leaning_text(bays, stories);
+    }
+    let model = match parse_model(&text, "bench.toml") {
+        Ok(m) => m,
+        Err(e) => {
+            println!("{bays:>3} x {stories:<6} model refused: {}", e.message);
+            return;
+        }
+    };
+    let table = load_table("asce7-16-strength", None).expect("shipped table");
+    let cases = expand(&table, &model.load_cases, &Default::default())
+        .expect("expands")
+        .cases;
+    let stiffness = member_stiffness(&model);
+    let so = SecondOrderModel::new(&model, &stiffness, model.analysis.segments).expect("factors");
+    let loads: Vec<MeshLoads> = cases
+        .iter()
+        .map(|fc| {
+            let mut l = MeshLoads::zero(&so.mesh);
+            for &(k, f) in &fc.factors {
+                l.add_case(&model, &so.mesh, k, f);
+            }
+            l
+        })
+        .collect();
+    let t = Instant::now();
+    let _ = so.buckling(&model, &loads[0]).expect("solves");
+    let warm = t.elapsed().as_secs_f64() * 1e3;
+    // Best of three passes (the machine is shared), alternating the two analyses.
+    let (mut raw, mut sorted) = (f64::INFINITY, f64::INFINITY);
+    let (mut member_first, mut bound, mut modes) = (0, 0, 0);
+    for _ in 0..3 {
+        let t = Instant::now();
+        for l in &loads {
+            std::hint::black_box(so.critical_factor(&model, l).expect("solves"));
+        }
+        raw = raw.min(t.elapsed().as_secs_f64() * 1e3);
+        let t = Instant::now();
+        (member_first, bound, modes) = (0, 0, 0);
+        for l in &loads {
+            if let Some(b) = so.buckling(&model, l).expect("solves") {
+                member_first += usize::from(b.member.is_some());
+                bound += usize::from(b.search != SwaySearch::Complete);
+                modes += b.modes.len();
+            }
+        }
+        sorted = sorted.min(t.elapsed().as_secs_f64() * 1e3);
+    }
+    let n = loads.len() as f64;
+    println!(
+        "{:>3} x {:<6}{:>5} {:>8} {:>6} {:>14.2} {:>14.2} {:>7.2} {:>13.1} {:>8} {:>6} {:>7.1}",
+        bays,
+        stories,
+        if lean { "lean" } else { "" },
+        model.members.len(),
+        cases.len(),
+        raw / n,
+        sorted / n,
+        sorted / raw,
+        warm,
+        member_first,
+        bound,
+        modes as f64 / n
+    );
+}
+
+/// Header of [`run_buckling`]'s lines.
+fn buckling_header() {
+    println!("buckling analysis per factored case: critical_factor (lowest mode) against");
+    println!("buckling (sway/member modes, nested 2n mesh); ms per case, best of 3 passes;");
+    println!("first = first buckling call, including building the nested mesh");
+    println!(
+        "frame            members  cases   lowest (ms)   sorted (ms)   ratio   first (ms)  \
+         member  bound   modes"
+    );
 }
 
 /// Peak resident memory of this process, MB (Linux `VmHWM`; 0 elsewhere).
@@ -287,6 +407,21 @@ fn main() {
     if let Some(at) = args.iter().position(|a| a == "frame") {
         let (b, s) = (num(at + 1).expect("BAYS"), num(at + 2).expect("STORIES"));
         run_frame(b, s, num(at + 3));
+        return;
+    }
+    if let Some(at) = args.iter().position(|a| a == "buckling") {
+        buckling_header();
+        match (num(at + 1), num(at + 2)) {
+            (Some(b), Some(s)) => run_buckling(b, s, args.iter().any(|a| a == "lean")),
+            _ => {
+                for (b, s) in [(3, 8), (10, 25), (20, 50)] {
+                    run_buckling(b, s, false);
+                }
+                for (b, s) in [(3, 8), (10, 25)] {
+                    run_buckling(b, s, true);
+                }
+            }
+        }
         return;
     }
     if args.iter().any(|a| a == "dense") {

@@ -578,3 +578,105 @@ fn a_frame_with_nothing_in_compression_has_no_buckling() {
     let (so, loads) = setup(&f, c, 4);
     assert!(so.buckling(&f.model, &loads).unwrap().is_none());
 }
+
+#[test]
+fn past_the_most_modes_the_sway_factor_is_a_counted_lower_bound() {
+    // Thirteen pin-ended posts (I = 400 cm⁴, 4 m) with loads from 90 to 102 kN, tied to a
+    // stiff portal: each post's first five bows (n² times its Euler load, Timoshenko & Gere
+    // §2.1, from memory: 4.8 to 143 for the lightest) lie below the frame's sway mode, far
+    // more than MAX_MODES. The search stops there; the Sturm count proves every mode below
+    // the last one found is a member mode, so that factor is a lower bound of the sway
+    // factor, itself below the frame's sway (estimated here by the story formula
+    // π²·Σ(EI/h²)/ΣP for fixed-base columns under a rigid beam, K = 1, common practice, no
+    // source).
+    let (ic, p_col, h) = (1e-3, 200e3, 4.0);
+    let mut f = Frame::new();
+    let n0 = f.node(0.0, 0.0);
+    let n1 = f.node(0.0, h);
+    let n2 = f.node(8.0, h);
+    let n3 = f.node(8.0, 0.0);
+    f.member(n0, n1, E, RIGID_A, ic);
+    f.member(n1, n2, E, RIGID_A, 1e4 * ic);
+    f.member(n3, n2, E, RIGID_A, ic);
+    f.fixed(n0);
+    f.fixed(n3);
+    let c = f.case("D", ActionCategory::Dead);
+    f.nodal(c, n1, 0.0, -p_col, 0.0);
+    f.nodal(c, n2, 0.0, -p_col, 0.0);
+    let mut total = 2.0 * p_col;
+    let mut lightest = f64::INFINITY;
+    let mut previous = n2;
+    for k in 0..13 {
+        let x = 8.0 + 2.0 * (k + 1) as f64;
+        let base = f.node(x, 0.0);
+        let top = f.node(x, h);
+        f.member(base, top, E, RIGID_A, 400e-8);
+        let link = f.member(previous, top, E, RIGID_A, 1e-4);
+        f.release(link, true, true);
+        f.pinned(base);
+        let p = (90.0 + k as f64) * 1e3;
+        f.nodal(c, top, 0.0, -p, 0.0);
+        total += p;
+        lightest = lightest.min(p);
+        previous = top;
+    }
+    let b = buckling(&f, c, 4);
+    eprintln!(
+        "{:?}: {} modes, last {:?}, sway {:?}",
+        b.search,
+        b.modes.len(),
+        b.modes.last().map(|m| m.alpha_cr),
+        b.sway.as_ref().map(|s| s.alpha_cr)
+    );
+    assert_eq!(b.search, SwaySearch::LowerBound);
+    assert!(b.modes.len() >= plumbline::solve::modes::MAX_MODES);
+    assert!(b.modes.iter().all(|m| m.kind != ModeKind::Sway));
+    let bound = sway(&b);
+    assert_eq!(bound, b.modes.last().unwrap().alpha_cr);
+    let story = PI * PI * 2.0 * E * ic / (h * h) / total;
+    let euler = PI * PI * E * 400e-8 / (h * h) / lightest;
+    assert!(bound < story, "{bound} vs {story}");
+    assert!(bound > 4.0 * euler, "{bound} vs {euler}");
+}
+
+#[test]
+fn random_frames_give_complete_consistent_buckling() {
+    // Properties, no engineering number (common practice, no source): on seeded random
+    // frames (`tests/common/random_frame.rs`, beam releases included) the search is
+    // complete; the lowest mode is `critical_factor`'s; a lowest sway mode is reported at
+    // most at its mesh factor (the safe side only lowers it); a member mode is reported
+    // below the sway mode.
+    use common::random_frame::RandomFrame;
+    for seed in 0..24 {
+        let rf = RandomFrame::new(seed);
+        let st = member_stiffness(&rf.model);
+        let so = SecondOrderModel::new(&rf.model, &st, rf.model.analysis.segments).unwrap();
+        for fc in &rf.cases {
+            let mut loads = MeshLoads::zero(&so.mesh);
+            for &(k, f) in &fc.factors {
+                loads.add_case(&rf.model, &so.mesh, k, f);
+            }
+            let raw = so.critical_factor(&rf.model, &loads).unwrap();
+            let Some(b) = so.buckling(&rf.model, &loads).unwrap() else {
+                assert!(raw.is_none(), "seed {seed}");
+                continue;
+            };
+            assert_eq!(b.search, SwaySearch::Complete, "seed {seed} {}", fc.id);
+            let (Some(raw), Some(first)) = (raw, b.modes.first()) else {
+                continue;
+            };
+            let tol = 1e-6 * raw.alpha_cr;
+            assert!(
+                (first.alpha_mesh - raw.alpha_cr).abs() <= tol,
+                "seed {seed}"
+            );
+            if first.kind == ModeKind::Sway {
+                assert!(sway(&b) <= raw.alpha_cr + tol, "seed {seed}");
+                assert!(b.member.is_none());
+            }
+            if let (Some(m), Some(s)) = (&b.member, &b.sway) {
+                assert!(m.alpha_cr <= s.alpha_cr, "seed {seed}");
+            }
+        }
+    }
+}

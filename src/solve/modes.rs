@@ -14,57 +14,67 @@
 //!
 //! * chord rotation `ρ_m = |v_j − v_i| / L_m` (the relative transverse translation of its
 //!   two end nodes: the member's share of a sway);
-//! * bow `β_m = max_k |v_k − v_chord(x_k)| / L_m` over its interior nodes k (the deviation
-//!   from the straight line through its end nodes: the member's own curvature).
+//! * bow `β_m = max |v(x) − v_chord(x)| / L_m` over its interior nodes and the quarter
+//!   points of each of its elements, v(x) being the element's cubic (the deviation from the
+//!   straight line through its end nodes: the member's own curvature; the quarter points
+//!   catch the bows that a coarse mesh carries by node rotations alone).
 //!
 //! A mode is a **sway mode** when `max_m ρ_m ≥ SWAY_RATIO · max_m β_m` with
 //! [`SWAY_RATIO`] = 1: the levels translate more than any member bows. Otherwise it is a
 //! **member mode**, attributed to the member with the largest β. A mode in which the joints
 //! only rotate (a braced frame's non-sway mode) has ρ = 0 and is a member mode.
 //!
-//! Why 1 (measured on the modes of `tests/buckling_modes.rs`, ρ/β = max ρ / max β): a
-//! column swaying in double curvature bows by at most about 0.1 of its drift (fixed-base
-//! portal with a stiff beam, v = Δ(1 − cos πx/h)/2: β/ρ = 0.105; measured ρ/β ≈ 9.4), a
-//! column swaying in single curvature by about 0.2 (pinned-base portal, or a cantilever,
-//! v = Δ sin(πx/2h): β/ρ = 0.21; measured ρ/β ≈ 4.6), while in a member mode the chord
-//! barely turns (a leaning post's bow, a brace's bow or a braced column between floors:
-//! measured ρ/β below 0.05). The threshold sits between the two families with a margin of
-//! about 4 on the sway side and 20 on the member side.
+//! Why 1. A column swaying in double curvature bows by about 0.1 of its chord rotation
+//! (v = Δ(1 − cos πx/h)/2: β/ρ = 0.105), one swaying in single curvature by about 0.2
+//! (v = Δ·sin(πx/2h): β/ρ = 0.21), while in a member mode the chord barely turns. Measured
+//! on the modes of `tests/buckling_modes.rs` with 4 elements per member, ρ/β is: sway
+//! modes 9.8 (fixed-base portal with a leaning post), 7.0 (pinned-base portal), 4.8
+//! (cantilever column), 5.5 (three bays with a brace and a leaning column), 3.9 (braced
+//! frame swaying by stretching its brace), 18 (braced frame with rigid joints); member
+//! modes 0 to 10⁻³ (a leaning post's and a pin-ended brace's bows), 0.07 to 0.22 (a braced
+//! frame's columns buckling between floors, joints rotating), and up to 0.78 for a higher
+//! column mode of a braced frame that carries some sway. The threshold sits between the
+//! two families with a margin of about 4 on the sway side and 1.3 on the member side; with
+//! 2 elements per member a braced frame's sway mode, mixed with its brace's higher bows,
+//! measured 1.4.
 //!
 //! # Finding the lowest sway mode above member modes
 //!
-//! The common case costs what it cost before: when the lowest mode is a sway mode it is the
-//! answer. Otherwise the modes are found upwards, in ascending order, until the first sway
-//! mode, the ceiling [`ALPHA_CR_CEILING`] or [`MAX_MODES`] modes:
+//! The common case costs little more than before: when the lowest mode
+//! ([`SecondOrderModel::critical_factor`]'s) is a sway mode it is the answer, and only its
+//! factor on the nested mesh is added (below). Otherwise the modes are found upwards, in
+//! ascending order, until the first sway mode, the ceiling [`ALPHA_CR_CEILING`] or
+//! [`MAX_MODES`] modes:
 //!
+//! * **Exact linear pencil**: a released element end that carries axial force keeps its
+//!   own rotation as an unknown (`second_order::Pencil`), so the pencil is linear in λ and
+//!   has the eigenvalues of the analysis (whose releases are condensed from `k + λ·k_G` at
+//!   each λ); every other element's releases stay condensed.
 //! * **Block eigensolver**: the locally optimal block preconditioned conjugate gradient
 //!   method (LOBPCG; A. V. Knyazev, SIAM J. Sci. Comput. 23(2), 2001, from memory) on the
 //!   pencil `G·φ = μ·K·φ`, μ = 1/λ, whose largest μ are the smallest positive λ. Each step
 //!   takes the Rayleigh–Ritz solution on the span of the current vectors X, their
 //!   preconditioned residuals W = K⁻¹(G·X − μ·K·X) and the previous directions P. The
-//!   preconditioner is the elastic stiffness already factored, so no new factorization is
-//!   needed. The projected pencil is solved densely (nalgebra): `XᵀKX` is positive definite
-//!   on independent vectors, so the basis is first made K-orthonormal through the
-//!   eigenvectors of that Gram matrix (dropping dependent directions), and then `XᵀGX` is a
-//!   symmetric eigenproblem. Converged vectors are locked: later vectors are kept
-//!   K-orthogonal to them (buckling modes are K- and G-orthogonal to each other), so the
-//!   block moves on to the next modes. The start block holds the lowest mode, the static
+//!   preconditioner is the elastic stiffness already factored (the exact K⁻¹), so no new
+//!   factorization is needed. The projected pencil is solved densely (nalgebra): `XᵀKX` is
+//!   positive definite on independent vectors, so the basis is first made K-orthonormal
+//!   through the eigenvectors of that Gram matrix (dropping dependent directions), and then
+//!   `XᵀGX` is a symmetric eigenproblem. Converged vectors are locked: later vectors are
+//!   kept K-orthogonal to them (buckling modes are K- and G-orthogonal to each other), so
+//!   the block moves on to the next modes; the last third of a full block is not locked
+//!   (its ranks are not yet trusted). The start block holds the lowest mode, the static
 //!   sway shapes K⁻¹·H (H: unit lateral forces at every model node, uniform and growing
 //!   with height) and smooth pseudo-random vectors.
 //! * **Sturm count**: the inertia of `K − σ·G` (negative pivots of every member's interior
-//!   block `K_ii`, of the condensed frame matrix and of released end rotations, added by
-//!   Haynsworth's inertia additivity) is the number of eigenvalues below σ. At σ just above
-//!   the reported sway factor it must equal the number of modes found below it; if it is
-//!   larger, modes were missed and the search goes on from the modes found. A frame whose
-//!   modes are all counted and all member modes up to the ceiling has no sway mode
-//!   ([`SwaySearch::Complete`], `sway` = `None`); when [`MAX_MODES`] member modes are found
-//!   first, the count proves the sway mode is above the last of them
-//!   ([`SwaySearch::LowerBound`]).
-//!
-//! Released element ends carrying axial force make the pencil non-linear in λ (the release
-//! is condensed from `k + λ·k_G`); there the pencil is linearised through two points close
-//! to the mode sought and the reported modes are solved again at their own factor until it
-//! settles, before the (exact) count.
+//!   block `K_ii`, of the condensed frame matrix and of the released end rotations, added
+//!   by Haynsworth's inertia additivity) is the number of eigenvalues below σ. At σ just
+//!   above the reported sway factor it must equal the number of modes found below it; if
+//!   it is larger, modes were missed (a block holds only so many copies of a multiple
+//!   eigenvalue, as identical leaning posts give) and the search goes on from fresh
+//!   vectors, K-orthogonal to the modes found. A frame whose modes up to the ceiling are
+//!   all counted and all member modes has no sway mode ([`SwaySearch::Complete`], `sway` =
+//!   `None`); when [`MAX_MODES`] member modes are found first, the count proves the sway
+//!   mode is above the last of them ([`SwaySearch::LowerBound`]).
 //!
 //! # Safe side of the mesh error
 //!
@@ -74,8 +84,9 @@
 //! error falls like h⁴ for these elements (measured: 0.75 %, 0.047 %, 0.003 % for a
 //! pin-ended column with 2, 4, 8 elements). Each mode is therefore solved again on the
 //! nested mesh with 2n elements per member (built once per model; the start vectors are the
-//! n-mesh modes, interpolated exactly, and the axial forces come from the n-mesh first-order
-//! solution by statics), and the reported factor is [`safe_side`]: `α(2n) − (α(n) − α(2n))/3`,
+//! n-mesh modes, interpolated exactly and corrected at the new middle nodes, and the axial
+//! forces come from the n-mesh first-order solution by statics; one solve usually confirms
+//! a mode), and the reported factor is [`safe_side`]: `α(2n) − (α(n) − α(2n))/3`,
 //! the Richardson extrapolation for an error falling like h², which lies below α(∞) by about
 //! a quarter of `α(n) − α(2n)` when the error falls like h⁴. Where the axial force varies
 //! along a member (its own weight, an inclined member under gravity), each element takes
@@ -89,7 +100,7 @@
 //! post's third bow with its third bow), since the finer mesh may lower a member's higher
 //! bows past the sway mode.
 
-use nalgebra::{DMatrix, SymmetricEigen};
+use nalgebra::{DMatrix, DVector, SymmetricEigen};
 use serde::Serialize;
 
 use super::beam::{Side, internal_forces_at};
@@ -109,17 +120,27 @@ pub const SWAY_RATIO: f64 = 1.0;
 pub const MAX_MODES: usize = 48;
 
 /// From this many elements per member on, the mesh factors are reported without the nested
-/// mesh: the mesh error is then below 10⁻⁵ (h⁴ convergence, measured from 0.75 % at two
-/// elements).
+/// mesh: the mesh error is then below 10⁻⁵ where axial forces are constant along members
+/// (h⁴ convergence, measured from 0.75 % at two elements), and where they vary it is from
+/// below (0.16 % for a column under its own weight), on the safe side.
 pub const REFINE_BELOW: usize = 16;
 
 /// Vectors iterated together by the block eigensolver.
 const BLOCK: usize = 6;
 
+/// Convergence of a mode on the nested mesh, which is only paired and extrapolated,
+/// relative to its own μ: the bound of [`lowest_modes`] is this times the ratio of the
+/// lowest to the highest factor sought (from the model's mesh), so that the highest gets
+/// it. The error of its factor is of the order of its square (measured: within 7.4·10⁻⁹
+/// of a search to 10⁻⁹ on every mode of `tests/buckling_modes.rs`).
+const NESTED_TOLERANCE: f64 = 1e-4;
+
 /// Convergence of a mode: the preconditioned residual `‖K⁻¹(G·x − μ·K·x)‖_K` for a
-/// K-normalised x, relative to the largest μ met (the lowest mode's). With the exact K⁻¹
-/// it bounds the error of μ.
-const RESIDUAL_TOLERANCE: f64 = 1e-9;
+/// K-normalised x, relative to the largest μ met (the lowest mode's: every mode gets the
+/// same bound, since the locked modes' residuals bound what the later ones reach). With the
+/// exact K⁻¹ it bounds the error of μ; for a mode r times higher than the lowest, r times
+/// this relative to its own μ. The error of μ is in fact of the order of the square.
+const RESIDUAL_TOLERANCE: f64 = 1e-8;
 
 /// Most block iterations of one search.
 const MAX_ITERATIONS: usize = 600;
@@ -204,10 +225,10 @@ pub enum SwaySearch {
     /// Every mode below the sway mode (or below the ceiling, when there is no sway mode)
     /// was found: the Sturm count agrees.
     Complete,
-    /// [`MAX_MODES`] member modes lie below the sway mode. The count proves that none of
-    /// the modes below the last of them was missed, so the lowest sway factor is at least
-    /// that mode's: `sway.alpha_cr` is that lower bound and `sway.shape` the static sway
-    /// shape.
+    /// At least [`MAX_MODES`] member modes lie below the sway mode. The count proves that
+    /// none of the modes below the last of them was missed, so the lowest sway factor is at
+    /// least that mode's: `sway.alpha_cr` is that lower bound (on the safe side of the mesh
+    /// error) and `sway.shape` the static sway shape.
     LowerBound,
     /// The count did not confirm the search (modes remained missing after the retries):
     /// `sway.alpha_cr` is the lowest mode's factor, on the safe side.
@@ -487,11 +508,11 @@ impl Block {
         b
     }
 
-    /// Remove the K-components along the locked modes (K-normalised) from every vector, twice
-    /// (one pass loses orthogonality to round-off); the products follow by linearity. A
-    /// vector that lies in the span of the locked modes to round-off (its K-norm falls
-    /// below 10⁻⁸ of what it was) is dropped: scaled up, its round-off would bring the
-    /// locked modes back.
+    /// Remove the K-components along the locked modes (K-normalised) from every vector,
+    /// twice (classical Gram–Schmidt twice, from memory: one pass leaves round-off along the
+    /// locked modes); the products follow by linearity. A vector that lies in the span of
+    /// the locked modes to round-off (its K-norm falls below 10⁻⁸ of what it was) is
+    /// dropped: scaled up, its round-off would bring the locked modes back.
     fn deflate(&mut self, locked: &[Pair]) {
         if locked.is_empty() {
             return;
@@ -529,9 +550,16 @@ fn rayleigh_ritz(b: &Block) -> Option<(Vec<f64>, DMatrix<f64>)> {
         return None;
     }
     let gram = |p: &[Vec<f64>]| {
-        let a = DMatrix::from_fn(m, m, |i, j| dot(&b.v[i], &p[j]));
-        let t = a.transpose();
-        (a + t) * 0.5
+        let mut a = DMatrix::zeros(m, m);
+        for i in 0..m {
+            for j in i..m {
+                // K and G are symmetric: one product per pair.
+                let v = dot(&b.v[i], &p[j]);
+                a[(i, j)] = v;
+                a[(j, i)] = v;
+            }
+        }
+        a
     };
     let (mk, mg) = (gram(&b.kv), gram(&b.gv));
     // Scale every vector to unit K-norm, then a K-orthonormal basis from the eigenvectors
@@ -573,18 +601,22 @@ fn rayleigh_ritz(b: &Block) -> Option<(Vec<f64>, DMatrix<f64>)> {
 
 /// The lowest positive eigenvalues of `K·x = λ·G·x` (the largest μ = 1/λ of
 /// `G·x = μ·K·x`) by LOBPCG with locking, from the vectors `start` and the modes already
-/// `locked`, `block` vectors at a time. `fill(k)` gives the k-th extra start vector when
-/// the block runs short. After each lock, `done(locked)` decides whether to stop; the
-/// search also stops when no positive eigenvalue is left above the ceiling's μ (as far as
-/// the block sees: the caller's Sturm count decides), at `max_modes` locked modes or at
-/// the iteration limit. The modes come back in the order they were locked (ascending but
-/// for modes found late).
+/// `locked`, `block` vectors at a time, to the residual `tolerance` (the preconditioned
+/// residual `‖K⁻¹(G·x − μ·K·x)‖_K` of a K-normalised x over the largest μ met, the lowest
+/// mode's; with the exact K⁻¹ it bounds the error of μ). `fill(k)` gives the k-th extra
+/// start vector when the block runs short. After each lock, `done(locked)` decides whether
+/// to stop; the search also stops when no positive eigenvalue is left above the ceiling's
+/// μ (as far as the block sees: the caller's Sturm count decides), at `max_modes` locked
+/// modes or at the iteration limit. The modes come back in the order they were locked
+/// (ascending but for modes found late).
+#[allow(clippy::too_many_arguments)]
 pub(super) fn lowest_modes(
     ops: &dyn Operators,
     start: Vec<Vec<f64>>,
     mut locked: Vec<Pair>,
     block: usize,
     max_modes: usize,
+    tolerance: f64,
     fill: &mut dyn FnMut(usize) -> Vec<f64>,
     done: &mut dyn FnMut(&[Pair]) -> bool,
 ) -> (Vec<Pair>, Stop) {
@@ -594,6 +626,7 @@ pub(super) fn lowest_modes(
     for v in start {
         basis.push(ops, v);
     }
+    basis.deflate(&locked);
     let mut x = Block::default();
     let mut scale: f64 = 0.0;
     let mut refilled = false;
@@ -601,17 +634,18 @@ pub(super) fn lowest_modes(
         // Keep the block full: fresh vectors replace the locked ones (a Krylov space from a
         // few vectors holds only as many copies of a multiple eigenvalue).
         let have = if x.len() == 0 { basis.len() } else { x.len() };
-        let mut extra = 0;
-        while have + extra < block {
-            basis.push(ops, fill(fills));
+        let mut extra = Block::default();
+        while have + extra.len() < block {
+            extra.push(ops, fill(fills));
             fills += 1;
-            extra += 1;
         }
-        // Rayleigh–Ritz on [X, W, P, fills], kept K-orthogonal to the locked modes.
+        // Rayleigh–Ritz on [X, W, P, fills], all K-orthogonal to the locked modes (X and P
+        // are combinations of vectors that already are; W and fresh vectors are made so).
+        extra.deflate(&locked);
+        basis.extend(extra);
         let mut all = std::mem::take(&mut x);
         let xn = all.len();
         all.extend(std::mem::take(&mut basis));
-        all.deflate(&locked);
         let Some((values, z)) = rayleigh_ritz(&all) else {
             return (locked, Stop::Exhausted);
         };
@@ -630,6 +664,11 @@ pub(super) fn lowest_modes(
             Block::default()
         };
         let mu = &values[..take];
+        // The scale of the problem: the largest μ seen (the lowest mode's).
+        scale = mu
+            .iter()
+            .chain(locked.iter().map(|l| &l.mu))
+            .fold(scale, |a, &b| a.max(b));
         // Preconditioned residuals W; lock the leading converged vectors.
         let mut w = Block::default();
         let mut norms = Vec::with_capacity(take);
@@ -646,26 +685,28 @@ pub(super) fn lowest_modes(
             w.gv.push(ops.g(&wj));
             w.v.push(wj);
         }
-        // Residuals are measured against the scale of the problem, the largest μ seen (the
-        // lowest mode's): the locked modes' own round-off bounds what the later ones reach.
-        scale = mu
-            .iter()
-            .chain(locked.iter().map(|l| &l.mu))
-            .fold(scale, |a, &b| a.max(b));
+        // A mode has converged when its residual is within `tolerance` of the largest μ: one
+        // bound for every mode, since the locked modes' own residuals bound what the later
+        // ones can reach.
+        let allowed = |_: f64| tolerance * scale;
         // The last vectors of a full block are guards: their rank is not yet trusted (a
         // converged higher mode may stand where a lower one has not yet entered the span),
         // so they are not locked. Nor is anything locked in the step that brought in fresh
         // vectors for locked ones: they get one step to show a larger μ.
-        let guard = if take < block { 0 } else { (block / 3).max(1) };
+        let guard = if take < block || block <= 2 {
+            0
+        } else {
+            (block / 3).max(1)
+        };
         let lock = if refilled {
             0
         } else {
             (0..take - guard)
-                .take_while(|&j| mu[j] > mu_floor && norms[j] <= RESIDUAL_TOLERANCE * scale)
+                .take_while(|&j| mu[j] > mu_floor && norms[j] <= allowed(mu[j]))
                 .count()
         };
         refilled = false;
-        if lock == 0 && take > 0 && mu[0] <= mu_floor && norms[0] <= RESIDUAL_TOLERANCE * scale {
+        if lock == 0 && take > 0 && mu[0] <= mu_floor && norms[0] <= allowed(mu_floor) {
             return (locked, Stop::Exhausted);
         }
         if lock > 0 {
@@ -694,9 +735,7 @@ pub(super) fn lowest_modes(
         // vector of no buckling mode (μ at or below the floor: G·x = 0, or λ above the
         // ceiling) only takes a place in the block: it is dropped and a fresh vector takes
         // its place.
-        let converged: Vec<bool> = (lock..take)
-            .map(|j| norms[j] <= RESIDUAL_TOLERANCE * scale)
-            .collect();
+        let converged: Vec<bool> = (lock..take).map(|j| norms[j] <= allowed(mu[j])).collect();
         let idle: Vec<bool> = (lock..take)
             .zip(&converged)
             .map(|(j, &c)| c && mu[j] <= mu_floor)
@@ -717,6 +756,7 @@ pub(super) fn lowest_modes(
             let mut k = idle.iter();
             x.gv.retain(|_| !*k.next().unwrap_or(&false));
         }
+        kept.deflate(&locked);
         basis = kept;
         basis.extend(p);
     }
@@ -811,6 +851,10 @@ struct Plan<'a> {
     block: usize,
     /// Confirm by the Sturm count (on the model's mesh; the nested mesh follows its modes).
     certify: bool,
+    /// Residual tolerance of the modes (see [`lowest_modes`]).
+    tolerance: f64,
+    /// Whether each locked mode, in the order locked, is a sway mode (classified once).
+    sway_locked: std::cell::RefCell<Vec<bool>>,
 }
 
 impl Plan<'_> {
@@ -832,8 +876,17 @@ impl Plan<'_> {
         if locked.iter().any(|p| p.lambda > ALPHA_CR_CEILING) {
             return true;
         }
-        let modes = self.modes(locked);
-        modes.len() >= self.min_modes && (!self.need_sway || modes.iter().any(Mode::is_sway))
+        let so = self.ops.so;
+        let mut sway = self.sway_locked.borrow_mut();
+        sway.truncate(locked.len());
+        for p in &locked[sway.len()..] {
+            sway.push(Mode::new(&so.mesh, &self.ops.pencil, p.lambda, p.x.clone()).is_sway());
+        }
+        let counted = locked
+            .iter()
+            .filter(|p| p.lambda > 0.0 && p.lambda <= ALPHA_CR_CEILING)
+            .count();
+        counted >= self.min_modes && (!self.need_sway || sway.iter().any(|&s| s))
     }
 
     /// The Sturm count just above `lambda` (nudged off an eigenvalue if it sits on one).
@@ -855,6 +908,7 @@ impl Plan<'_> {
             Vec::new(),
             self.block,
             MAX_MODES + 1,
+            self.tolerance,
             &mut fill,
             &mut |l| self.enough(l),
         );
@@ -896,6 +950,7 @@ impl Plan<'_> {
                         locked,
                         self.block,
                         MAX_MODES + 1,
+                        self.tolerance,
                         &mut fill,
                         &mut |l| {
                             l.iter().filter(|p| p.lambda <= limit).count() >= c
@@ -1021,14 +1076,18 @@ pub(super) fn frame_buckling(
         need_sway: true,
         block: BLOCK,
         certify: true,
+        tolerance: RESIDUAL_TOLERANCE,
+        sway_locked: Default::default(),
     };
-    // The lowest mode's vector with its released rotations (one solve: K⁻¹·G·x is the same
-    // mode), and its factor, exact (confirmed by factorization).
+    // The lowest mode's vector, with its released rotations when there are any (one solve:
+    // K⁻¹·G·x is the same mode), and its factor, exact (confirmed by factorization).
     let mut flat0 = vec![0.0; plan.ops.pencil.dim()];
     for (k, v) in x0.iter().enumerate() {
         flat0[3 * k..3 * k + 3].copy_from_slice(v);
     }
-    let flat0 = plan.ops.precondition(&plan.ops.g(&flat0));
+    if flat0.len() > 3 * x0.len() {
+        flat0 = plan.ops.precondition(&plan.ops.g(&flat0));
+    }
     let lowest = Mode::new(&so.mesh, &plan.ops.pencil, alpha0, flat0);
     let coarse = if lowest.is_sway() {
         Found {
@@ -1060,21 +1119,74 @@ pub(super) fn frame_buckling(
             axial: &fine_axial,
             min_modes: coarse.modes.len(),
             need_sway: coarse.modes.iter().any(Mode::is_sway),
-            block: (coarse.modes.len() + 1).clamp(2, BLOCK),
+            block: coarse.modes.len().clamp(1, MAX_MODES + 1),
             certify: false,
+            tolerance: {
+                let low = coarse.modes.first().map_or(1.0, |m| m.alpha);
+                let high = coarse.modes.last().map_or(1.0, |m| m.alpha);
+                (NESTED_TOLERANCE * low / high).clamp(RESIDUAL_TOLERANCE, NESTED_TOLERANCE)
+            },
+            sway_locked: Default::default(),
         };
+        let middle = middle_nodes(&so.mesh, &fine.mesh);
         let start: Vec<Vec<f64>> = coarse
             .modes
             .iter()
-            .map(|m| interpolate(so, &plan.ops.pencil, fine, &fine_plan.ops.pencil, &m.flat))
+            .map(|m| {
+                let y = interpolate(so, &plan.ops.pencil, fine, &fine_plan.ops.pencil, &m.flat);
+                correct_middle(&fine_plan.ops, y, m.alpha, &middle)
+            })
             .collect();
-        Some((fine, fine_plan.run(start)))
+        let found = fine_plan.run(start);
+        Some((fine, found))
     };
     Ok(Some(assemble(
         so,
         &coarse,
         fine_found.as_ref().map(|(f, m)| (*f, m)),
     )))
+}
+
+/// The new middle nodes of the nested mesh `fine` (one per element of `coarse`).
+fn middle_nodes(coarse: &Mesh, fine: &Mesh) -> Vec<usize> {
+    coarse
+        .member_elements
+        .iter()
+        .zip(&fine.member_elements)
+        .flat_map(|(rc, rf)| (0..rc.len()).map(move |k| fine.elements[rf.start + 2 * k].j))
+        .collect()
+}
+
+/// Improve a mode vector `y` of the model's mesh interpolated on the nested mesh, for the
+/// factor `c`: each new middle node couples only to the nodes both meshes share, so with
+/// those held its displacements solve `(K − c·G)` on its own 3×3 block exactly (the
+/// displaced shape within each element for its ends). Two products, no solve; the result is
+/// close to the nested mesh's mode, whose factor the block eigensolver then confirms in one
+/// or two solves.
+fn correct_middle(ops: &MeshOperators, mut y: Vec<f64>, c: f64, middle: &[usize]) -> Vec<f64> {
+    let so = ops.so;
+    let mut wanted = vec![false; so.mesh.nodes.len()];
+    middle.iter().for_each(|&m| wanted[m] = true);
+    let blocks = ops.pencil.node_blocks(so, c, &wanted);
+    let free = ops.pencil.free(so);
+    let (ky, gy) = (ops.k(&y), ops.g(&y));
+    for &m in middle {
+        let dofs: Vec<usize> = (0..3).filter(|&k| free[m][k]).collect();
+        let n = dofs.len();
+        if n == 0 {
+            continue;
+        }
+        let a = DMatrix::from_fn(n, n, |r, q| blocks[m][(dofs[r], dofs[q])]);
+        let r = DVector::from_fn(n, |r, _| -(ky[3 * m + dofs[r]] - c * gy[3 * m + dofs[r]]));
+        if let Some(delta) = a.lu().solve(&r)
+            && delta.iter().all(|d| d.is_finite())
+        {
+            for (k, &d) in dofs.iter().enumerate() {
+                y[3 * m + d] += delta[k];
+            }
+        }
+    }
+    y
 }
 
 /// Unit X forces at every model node (the static sway shape's load).
@@ -1268,9 +1380,16 @@ mod tests {
         };
         let start = vec![(0..n).map(|i| 1.0 + (i % 3) as f64).collect::<Vec<f64>>()];
         let mut fill = |s: usize| pseudo_random(n, s);
-        let (locked, stop) = lowest_modes(&ops, start, Vec::new(), 4, 100, &mut fill, &mut |l| {
-            l.len() >= 10
-        });
+        let (locked, stop) = lowest_modes(
+            &ops,
+            start,
+            Vec::new(),
+            4,
+            100,
+            RESIDUAL_TOLERANCE,
+            &mut fill,
+            &mut |l| l.len() >= 10,
+        );
         assert_eq!(stop, Stop::Done);
         let mut got: Vec<f64> = locked.iter().map(|p| p.lambda).collect();
         got.sort_by(f64::total_cmp);
@@ -1308,9 +1427,16 @@ mod tests {
             k_inv: k.try_inverse().expect("positive definite"),
         };
         let start = vec![(0..n).map(|i| 1.0 + (i % 3) as f64).collect::<Vec<f64>>()];
-        let (locked, _) = lowest_modes(&ops, start, Vec::new(), 4, 100, &mut fill, &mut |l| {
-            l.len() >= 8
-        });
+        let (locked, _) = lowest_modes(
+            &ops,
+            start,
+            Vec::new(),
+            4,
+            100,
+            RESIDUAL_TOLERANCE,
+            &mut fill,
+            &mut |l| l.len() >= 8,
+        );
         let mut got: Vec<f64> = locked.iter().map(|p| p.lambda).collect();
         got.sort_by(f64::total_cmp);
         for (value, want) in got.iter().zip(&exact) {
@@ -1341,10 +1467,16 @@ mod tests {
         let k_inv = k.clone().try_inverse().expect("diagonal");
         let ops = Dense { k, g, k_inv };
         let mut fill = |s: usize| pseudo_random(n, s);
-        let (mut locked, stop) =
-            lowest_modes(&ops, Vec::new(), Vec::new(), 3, 100, &mut fill, &mut |l| {
-                l.iter().any(|p| p.lambda > 2.5)
-            });
+        let (mut locked, stop) = lowest_modes(
+            &ops,
+            Vec::new(),
+            Vec::new(),
+            3,
+            100,
+            RESIDUAL_TOLERANCE,
+            &mut fill,
+            &mut |l| l.iter().any(|p| p.lambda > 2.5),
+        );
         assert_eq!(stop, Stop::Done);
         let below = |l: &[Pair]| l.iter().filter(|p| p.lambda < 2.5).count();
         for retry in 0..3 {
@@ -1354,9 +1486,16 @@ mod tests {
             let starts = (0..3)
                 .map(|k| pseudo_random(n, 100 * (retry + 1) + k))
                 .collect();
-            let (more, _) = lowest_modes(&ops, starts, locked, 3, 100, &mut fill, &mut |l| {
-                below(l) >= 10
-            });
+            let (more, _) = lowest_modes(
+                &ops,
+                starts,
+                locked,
+                3,
+                100,
+                RESIDUAL_TOLERANCE,
+                &mut fill,
+                &mut |l| below(l) >= 10,
+            );
             locked = more;
         }
         let mut got: Vec<f64> = locked.iter().map(|p| p.lambda).collect();

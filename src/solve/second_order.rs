@@ -595,9 +595,18 @@ impl SecondOrderModel {
         };
         let estimate = self.estimate_alpha_cr(axial, &stable)?;
         let tol = ALPHA_CR_TOLERANCE;
+        // Without released elements in compression the estimate is a Rayleigh quotient of
+        // the exact pencil, so α_cr ≤ estimate (min–max, from memory) and the factorization
+        // above it would fail anyway: only the one below is needed.
+        let exact = !self
+            .mesh
+            .elements
+            .iter()
+            .zip(axial)
+            .any(|(e, &n)| e.release.iter().any(|&r| r) && n != 0.0);
         if let Some((alpha, _)) = &estimate {
             let (below, above) = (alpha * (1.0 - tol), alpha * (1.0 + tol));
-            if stable(below)?.is_some() && stable(above)?.is_none() {
+            if stable(below)?.is_some() && (exact || stable(above)?.is_none()) {
                 return Ok(estimate);
             }
         }
@@ -683,13 +692,13 @@ impl SecondOrderModel {
     /// The buckling pencil `K·φ = λ·G·φ` of the element axial forces `axial` (see
     /// [`Pencil`]): exact and linear in λ.
     pub(super) fn pencil(&self, axial: &[f64]) -> Pencil {
-        let mut g = Vec::with_capacity(self.mesh.elements.len());
+        let mut plain = axial.to_vec();
         let mut released = Vec::new();
         let mut slot = 3 * self.mesh.nodes.len();
         for (ie, (e, &n)) in self.mesh.elements.iter().zip(axial).enumerate() {
             let t = transformation(e.c, e.s);
             if e.release.iter().any(|&r| r) && n != 0.0 {
-                g.push(Matrix6::zeros());
+                plain[ie] = 0.0;
                 let extra = e.release.iter().filter(|&&r| r).count();
                 released.push(Released {
                     element: ie,
@@ -700,12 +709,10 @@ impl SecondOrderModel {
                     t,
                 });
                 slot += extra;
-            } else {
-                g.push(-(t.transpose() * geometric_stiffness(n, e.length) * t));
             }
         }
         Pencil {
-            g,
+            axial: plain,
             released,
             dim: slot,
         }
@@ -912,8 +919,9 @@ fn add_element_product(
 /// geometric stiffness: nothing is lost).
 #[derive(Debug, Clone)]
 pub(super) struct Pencil {
-    /// `G = −K_G` of every element in global axes (zero for the [`Released`] ones).
-    g: Vec<Matrix6<f64>>,
+    /// Axial force of every element whose `G = −K_G(N)` acts on the node DOFs (zero for the
+    /// [`Released`] ones), N, tension positive.
+    axial: Vec<f64>,
     /// The released elements with axial force.
     released: Vec<Released>,
     /// Length of the flat vectors.
@@ -975,6 +983,28 @@ impl Released {
     }
 }
 
+/// `y −= K_G(n)·x` on flat vectors over the two end nodes of element `e`: the consistent
+/// geometric stiffness of [`geometric_stiffness`] acts on the transverse translations
+/// `v = −s·ux + c·uy` and the rotations only, so it is applied in that form (the same
+/// product as the 6×6 matrix in global axes, without forming it).
+fn add_geometric_product(y: &mut [f64], e: &super::mesh::Element, n: f64, x: &[f64]) {
+    let (i, j, l, c, s) = (3 * e.i, 3 * e.j, e.length, e.c, e.s);
+    let (vi, ti) = (-s * x[i] + c * x[i + 1], x[i + 2]);
+    let (vj, tj) = (-s * x[j] + c * x[j + 1], x[j + 2]);
+    let f = n / l;
+    let (p, q, r, t) = (6.0 / 5.0, l / 10.0, 2.0 * l * l / 15.0, -l * l / 30.0);
+    let fvi = f * (p * vi + q * ti - p * vj + q * tj);
+    let mi = f * (q * vi + r * ti - q * vj + t * tj);
+    let fvj = -fvi;
+    let mj = f * (q * vi + t * ti - q * vj + r * tj);
+    y[i] += s * fvi;
+    y[i + 1] -= c * fvi;
+    y[i + 2] -= mi;
+    y[j] += s * fvj;
+    y[j + 1] -= c * fvj;
+    y[j + 2] -= mj;
+}
+
 /// `y += k·x` on flat vectors over the two end nodes of element `e` (`k` in global axes).
 fn add_flat_product(y: &mut [f64], e: &super::mesh::Element, k: &Matrix6<f64>, x: &[f64]) {
     let (i, j) = (3 * e.i, 3 * e.j);
@@ -1024,6 +1054,15 @@ impl Pencil {
             .collect()
     }
 
+    /// Which directions of every mesh node are unknowns.
+    pub(super) fn free(&self, so: &SecondOrderModel) -> Vec<[bool; 3]> {
+        so.layout
+            .mesh_dofs
+            .iter()
+            .map(|d| [0, 1, 2].map(|k| d[k].equation().is_some()))
+            .collect()
+    }
+
     /// Zero the held and idle node directions of a flat vector.
     pub(super) fn clear_held(&self, so: &SecondOrderModel, y: &mut [f64]) {
         for (n, d) in so.layout.mesh_dofs.iter().enumerate() {
@@ -1068,8 +1107,10 @@ impl Pencil {
     /// `G·x`.
     pub(super) fn g_times(&self, so: &SecondOrderModel, x: &[f64]) -> Vec<f64> {
         let mut y = vec![0.0; self.dim];
-        for (e, g) in so.mesh.elements.iter().zip(&self.g) {
-            add_flat_product(&mut y, e, g, x);
+        for (e, &n) in so.mesh.elements.iter().zip(&self.axial) {
+            if n != 0.0 {
+                add_geometric_product(&mut y, e, n, x);
+            }
         }
         for r in &self.released {
             let e = &so.mesh.elements[r.element];
@@ -1077,6 +1118,73 @@ impl Pencil {
         }
         self.clear_held(so, &mut y);
         y
+    }
+
+    /// The 3×3 block of `K − λ·G` at each mesh node of `wanted` (global axes; what the
+    /// node's own translations and rotation cost, the other unknowns held), springs
+    /// included; zero at the other nodes.
+    pub(super) fn node_blocks(
+        &self,
+        so: &SecondOrderModel,
+        lambda: f64,
+        wanted: &[bool],
+    ) -> Vec<Matrix3<f64>> {
+        let mut blocks = vec![Matrix3::zeros(); so.mesh.nodes.len()];
+        let mut special = vec![false; so.mesh.elements.len()];
+        for r in &self.released {
+            special[r.element] = true;
+            let e = &so.mesh.elements[r.element];
+            if !wanted[e.i] && !wanted[e.j] {
+                continue;
+            }
+            let mut m = r.k - r.g * lambda;
+            for (dof, _) in r.extras(e) {
+                for k in 0..6 {
+                    m[(dof, k)] = 0.0;
+                    m[(k, dof)] = 0.0;
+                }
+            }
+            let g = r.t.transpose() * m * r.t;
+            blocks[e.i] += g.fixed_view::<3, 3>(0, 0);
+            blocks[e.j] += g.fixed_view::<3, 3>(3, 3);
+        }
+        for (ie, e) in so.mesh.elements.iter().enumerate() {
+            if special[ie] {
+                continue;
+            }
+            let k = &so.element_k[ie];
+            // λ·K_G(N) at one end, from the local [v, θ] block (N/L)·[6/5, ±L/10; ±L/10,
+            // 2L²/15] of `geometric_stiffness` with v = −s·ux + c·uy.
+            let f = lambda * self.axial[ie] / e.length;
+            let (p, q, r) = (6.0 / 5.0, e.length / 10.0, 2.0 * e.length * e.length / 15.0);
+            let (c, s) = (e.c, e.s);
+            for (end, node, sign) in [(0, e.i, 1.0), (3, e.j, -1.0)] {
+                if !wanted[node] {
+                    continue;
+                }
+                let qs = sign * q;
+                let kg = Matrix3::new(
+                    s * s * p,
+                    -s * c * p,
+                    -s * qs,
+                    -s * c * p,
+                    c * c * p,
+                    c * qs,
+                    -s * qs,
+                    c * qs,
+                    r,
+                ) * f;
+                blocks[node] += k.fixed_view::<3, 3>(end, end) + kg;
+            }
+        }
+        for (n, d) in so.layout.mesh_dofs.iter().enumerate() {
+            for k in 0..3 {
+                if let Dof::Spring(_, ks) = d[k] {
+                    blocks[n][(k, k)] += ks;
+                }
+            }
+        }
+        blocks
     }
 
     /// `K⁻¹·r` exactly, by static condensation: each released rotation's load is moved onto
