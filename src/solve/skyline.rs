@@ -667,6 +667,19 @@ mod tests {
         );
     }
 
+    /// The second-difference matrix tridiag(−1, 2, −1) of order `n`, shifted by −λ on its
+    /// diagonal.
+    fn second_difference(n: usize, lambda: f64) -> SkylineMatrix {
+        let mut k = SkylineMatrix::new((0..n).map(|j| j.saturating_sub(1)).collect());
+        for i in 0..n {
+            k.add(i, i, 2.0 - lambda);
+            if i + 1 < n {
+                k.add(i, i + 1, -1.0);
+            }
+        }
+        k
+    }
+
     /// Loss of stability in the pattern of K − λ·K_G: the second-difference matrix
     /// tridiag(−1, 2, −1) of order n has eigenvalues 2 − 2·cos(kπ/(n+1)) (closed form:
     /// eigenvectors sin(i·kπ/(n+1)) satisfy the difference equation), so for n = 5 the
@@ -674,18 +687,7 @@ mod tests {
     /// λ = 0.28 must fail with a negative pivot.
     #[test]
     fn shift_past_smallest_eigenvalue_is_detected() {
-        let n: usize = 5;
-        let shifted = |lambda: f64| {
-            let mut k: SkylineMatrix =
-                SkylineMatrix::new((0..n).map(|j| j.saturating_sub(1)).collect());
-            for i in 0..n {
-                k.add(i, i, 2.0 - lambda);
-                if i + 1 < n {
-                    k.add(i, i + 1, -1.0);
-                }
-            }
-            k.factor()
-        };
+        let shifted = |lambda: f64| second_difference(5, lambda).factor();
         let lambda_min: f64 = 2.0 - 2.0 * (std::f64::consts::PI / 6.0).cos();
         assert!(lambda_min > 0.26 && lambda_min < 0.28);
         assert!(shifted(0.26).is_ok());
@@ -703,17 +705,7 @@ mod tests {
     #[test]
     fn negative_pivots_count_the_eigenvalues_below_the_shift() {
         let n: usize = 5;
-        let shifted = |lambda: f64| {
-            let mut k: SkylineMatrix =
-                SkylineMatrix::new((0..n).map(|j| j.saturating_sub(1)).collect());
-            for i in 0..n {
-                k.add(i, i, 2.0 - lambda);
-                if i + 1 < n {
-                    k.add(i, i + 1, -1.0);
-                }
-            }
-            k
-        };
+        let shifted = |lambda: f64| second_difference(n, lambda);
         for (lambda, below) in [(0.1, 0), (0.5, 1), (1.5, 2), (2.5, 3), (3.5, 4), (3.9, 5)] {
             let k = shifted(lambda);
             let (factor, negative) = k.factor_inertia().expect("not singular");
