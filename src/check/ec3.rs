@@ -170,12 +170,9 @@ pub fn judge_structure(
         (Some(s), None) => format!("lowest story value {s:.2}"),
         (None, _) => "lowest sway mode".to_string(),
     };
-    let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
-    let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
-    let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
     // The first sway mode governs the case's sway only if the growth the second-order
     // analysis measures in every story (significant Δ2nd/Δ1st) agrees with the amplifier.
-    let conditions = amplified_method_conditions(&first, mode, &h, &significant).and_then(|why| {
+    let conditions = super::story::sway_in_mode_shape(figures, mode).and_then(|why| {
         let amp = sway_amplifier(a);
         let off = figures.iter().find_map(|f| {
             let (amp, r) = (amp?, f.drift_amplification?);
@@ -254,6 +251,29 @@ mod tests {
         assert_relative_eq!(sway_imperfection(9.0, 2), 2.8868e-3, max_relative = 1e-4);
         // h = 4 m → αh = 1.0 (upper bound).
         assert_relative_eq!(sway_imperfection(4.0, 1), 1.0 / 200.0, max_relative = 1e-12);
+    }
+
+    #[test]
+    fn the_amplified_method_needs_the_sway_in_the_buckled_shape() {
+        // Our reading of §5.2.2(6)B (common practice, no source): drifts proportional to
+        // the mode's pass whatever the mode's sign (a mode has none); a story drifting
+        // against the mode, or a shape far from it, fails.
+        let h = [4.0, 3.5, 3.5];
+        let mode = [1.0, 0.8, 0.5];
+        let all = [true; 3];
+        assert!(amplified_method_conditions(&[2.0, 1.6, 1.0], Some(&mode), &h, &all).is_ok());
+        let flipped = mode.map(|m| -m);
+        assert!(amplified_method_conditions(&[2.0, 1.6, 1.0], Some(&flipped), &h, &all).is_ok());
+        let mixed = amplified_method_conditions(&[2.0, -0.3, 1.0], Some(&mode), &h, &all);
+        assert!(mixed.unwrap_err().contains("story 2"));
+        // Same sense but another shape: cosine of (1, 0.1, 0.1)/h against the mode < 0.95.
+        let other = amplified_method_conditions(&[4.0, 0.35, 0.35], Some(&mode), &h, &all);
+        assert!(other.unwrap_err().contains("cosine"));
+        // A negligible story is not held against the mode's sense (its drift counts as 0 in
+        // the shape, which here then fails the cosine instead).
+        let some = [true, false, true];
+        let why = amplified_method_conditions(&[2.0, -0.3, 1.0], Some(&mode), &h, &some);
+        assert!(why.unwrap_err().contains("cosine"));
     }
 
     #[test]

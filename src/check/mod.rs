@@ -437,8 +437,8 @@ impl Context<'_> {
                 alpha,
                 buckling.as_ref().map(|b| b.alpha_cr),
             );
-            // EN 1993-1-1 judges the structure by one α_cr, not story by story; both it and
-            // ACI's Q method amplify only a sway in the frame's sway shape.
+            // EN 1993-1-1 judges the structure by one α_cr, not story by story; it, ACI's Q
+            // method and AISC's B2 amplify only a sway in the frame's sway shape.
             let mut figures = figures;
             let mode: Option<Vec<f64>> = buckling.as_ref().map(|b| {
                 self.stories

@@ -698,9 +698,6 @@ pub fn aci_q_method_conditions(
     if !converged || figures.iter().all(|f| f.route != SwayRoute::Amplified) {
         return;
     }
-    let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
-    let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
-    let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
     let range = match alpha_cr {
         Some(a) if a > 1.0 && 1.0 / (1.0 - 1.0 / a) > aci::DELTA_S_Q_LIMIT => Err(format!(
             "the frame's lowest sway mode α_cr = {a:.2} gives 1/(1 − 1/α_cr) = {:.3} > {:.1}, \
@@ -710,9 +707,7 @@ pub fn aci_q_method_conditions(
         )),
         _ => Ok(()),
     };
-    let conditions = range.and_then(|()| {
-        ec3::amplified_method_conditions(&first, mode, &h, &significant).map(|_| ())
-    });
+    let conditions = range.and_then(|()| sway_in_mode_shape(figures, mode).map(|_| ()));
     if let Err(why) = conditions {
         to_second_order(figures, &why, "6.6.4.6.2(c)");
     }
@@ -727,12 +722,21 @@ pub fn aisc_b2_conditions(figures: &mut [StoryFigures], mode: Option<&[f64]>, co
     if !converged || figures.iter().all(|f| f.route != SwayRoute::Amplified) {
         return;
     }
+    if let Err(why) = sway_in_mode_shape(figures, mode) {
+        to_second_order(figures, &why, "AISC 360-16 C1");
+    }
+}
+
+/// [`ec3::amplified_method_conditions`] on the stories' first-order drifts of the case and
+/// the story drifts `mode` of the frame's lowest sway mode.
+pub fn sway_in_mode_shape(
+    figures: &[StoryFigures],
+    mode: Option<&[f64]>,
+) -> Result<String, String> {
     let first: Vec<f64> = figures.iter().map(|f| f.drift_first_order).collect();
     let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
     let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
-    if let Err(why) = ec3::amplified_method_conditions(&first, mode, &h, &significant) {
-        to_second_order(figures, &why, "AISC 360-16 C1");
-    }
+    ec3::amplified_method_conditions(&first, mode, &h, &significant)
 }
 
 /// Send every amplified story to the second-order route, saying why.
@@ -955,6 +959,21 @@ mod tests {
             overrule_story_formula(v, Some(3.2), 1.0, false).class,
             Classification::Unstable
         );
+    }
+
+    #[test]
+    fn significant_drifts_and_agreeing_amplifiers() {
+        // The project's own thresholds (common practice, no source): a drift under 10⁻⁶·h,
+        // or under 5 % of the case's largest drift ratio, forms no ratio.
+        assert!(!drift_is_significant(1e-7 * 4.0, 4.0, 1e-7));
+        assert!(drift_is_significant(1e-5 * 4.0, 4.0, 1e-4));
+        assert!(!drift_is_significant(1e-5 * 4.0, 4.0, 1e-3));
+        assert!(!drift_is_significant(f64::NAN, 4.0, 1e-3));
+        // Growths 0.25 and 0.24 agree; 0.5 and 0.1 do not; near 1 the slack of 0.02 rules.
+        assert!(amplifiers_agree(1.25, 1.24));
+        assert!(!amplifiers_agree(1.5, 1.1));
+        assert!(amplifiers_agree(1.0, 1.015));
+        assert!(!amplifiers_agree(1.0, 1.03));
     }
 
     #[test]
