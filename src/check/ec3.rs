@@ -143,10 +143,7 @@ pub fn judge_structure(
     let Some(a) = structure_alpha_cr(lowest_story, buckling) else {
         return;
     };
-    let largest = figures
-        .iter()
-        .map(|f| (f.drift_first_order / f.height).abs())
-        .fold(0.0, f64::max);
+    let largest = super::story::largest_drift_ratio(figures);
     if largest < DRIFT_NEGLIGIBLE_RATIO
         && direct_converged
         && figures

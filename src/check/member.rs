@@ -522,18 +522,22 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         _ => 1.0,
     };
     let design = diagram(amp_n, amp_s);
-    // A section: first-order parts, design value; the sway part governs where the design
-    // value less the (amplified) no-sway part is the larger.
+    // A section: first-order parts, design value; the sway part governs where the amplified
+    // sway part is the larger (on the second-order route: the design value less the
+    // no-sway part).
     let section = |x: f64, parts: (f64, f64), value: f64| {
-        let k_n = if second_order { 1.0 } else { amp_n };
-        let no_sway = k_n * parts.0;
+        let (no_sway, sway) = if second_order {
+            (parts.0, value - parts.0)
+        } else {
+            (amp_n * parts.0, amp_s * parts.1)
+        };
         MomentCheck {
             x,
             no_sway: parts.0,
             sway: parts.1,
             first_order: parts.0 + parts.1,
             design: value,
-            governs: if (value - no_sway).abs() > no_sway.abs() {
+            governs: if sway.abs() > no_sway.abs() {
                 Part::Sway
             } else {
                 Part::NoSway

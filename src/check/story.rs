@@ -76,6 +76,16 @@ pub fn drift_is_significant(drift: f64, h: f64, largest: f64) -> bool {
         && ratio >= DRIFT_NEGLIGIBLE_SHARE * largest
 }
 
+/// The case's largest first-order story drift ratio |Δ/h| (finite values only), the scale
+/// of [`drift_is_significant`].
+pub fn largest_drift_ratio(figures: &[StoryFigures]) -> f64 {
+    figures
+        .iter()
+        .map(|f| (f.drift_first_order / f.height).abs())
+        .filter(|r| r.is_finite())
+        .fold(0.0, f64::max)
+}
+
 /// The lateral load pattern a story's stiffness H/Δ came from.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, strum::Display)]
 #[serde(rename_all = "kebab-case")]
@@ -640,11 +650,7 @@ pub fn classify(
         f.drift_first_order = story_drift(st, no_sway) + story_drift(st, sway);
         f.drift_second_order = direct.map(|d| story_drift(st, d));
     }
-    let largest = figures
-        .iter()
-        .map(|f| (f.drift_first_order / f.height).abs())
-        .filter(|r| r.is_finite())
-        .fold(0.0, f64::max);
+    let largest = largest_drift_ratio(&figures);
     for f in figures.iter_mut() {
         let significant = drift_is_significant(f.drift_first_order, f.height, largest);
         f.drift_negligible = !significant;
