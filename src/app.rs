@@ -575,6 +575,7 @@ pub fn run_check(
     };
     let mut settings = settings(&model, model_path, &table, args, &cli_params);
     settings.extend(crate::report::summary::second_order_setting(&report));
+    settings.push(crate::report::handoff::handoff_setting(report.method));
     let envelope = crate::envelope::envelope(&report);
     let approximate = if args.approximate {
         let th = crate::approx::Thresholds::default();

@@ -13,6 +13,12 @@
 
 use serde::{Deserialize, Serialize};
 
+mod handoff;
+pub use handoff::{
+    AxialEnvelope, AxialRow, COMPONENTS, ComponentEnvelope, ReactionRow, ShearRow, SupportEnvelope,
+    axial_envelopes, reaction_envelopes, shear_envelopes,
+};
+
 use crate::check::{CaseCheck, CheckReport, MemberCheck, MomentCheck};
 use crate::model::Role;
 
@@ -192,6 +198,15 @@ pub struct Envelope {
     /// story's largest sway amplifier or smallest α_cr.
     pub never_govern: Vec<String>,
     pub residual: Option<ResidualPeak>,
+    /// Every member's largest design tension and compression (issue 17).
+    #[serde(default)]
+    pub axial: Vec<AxialEnvelope>,
+    /// The largest |design shear| at each member end.
+    #[serde(default)]
+    pub shear: Vec<ShearRow>,
+    /// Per support and restrained component, the largest and smallest design reaction.
+    #[serde(default)]
+    pub reactions: Vec<SupportEnvelope>,
 }
 
 /// Replace `slot` by `candidate` when it is empty or `better(candidate, current)`.
@@ -474,6 +489,28 @@ fn never_governing(
 pub fn envelope(report: &CheckReport) -> Envelope {
     let members = member_envelopes(report);
     let stories = story_envelopes(report);
+    let axial = axial_envelopes(report);
+    let shear = shear_envelopes(report);
+    let reactions = reaction_envelopes(report);
+    let used: Vec<&str> = axial
+        .iter()
+        .flat_map(|a| [&a.tension, &a.compression])
+        .flatten()
+        .map(|r| r.case.as_str())
+        .chain(shear.iter().map(|r| r.case.as_str()))
+        .chain(
+            reactions
+                .iter()
+                .flat_map(|s| &s.components)
+                .flat_map(|c| [&c.max, &c.min])
+                .flatten()
+                .map(|r| r.case.as_str()),
+        )
+        .collect();
+    let never_govern = never_governing(report, &members, &stories)
+        .into_iter()
+        .filter(|c| !used.contains(&c.as_str()))
+        .collect();
     Envelope {
         cases: report.cases.iter().map(|c| c.id.clone()).collect(),
         unstable: report
@@ -482,11 +519,14 @@ pub fn envelope(report: &CheckReport) -> Envelope {
             .filter(|c| !c.stable)
             .map(|c| c.id.clone())
             .collect(),
-        never_govern: never_governing(report, &members, &stories),
+        never_govern,
         residual: largest_residual(report),
         member_modes: member_modes(report),
         stories,
         members,
+        axial,
+        shear,
+        reactions,
     }
 }
 

@@ -67,6 +67,14 @@ pub struct MemberCheck {
     pub p_r: Option<f64>,
     /// Largest first-order end shear, N.
     pub shear: f64,
+    /// Design axial force and shear at end i and end j, N, following the method: AISC
+    /// 360-16 App. 8 `Pnt + B2·Plt` (and `Vnt + B2·Vlt`, from memory); EN 1993-1-1
+    /// 5.2.2(5)B no-sway + sway × 1/(1 − 1/α_cr); ACI 318-19 first-order (6.6.4.6.1
+    /// magnifies moments only); the case's second-order analysis on its route.
+    pub end_actions: [EndAction; 2],
+    /// The least and the greatest design axial force along the member, N, tension positive
+    /// (as `end_actions`).
+    pub design_axial: (f64, f64),
     /// Moments at end i and end j.
     pub ends: [MomentCheck; 2],
     /// The design moment within the span: the larger-magnitude extreme of the design
@@ -215,18 +223,53 @@ impl Diagram<'_> {
     /// one-sided values at every breakpoint and each piece's midpoint are examined, which
     /// is exact for loads of one sign per piece).
     pub fn least_axial(&self) -> f64 {
+        self.axial_range().0
+    }
+
+    /// The least and the greatest N(x) along the member, N (see [`Self::least_axial`]).
+    pub fn axial_range(&self) -> (f64, f64) {
         let (end, loads) = self.combined();
         let n = |x: f64, side: Side| internal_forces_at(x, side, &end, &loads).n;
         let bps = breakpoints(self.length, &loads);
-        let mut least = n(0.0, Side::Right).min(n(self.length, Side::Left));
+        let mut values = vec![n(0.0, Side::Right), n(self.length, Side::Left)];
         for w in bps.windows(2) {
-            least = least
-                .min(n(w[0], Side::Right))
-                .min(n(0.5 * (w[0] + w[1]), Side::Left))
-                .min(n(w[1], Side::Left));
+            values.extend([
+                n(w[0], Side::Right),
+                n(0.5 * (w[0] + w[1]), Side::Left),
+                n(w[1], Side::Left),
+            ]);
         }
-        least
+        values
+            .into_iter()
+            .fold((f64::INFINITY, f64::NEG_INFINITY), |(lo, hi), v| {
+                (lo.min(v), hi.max(v))
+            })
     }
+
+    /// Axial force and shear at end i and end j of the diagram (signs of
+    /// [`crate::solve::forces`]: N tension positive, V = dM/dx).
+    pub fn end_actions(&self) -> [EndAction; 2] {
+        let (end, _) = self.combined();
+        // N(0) = −Fx_i, V(0) = Fy_i; at j the member's equilibrium gives N(L) = Fx_j and
+        // V(L) = −Fy_j (statics of the free body 0..L).
+        [
+            EndAction {
+                axial: -end.i[0],
+                shear: end.i[1],
+            },
+            EndAction {
+                axial: end.j[0],
+                shear: -end.j[1],
+            },
+        ]
+    }
+}
+
+/// The design axial force and shear at one member end, N (N tension positive, V = dM/dx).
+#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
+pub struct EndAction {
+    pub axial: f64,
+    pub shear: f64,
 }
 
 /// Internal moments at the two ends of member `m` in `s`.
@@ -430,6 +473,21 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         (Some(d), true) => *d,
         _ => diagram(1.0, amp_s),
     };
+
+    // The design axial forces and shears (issue 17): AISC 360-16 A-8-2 Pr = Pnt + B2·Plt,
+    // and B2 on the lateral-translation part of the shear like the moments (from memory);
+    // EN 1993-1-1 5.2.2(5)B amplifies every sway effect by 1/(1 − 1/α_cr); ACI 318-19
+    // 6.6.4.6.1 magnifies moments only, so Pu and Vu stay first-order (from memory). The
+    // second-order route takes the analysis's own forces.
+    let forces = match (&direct_diagram, second_order) {
+        (Some(d), true) => *d,
+        _ => match method {
+            SecondOrderMethod::AiscB1B2 | SecondOrderMethod::Ec3AlphaCr => diagram(1.0, amp_s),
+            SecondOrderMethod::AciMagnifier | SecondOrderMethod::Direct => first_order,
+        },
+    };
+    let end_actions = forces.end_actions();
+    let design_axial = forces.axial_range();
 
     // AISC A-8-2: Pr = Pnt + B2·Plt, the largest compression along the member (on the
     // second-order route the analysis's own axial force).
@@ -654,6 +712,8 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
         compression,
         p_r,
         shear,
+        end_actions,
+        design_axial,
         ends,
         span,
         span_max,

@@ -24,7 +24,9 @@ pub mod story;
 use serde::Serialize;
 
 use crate::combos::{Basis, FactoredCase};
-use crate::model::{Model, NotionalLoads, SecondOrderMethod, SettingOrigins, StiffnessPreset};
+use crate::model::{
+    Model, NotionalLoads, Restraint, SecondOrderMethod, SettingOrigins, StiffnessPreset,
+};
 use crate::solve::beam::SpanExtremes;
 use crate::solve::first_order::combined_member_loads;
 use crate::solve::linear::MeshLoads;
@@ -121,6 +123,36 @@ pub struct CaseCheck {
     pub residual: f64,
     /// `residual` relative to the largest applied load component.
     pub residual_relative: f64,
+    /// Design support reactions `[Rx (N), Ry (N), Mz (N·m)]`, one per support in the order
+    /// of [`CheckReport::supports`]: those of the case's second-order analysis (P-Δ and
+    /// P-δ, the case's notional or imperfection forces included), None where it did not
+    /// converge. They balance that analysis's loads: ΣRx and ΣRy exactly, ΣMz in the
+    /// deformed geometry. A spring's reaction is its force, −k·u.
+    pub reactions: Option<Vec<[f64; 3]>>,
+    /// First-order reactions of the factored loads alone (no notional forces), in the same
+    /// order: the factors of the case times [`CheckReport::service_reactions`].
+    pub reactions_first_order: Vec<[f64; 3]>,
+}
+
+/// A support as the reaction tables list it.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct SupportInfo {
+    pub node: String,
+    /// Which of X, Y and rotation the support holds (rigidly or by a spring): the
+    /// components that have a reaction.
+    pub restrained: [bool; 3],
+    /// Which of them are springs (their reaction is the spring force).
+    pub spring: [bool; 3],
+}
+
+/// First-order support reactions of one service load case, per support.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct LoadCaseReactions {
+    /// Load case id (arrangement pieces included, `L@B1.1`).
+    pub case: String,
+    pub category: String,
+    /// `[Rx (N), Ry (N), Mz (N·m)]` per support, in the order of [`CheckReport::supports`].
+    pub reactions: Vec<[f64; 3]>,
 }
 
 /// One term of a case's notional or imperfection forces, shown on its own line so that a
@@ -165,6 +197,11 @@ pub struct CheckReport {
     pub origin: SettingOrigins,
     pub stories: Vec<StoryInfo>,
     pub cases: Vec<CaseCheck>,
+    /// The supports, in the order of every reaction list.
+    pub supports: Vec<SupportInfo>,
+    /// First-order reactions of every service load case (unfactored), for foundation
+    /// designers who form their own combinations.
+    pub service_reactions: Vec<LoadCaseReactions>,
     /// Plausibility warnings on the model's response (issue 7 item 9), plain sentences.
     pub warnings: Vec<String>,
     pub caution: String,
@@ -324,6 +361,17 @@ pub fn check_with_progress(
             })
             .collect(),
         cases: out,
+        supports: support_info(model),
+        service_reactions: model
+            .load_cases
+            .iter()
+            .zip(&parts)
+            .map(|(lc, p)| LoadCaseReactions {
+                case: lc.id.clone(),
+                category: lc.category.to_string(),
+                reactions: support_reactions(model, &p.total()),
+            })
+            .collect(),
         warnings: plausibility_warnings(model, &stories, &parts)
             .into_iter()
             .chain(non_finite)
@@ -517,6 +565,10 @@ impl Context<'_> {
                 members,
                 residual: total.residual.max_nodal,
                 residual_relative: total.residual.relative(),
+                reactions: direct_solution
+                    .as_ref()
+                    .map(|d| support_reactions(model, &d.0)),
+                reactions_first_order: support_reactions(model, &total),
             });
         }
         Ok(out)
@@ -596,6 +648,28 @@ impl Context<'_> {
             }
         })
     }
+}
+
+/// The supports of `model` as the reaction tables list them.
+pub fn support_info(model: &Model) -> Vec<SupportInfo> {
+    model
+        .supports
+        .iter()
+        .map(|s| SupportInfo {
+            node: model.nodes[s.node].id.clone(),
+            restrained: s.dofs.map(|r| r != Restraint::Free),
+            spring: s.dofs.map(|r| matches!(r, Restraint::Spring(_))),
+        })
+        .collect()
+}
+
+/// The reactions of `solution` at the supports of `model`, in their order.
+pub fn support_reactions(model: &Model, solution: &Solution) -> Vec<[f64; 3]> {
+    model
+        .supports
+        .iter()
+        .map(|s| solution.reactions[s.node])
+        .collect()
 }
 
 /// The largest first-order end moment |Mns + Ms| of any member, N·m.

@@ -104,7 +104,33 @@ pub fn detail_tables(model: &Model, report: &CheckReport) -> Vec<Table> {
         header,
         rows,
     };
-    vec![members, stories]
+    let mut header = vec!["case".to_string()];
+    header.extend(super::handoff::case_reaction_header(model));
+    let reactions = Table {
+        name: "case-reactions",
+        title: "Support reactions by case".into(),
+        header,
+        rows: report
+            .cases
+            .iter()
+            .flat_map(|c| {
+                super::handoff::case_reaction_rows(model, c, 3)
+                    .into_iter()
+                    .map(|r| std::iter::once(c.id.clone()).chain(r).collect())
+            })
+            .collect(),
+    };
+    let end_actions = Table {
+        name: "case-end-actions",
+        title: "Design end actions by case".into(),
+        header: super::handoff::case_end_action_header(model),
+        rows: report
+            .cases
+            .iter()
+            .flat_map(|c| super::handoff::case_end_action_rows(model, c))
+            .collect(),
+    };
+    vec![members, stories, reactions, end_actions]
 }
 
 /// The text block of one case.
@@ -176,6 +202,14 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
     header.push("notes".into());
     out.push_str(&indent(&table_of(&header, rows)));
     out.push('\n');
+    if !model.supports.is_empty() {
+        out.push_str("  support reactions: design (second-order analysis) and first-order\n");
+        out.push_str(&indent(&table_of(
+            &super::handoff::case_reaction_header(model),
+            super::handoff::case_reaction_rows(model, c, 1),
+        )));
+        out.push('\n');
+    }
     out
 }
 

@@ -20,6 +20,46 @@ use crate::envelope::{Location, Sign};
 use crate::model::{LocalLoad, Model};
 use crate::solve::first_order::combined_member_loads;
 
+/// The hand-off section (issue 17): the reactions and axial-force drawing, then the axial,
+/// shear and reaction tables.
+fn handoff_section(out: &mut String, s: &Summary) {
+    use super::handoff::{axial_table, reaction_table, service_reaction_table, shear_table};
+    out.push_str("<h2 class=\"pagebreak\" id=\"handoff\">Axial forces, shears and reactions</h2>");
+    let axial = axial_table(s, false);
+    let shown: Vec<&crate::envelope::AxialEnvelope> = s
+        .envelope
+        .axial
+        .iter()
+        .filter(|a| axial.rows.iter().any(|r| r[0] == a.member))
+        .collect();
+    out.push_str("<figure>");
+    out.push_str(&super::svg_forces::drawing(
+        s.model,
+        &s.envelope,
+        &shown,
+        WIDTH,
+    ));
+    out.push_str(&format!(
+        "<figcaption>Factored support reactions under each support, largest / smallest over \
+         the stable cases (forces in {}, moments in {}; the force on the frame, X right, Y up, \
+         Mz counter-clockwise), and the largest design tension T and compression C of the \
+         braces and of the beams with a significant axial force.</figcaption></figure>",
+        esc(&s.model.units.label(crate::units::Dimension::Force)),
+        esc(&s.model.units.label(crate::units::Dimension::Moment)),
+    ));
+    for t in [
+        axial,
+        shear_table(s, false),
+        reaction_table(s, false),
+        service_reaction_table(s, false),
+    ] {
+        if !t.rows.is_empty() {
+            out.push_str(&format!("<h3>{}</h3>", esc(&t.title)));
+            out.push_str(&html_table(&t));
+        }
+    }
+}
+
 /// Drawing width, px (fits an A4/Letter page in portrait at print scale).
 const WIDTH: f64 = 1000.0;
 
@@ -349,6 +389,7 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         out.push_str("<h2>Columns</h2>");
         out.push_str(&html_table(&columns));
     }
+    handoff_section(&mut out, s);
     out.push_str("<ul>");
     for l in closing_lines(s) {
         out.push_str(&format!("<li>{}</li>", esc(&l)));

@@ -6,11 +6,13 @@
 pub mod approx;
 pub mod check;
 pub mod diagram;
+pub mod handoff;
 pub mod html;
 pub mod solve;
 pub mod starter;
 pub mod summary;
 pub mod svg;
+pub mod svg_forces;
 
 use tabled::builder::Builder;
 use tabled::settings::Style;

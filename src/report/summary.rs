@@ -17,7 +17,7 @@ use crate::model::Model;
 use crate::units::Dimension;
 
 /// Version of the JSON document of `check`; raised when a key changes meaning.
-pub const SCHEMA_VERSION: u32 = 3;
+pub const SCHEMA_VERSION: u32 = 4;
 
 /// The sign convention every moment table states.
 pub const SIGN_NOTE: &str = "Moments are internal bending moments, positive with the member's \
@@ -600,6 +600,10 @@ fn page_tables(s: &Summary) -> Vec<Table> {
         story_table(s),
         member_table(s, false),
         column_table(s, false),
+        super::handoff::axial_table(s, false),
+        super::handoff::shear_table(s, false),
+        super::handoff::reaction_table(s, false),
+        super::handoff::service_reaction_table(s, false),
         case_table(s),
     ]
     .into_iter()
@@ -731,6 +735,10 @@ pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
         story_table_tidy(s),
         member_table(s, true),
         column_table(s, true),
+        super::handoff::axial_table(s, true),
+        super::handoff::shear_table(s, true),
+        super::handoff::reaction_table(s, true),
+        super::handoff::service_reaction_table(s, true),
     ];
     tables.extend(super::check::detail_tables(s.model, s.report));
     tables

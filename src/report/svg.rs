@@ -90,7 +90,7 @@ pub fn esc(s: &str) -> String {
 }
 
 /// `<svg>` opening tag of a drawing of `view`'s size.
-fn open(view: &View, label: &str) -> String {
+pub(super) fn open(view: &View, label: &str) -> String {
     format!(
         r#"<svg xmlns="http://www.w3.org/2000/svg" class="drawing" viewBox="0 0 {w:.0} {h:.0}" width="{w:.0}" height="{h:.0}" role="img" aria-label="{label}" font-family="inherit">"#,
         w = view.width,
@@ -111,7 +111,7 @@ fn along(model: &Model, m: usize, x: f64, off: f64) -> (f64, f64) {
 
 /// The members as lines (`class="member"`, one per member, with `data-member`), with
 /// their ids, the hinges as open circles, and the nodes.
-fn members(model: &Model, v: &View, ids: bool) -> String {
+pub(super) fn members(model: &Model, v: &View, ids: bool) -> String {
     let mut out = String::new();
     for (k, mem) in model.members.iter().enumerate() {
         let (a, b) = (&model.nodes[mem.i], &model.nodes[mem.j]);
@@ -173,7 +173,7 @@ fn members(model: &Model, v: &View, ids: bool) -> String {
 
 /// The supports: a fixed base as a hatched bar, a pin as a triangle, a roller as a
 /// triangle on two wheels, springs as a zig-zag note.
-fn supports(model: &Model, v: &View) -> String {
+pub(super) fn supports(model: &Model, v: &View) -> String {
     let mut out = String::new();
     let c = style::SUPPORT;
     for s in &model.supports {
