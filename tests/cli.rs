@@ -126,6 +126,35 @@ fn check_json_has_the_documented_keys() {
         assert!(c["members"].as_array().unwrap().len() >= 15);
     }
     assert_eq!(v["report"]["stories"].as_array().unwrap().len(), 3);
+    // Issue 17: the hand-off envelopes and the reactions.
+    assert_eq!(v["schema_version"], 4);
+    for key in ["axial", "shear", "reactions"] {
+        assert!(!v["envelope"][key].as_array().unwrap().is_empty(), "{key}");
+    }
+    assert_eq!(v["report"]["supports"].as_array().unwrap().len(), 3);
+    assert!(!v["report"]["service_reactions"].as_array().unwrap().is_empty());
+    assert!(cases[0]["reactions"].is_array());
+}
+
+#[test]
+fn check_hands_on_brace_forces_shears_and_reactions_in_every_format() {
+    // The braced example: a pin-ended diagonal in bay 3 on each story.
+    let model = "examples/depot-braced.toml";
+    let text = ok(&["check", model]);
+    for heading in [
+        "Braces and beams",
+        "Design shears",
+        "Factored support reactions",
+        "Unfactored reactions",
+    ] {
+        assert!(text.contains(heading), "text: {heading}");
+    }
+    assert!(text.contains(" D3.1 ") && text.contains("brace"), "the brace is listed");
+    assert!(text.contains("axial forces, shears, reactions"), "the assumptions say where from");
+    let md = ok(&["check", model, "--format", "md"]);
+    assert!(md.contains("### Factored support reactions") && md.contains("| D3.1 |"));
+    let detail = ok(&["check", model, "--detail"]);
+    assert!(detail.contains("support reactions: design (second-order analysis)"));
 }
 
 #[test]
@@ -413,8 +442,16 @@ fn completions_invalid_values_and_the_output_note() {
         "stories.csv",
         "members.csv",
         "columns.csv",
+        "axial.csv",
+        "shear.csv",
+        "reactions.csv",
+        "service-reactions.csv",
+        "case-reactions.csv",
+        "case-end-actions.csv",
     ] {
         assert!(out.join(name).exists(), "{name}");
+        let text = std::fs::read_to_string(out.join(name)).unwrap();
+        assert!(text.contains("licensed engineer"), "{name} carries the caution");
         assert!(stderr(&o).contains(name), "{}", stderr(&o));
     }
     let _ = std::fs::remove_dir_all(&dir);
