@@ -25,6 +25,7 @@ pub mod approx;
 pub mod arrange;
 pub mod check;
 pub mod combos;
+pub mod compare;
 pub mod diag;
 pub mod envelope;
 #[doc(hidden)]

@@ -7,6 +7,7 @@ use std::process::ExitCode;
 use clap::{Args, CommandFactory, Parser, Subcommand};
 use plumbline::app::{self, AppError, CheckArgs, NewArgs, Rendered};
 use plumbline::model::SecondOrderMethod;
+use plumbline::report::compare::CompareFormat;
 use plumbline::report::{CheckFormat, OutputFormat};
 
 /// Factored load combinations, no-sway and sway analysis, and second-order amplification
@@ -38,6 +39,10 @@ enum Command {
     /// Write the check as one self-contained HTML file with drawings of the frame, its
     /// loads and its moment envelope, for reading or printing to PDF.
     Report(ReportCli),
+    /// Check the model under several variants (combination tables, second-order methods,
+    /// stiffness or notional settings, table parameters) and set the governing values side
+    /// by side, with their ratios to the reference.
+    Compare(CompareCli),
     /// Write a commented starter model of a regular frame from its bay widths and story
     /// heights.
     New(NewCli),
@@ -168,6 +173,25 @@ struct ReportCli {
 }
 
 #[derive(Debug, Args)]
+struct CompareCli {
+    /// The model file (TOML).
+    model: PathBuf,
+    /// A variant, `[LABEL:] key=value …` (repeatable): keys combos, second-order, stiffness
+    /// and notional take the values of the check options of those names; any other key is a
+    /// table parameter, e.g. `eu: combos=en1990-6.10 second-order=ec3-alpha-cr` or
+    /// `half-L: l_companion=0.5`. With one variant the model as written is the reference;
+    /// with two or more the first given is.
+    #[arg(long = "variant", value_name = "SPEC", required = true)]
+    variants: Vec<String>,
+    /// table: aligned tables in the model's units; json: SI base units; csv: one file per
+    /// table (-o DIR); md: a Markdown page; html: a page with the ratio chart.
+    #[arg(long, value_enum, default_value_t)]
+    format: CompareFormat,
+    #[command(flatten)]
+    out: Output,
+}
+
+#[derive(Debug, Args)]
 struct NewCli {
     /// The model file to create (refused if it exists).
     file: PathBuf,
@@ -237,6 +261,7 @@ impl Command {
             Command::Cases(a) => (&a.out.output, &a.model, a.combos.as_deref()),
             Command::Check(a) => (&a.out.output, &a.run.model, a.run.combos.as_deref()),
             Command::Report(a) => (&a.output, &a.run.model, a.run.combos.as_deref()),
+            Command::Compare(a) => (&a.out.output, &a.model, None),
             Command::Combos(_) | Command::New(_) | Command::Completions(_) => return None,
         };
         let inputs = std::iter::once(model.as_path())
@@ -285,6 +310,22 @@ fn run(cli: Cli) -> Result<Done, AppError> {
                 app::report(&model, &args, &mut progress_bar())?,
                 Some(output),
             )
+        }
+        Command::Compare(a) => {
+            let specs = a
+                .variants
+                .iter()
+                .enumerate()
+                .map(|(k, v)| app::parse_variant(v, k + 1))
+                .collect::<Result<Vec<_>, _>>()?;
+            let run = app::run_compare(&a.model, &specs, &mut progress_bar())?;
+            Done {
+                rendered: Rendered {
+                    files: plumbline::report::compare::render(&run.view(), a.format),
+                },
+                output: a.out.output,
+                unstable: false,
+            }
         }
         Command::New(a) => {
             let args = NewArgs {

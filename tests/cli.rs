@@ -132,7 +132,12 @@ fn check_json_has_the_documented_keys() {
         assert!(!v["envelope"][key].as_array().unwrap().is_empty(), "{key}");
     }
     assert_eq!(v["report"]["supports"].as_array().unwrap().len(), 3);
-    assert!(!v["report"]["service_reactions"].as_array().unwrap().is_empty());
+    assert!(
+        !v["report"]["service_reactions"]
+            .as_array()
+            .unwrap()
+            .is_empty()
+    );
     assert!(cases[0]["reactions"].is_array());
 }
 
@@ -149,8 +154,14 @@ fn check_hands_on_brace_forces_shears_and_reactions_in_every_format() {
     ] {
         assert!(text.contains(heading), "text: {heading}");
     }
-    assert!(text.contains(" D3.1 ") && text.contains("brace"), "the brace is listed");
-    assert!(text.contains("axial forces, shears, reactions"), "the assumptions say where from");
+    assert!(
+        text.contains(" D3.1 ") && text.contains("brace"),
+        "the brace is listed"
+    );
+    assert!(
+        text.contains("axial forces, shears, reactions"),
+        "the assumptions say where from"
+    );
     let md = ok(&["check", model, "--format", "md"]);
     assert!(md.contains("### Factored support reactions") && md.contains("| D3.1 |"));
     let detail = ok(&["check", model, "--detail"]);
@@ -451,7 +462,10 @@ fn completions_invalid_values_and_the_output_note() {
     ] {
         assert!(out.join(name).exists(), "{name}");
         let text = std::fs::read_to_string(out.join(name)).unwrap();
-        assert!(text.contains("licensed engineer"), "{name} carries the caution");
+        assert!(
+            text.contains("licensed engineer"),
+            "{name} carries the caution"
+        );
         assert!(stderr(&o).contains(name), "{}", stderr(&o));
     }
     let _ = std::fs::remove_dir_all(&dir);

@@ -1572,18 +1572,19 @@ fn file_error(e: plumbline::app::AppError) -> plumbline::diag::FileError {
 }
 
 #[test]
-fn the_office_demo_is_refused_under_en1990() {
-    // examples/office-3story.toml is prepared for ASCE/SEI 7-16 (strength-level wind,
-    // nominal snow [M]); EN 1990 (6.10) expects characteristic values [C: infosteel
-    // MSB03/14]: refused, located in the model, instead of silently factoring by 1.5.
+fn the_retail_demo_is_refused_under_en1990() {
+    // examples/retail-2story.toml is prepared for ASCE/SEI 7-16 (strength-level wind,
+    // nominal snow [M]) and states no conversion; EN 1990 (6.10) expects characteristic
+    // values [C: infosteel MSB03/14]: refused, located in the model, instead of silently
+    // factoring by 1.5. (The office demo states its conversions, for `compare`.)
     use plumbline::report::OutputFormat;
-    let path = example("office-3story.toml");
+    let path = example("retail-2story.toml");
     assert!(plumbline::app::cases(&path, None, &[], OutputFormat::Table).is_ok());
     let e = plumbline::app::cases(&path, Some("en1990-6.10"), &[], OutputFormat::Table)
         .map(|_| ())
         .unwrap_err();
     let e = file_error(e);
-    assert!(e.file.ends_with("office-3story.toml"), "{e}");
+    assert!(e.file.ends_with("retail-2story.toml"), "{e}");
     assert!(e.line > 0);
     assert!(e.message.contains("expects characteristic-level"), "{e}");
 }

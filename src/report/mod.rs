@@ -5,6 +5,7 @@
 
 pub mod approx;
 pub mod check;
+pub mod compare;
 pub mod diagram;
 pub mod handoff;
 pub mod html;
