@@ -677,11 +677,15 @@ pub fn run_check(
         }
         None => None,
     };
+    let analysed = match (&service, service_only) {
+        (Some(s), true) => s.report.cases.iter().map(|c| c.id.clone()).collect(),
+        _ => report.cases.iter().map(|c| c.id.clone()).collect(),
+    };
     let selection = Selection {
         filter: args.case.clone(),
         table_cases: expansion.cases.len(),
         selected: cases.len(),
-        analysed: report.cases.iter().map(|c| c.id.clone()).collect(),
+        analysed,
         remarks: expansion_summary(&expansion)
             .lines()
             .skip(1)

@@ -199,8 +199,14 @@ pub struct ServiceCase {
     pub drift_limit: Option<(f64, String)>,
     pub stories: Vec<ServiceStory>,
     pub beams: Vec<ServiceBeam>,
-    /// Node displacements `[ux, uy, θ]` (m, rad) of the model's nodes: the P-Δ analysis's,
-    /// or the first-order ones when it did not converge.
+}
+
+/// The displaced nodes of one service case.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct DeflectedShape {
+    pub case: String,
+    /// Node displacements `[ux, uy, θ]` (m, rad) of the model's nodes, in model order: the
+    /// P-Δ analysis's, or the first-order ones when it did not converge.
     pub displacements: Vec<[f64; 3]>,
 }
 
@@ -294,6 +300,8 @@ pub struct ServiceReport {
     pub stories: Vec<StoryVerdict>,
     pub beams: Vec<BeamVerdict>,
     pub seismic: Vec<SeismicVerdict>,
+    /// The deflected shape of the governing service case ([`ServiceReport::governing_case`]).
+    pub shape: Option<DeflectedShape>,
     /// What the figures are, in plain words.
     pub notes: Vec<String>,
     pub caution: String,
@@ -378,11 +386,15 @@ pub fn service_check(
     };
     let checked =
         crate::solve::parallel::map_in_order(cases, |fc| ctx.case(fc), &mut |_, _| {});
-    let cases: Vec<ServiceCase> = checked.into_iter().collect::<Result<_, _>>()?;
+    let (cases, mut shapes): (Vec<ServiceCase>, Vec<Vec<[f64; 3]>>) = checked
+        .into_iter()
+        .collect::<Result<Vec<_>, _>>()?
+        .into_iter()
+        .unzip();
     let story_verdicts = story_verdicts(&stories, &cases);
     let beams = beam_verdicts(&cases, limits);
     let seismic = seismic_verdicts(model, &stories, &solutions, limits);
-    Ok(ServiceReport {
+    let mut report = ServiceReport {
         table: table.0.to_string(),
         table_line: table.1.to_string(),
         stiffness: model.analysis.stiffness.to_string(),
@@ -391,9 +403,20 @@ pub fn service_check(
         stories: story_verdicts,
         beams,
         seismic,
+        shape: None,
         notes: vec![SERVICE_NOTE.to_string()],
         caution: CAUTION.to_string(),
-    })
+    };
+    if let Some(k) = report
+        .governing_case()
+        .and_then(|g| report.cases.iter().position(|c| c.id == g.id))
+    {
+        report.shape = Some(DeflectedShape {
+            case: report.cases[k].id.clone(),
+            displacements: std::mem::take(&mut shapes[k]),
+        });
+    }
+    Ok(report)
 }
 
 /// What the serviceability figures are, in plain words.
@@ -434,8 +457,8 @@ impl Ctx<'_> {
         (!refs.is_empty()).then(|| Solution::combine(&refs))
     }
 
-    /// Check one service case.
-    fn case(&self, fc: &FactoredCase) -> Result<ServiceCase, CheckError> {
+    /// Check one service case; also its node displacements.
+    fn case(&self, fc: &FactoredCase) -> Result<(ServiceCase, Vec<[f64; 3]>), CheckError> {
         let model = self.model;
         let first = self
             .combined(&fc.factors)
@@ -514,10 +537,12 @@ impl Ctx<'_> {
                 }
             })
             .collect();
-        Ok(ServiceCase {
+        let converged = second.is_some();
+        let displacements = second.unwrap_or(first).displacements;
+        let case = ServiceCase {
             id: fc.id.clone(),
             expression: fc.expression.clone(),
-            converged: second.is_some(),
+            converged,
             reason,
             drift_limit: self
                 .limits
@@ -525,8 +550,8 @@ impl Ctx<'_> {
                 .map(|(n, c)| (n, c.to_string())),
             stories,
             beams,
-            displacements: second.unwrap_or(first).displacements,
-        })
+        };
+        Ok((case, displacements))
     }
 }
 

@@ -348,3 +348,117 @@ fn random_frames_chord_relative_deflection_equals_dense_sampling() {
         }
     }
 }
+
+/// `check` of a shipped example with `args` (format and options), as one text.
+fn check_example(name: &str, args: plumbline::app::CheckArgs) -> String {
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR"))
+        .join("examples")
+        .join(name);
+    plumbline::app::check(&path, &args).unwrap()
+}
+
+#[test]
+fn office_demo_gives_strength_and_service_halves_on_one_page() {
+    // The demo names asce7-16-service beside its strength table: one command, both halves.
+    let text = check_example("office-3story.toml", Default::default());
+    assert!(text.contains("Member envelope"), "strength half");
+    assert!(text.contains("\nServiceability\n"), "service half");
+    assert!(text.contains("Story drift under service loads"));
+    assert!(text.contains("Beam deflection relative to the chord"));
+    for line in text.lines().skip_while(|l| *l != "Serviceability") {
+        if line.starts_with("Results assist") || line.starts_with("Moments are") {
+            break;
+        }
+        assert!(line.chars().count() <= 120, "over 120 columns: {line}");
+    }
+    // JSON: the serviceability key round-trips through the document type.
+    let json = check_example(
+        "office-3story.toml",
+        plumbline::app::CheckArgs {
+            format: plumbline::report::CheckFormat::Json,
+            ..Default::default()
+        },
+    );
+    let doc: plumbline::report::summary::CheckDoc = serde_json::from_str(&json).unwrap();
+    let r = doc.serviceability.as_ref().unwrap();
+    assert_eq!(r.stiffness, "gross");
+    assert_eq!(r.stories.len(), 3);
+    assert_eq!(r.beams.len(), 6);
+    let value: serde_json::Value = serde_json::from_str(&json).unwrap();
+    assert_eq!(serde_json::to_value(&doc).unwrap(), value);
+    // The governing service case's deflected shape, one displacement per node.
+    let shape = r.shape.as_ref().unwrap();
+    assert_eq!(shape.displacements.len(), 12);
+}
+
+#[test]
+fn a_service_table_alone_runs_as_serviceability() {
+    // Issue 18: a table of basis serviceability is analysed as serviceability: no design
+    // moments, no notional loads or imperfections, no strength drift note.
+    let text = check_example(
+        "workshop-portal.toml",
+        plumbline::app::CheckArgs {
+            combos: Some("en1990-sls-characteristic".into()),
+            ..Default::default()
+        },
+    );
+    assert!(text.contains("\nServiceability\n"));
+    for absent in ["M design", "Member envelope", "notional loads  ", "factored loads"] {
+        assert!(!text.contains(absent), "{absent}");
+    }
+    assert!(text.contains("Cases included: all 9 factored cases of the table\n"), "{text}");
+}
+
+#[test]
+fn limits_follow_set_and_an_unknown_parameter_is_refused() {
+    // --set drift_h_wind=1000 makes the office's drift limit h/1000: every governing drift
+    // ratio grows by 1000/400 (the drifts themselves do not change).
+    let json = |sets: Vec<String>| {
+        let t = check_example(
+            "office-3story.toml",
+            plumbline::app::CheckArgs {
+                format: plumbline::report::CheckFormat::Json,
+                sets,
+                ..Default::default()
+            },
+        );
+        let d: plumbline::report::summary::CheckDoc = serde_json::from_str(&t).unwrap();
+        d.serviceability.unwrap()
+    };
+    let base = json(vec![]);
+    let strict = json(vec!["drift_h_wind=1000".into()]);
+    for (a, b) in base.stories.iter().zip(&strict.stories) {
+        let (a, b) = (a.governing.as_ref().unwrap(), b.governing.as_ref().unwrap());
+        assert!((b.ratio - a.ratio * 2.5).abs() <= 1e-9 * b.ratio);
+        assert_eq!(a.value, b.value);
+    }
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/office-3story.toml");
+    let err = plumbline::app::check(
+        &path,
+        &plumbline::app::CheckArgs {
+            sets: vec!["drift_h_nothing=3".into()],
+            ..Default::default()
+        },
+    )
+    .unwrap_err();
+    assert!(err.to_string().contains("drift_h_nothing") || format!("{err:?}").contains("drift_h_nothing"));
+}
+
+#[test]
+fn solve_states_its_stiffness_and_uses_gross_by_default() {
+    // Issue 18 item 4. The office demo's strength analysis uses aisc-direct (0.8·EI, 0.8·EA):
+    // its service load case under that preset moves exactly 1/0.8 as far (linearity).
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/office-3story.toml");
+    let fmt = plumbline::report::OutputFormat::Json;
+    let doc = |s: &str| -> serde_json::Value {
+        serde_json::from_str(&plumbline::app::solve(&path, "WL", s, fmt).unwrap()).unwrap()
+    };
+    let (g, r) = (doc("gross"), doc("aisc-direct"));
+    assert_eq!(g["stiffness"], "gross");
+    assert_eq!(r["stiffness"], "aisc-direct");
+    let ux = |d: &serde_json::Value| d["displacements"][1]["ux"].as_f64().unwrap();
+    assert!((ux(&r) - ux(&g) / 0.8).abs() <= 1e-9 * ux(&g).abs());
+    let text = plumbline::app::solve(&path, "WL", "gross", plumbline::report::OutputFormat::Table)
+        .unwrap();
+    assert!(text.lines().nth(1).unwrap().contains("stiffness gross"));
+}

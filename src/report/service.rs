@@ -215,7 +215,7 @@ pub fn heading_lines(r: &ServiceReport) -> Vec<String> {
         .collect();
     let defl = |n: Option<f64>| n.map_or("none".to_string(), |n| format!("L/{}", num(n, 0)));
     vec![
-        format!("Service cases: {} ({})", r.table_line, r.table),
+        format!("Service cases: {} ({})", r.table, r.table_line),
         format!(
             "Service stiffness: {}; P-Δ at service load; no notional loads, no amplifiers",
             r.stiffness
@@ -238,6 +238,29 @@ pub fn heading_lines(r: &ServiceReport) -> Vec<String> {
     ]
 }
 
+/// `text` broken into lines of at most `width` characters at spaces (a longer word stays
+/// whole on its own line).
+pub fn wrap(text: &str, width: usize) -> Vec<String> {
+    let mut out: Vec<String> = Vec::new();
+    let mut line = String::new();
+    for word in text.split_whitespace() {
+        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > width {
+            out.push(std::mem::take(&mut line));
+        }
+        if !line.is_empty() {
+            line.push(' ');
+        }
+        line.push_str(word);
+    }
+    if !line.is_empty() {
+        out.push(line);
+    }
+    out
+}
+
+/// What the strength half's drifts are when the run also has a serviceability half.
+pub const STRENGTH_DRIFT_NOTE: &str = "Drifts in the strength tables are under factored loads, with the analysis stiffness and notional loads: strength figures. The serviceability drifts are those of the Serviceability section.";
+
 /// The closing verdict line.
 pub fn verdict_line(r: &ServiceReport) -> String {
     let unstable: Vec<&str> = r
@@ -257,4 +280,190 @@ pub fn verdict_line(r: &ServiceReport) -> String {
     } else {
         "Serviceability: some figures EXCEED their limits (see the verdicts above)".into()
     }
+}
+
+/// Colours of the service drawings (our own, print-friendly).
+mod colour {
+    pub const LIMIT: &str = "#b5452b";
+    pub const AXIS: &str = "#5c6b73";
+    pub const UNDEFORMED: &str = "#c9d1d6";
+    pub const SHAPE: &str = "#2a5d9f";
+    /// One per case line of the drift profile, in turn.
+    pub const CASES: [&str; 5] = ["#2a5d9f", "#1f7a5a", "#8a4b08", "#6b3fa0", "#1d262d"];
+}
+
+/// The cases drawn in the drift profile: each story's governing (or largest) case, once.
+fn profile_cases(r: &ServiceReport) -> Vec<&str> {
+    let mut out: Vec<&str> = Vec::new();
+    for s in &r.stories {
+        let id = s.governing.as_ref().map_or(s.largest_case.as_str(), |g| g.case.as_str());
+        if !out.contains(&id) {
+            out.push(id);
+        }
+    }
+    out
+}
+
+/// The drift profile: story height against drift ratio |Δ|/h, one stepped line per
+/// governing case and the limit h/N drawn dashed. SVG, `width` px wide.
+pub fn drift_profile_svg(r: &ServiceReport, width: f64) -> String {
+    use std::fmt::Write;
+    let height = 360.0;
+    let (left, right, top, bottom) = (70.0, 20.0, 20.0, 50.0);
+    // Levels measured from the base, story heights stacked.
+    let mut levels = vec![0.0];
+    for h in r.stories.iter().map(|s| s.height) {
+        let last = *levels.last().unwrap_or(&0.0);
+        levels.push(last + h);
+    }
+    let total_h = levels.last().copied().unwrap_or(1.0).max(1e-9);
+    let cases = profile_cases(r);
+    let ratio_of = |c: &crate::service::ServiceCase, s: usize| {
+        (c.stories[s].drift() / c.stories[s].height).abs()
+    };
+    let limit_ratio = |s: usize| r.stories[s].governing.as_ref().map(|g| g.limit / r.stories[s].height);
+    let mut xmax = 0.0_f64;
+    for id in &cases {
+        if let Some(c) = r.cases.iter().find(|c| c.id == *id) {
+            for s in 0..c.stories.len() {
+                xmax = xmax.max(ratio_of(c, s));
+            }
+        }
+    }
+    for s in 0..r.stories.len() {
+        xmax = xmax.max(limit_ratio(s).unwrap_or(0.0));
+    }
+    let xmax = if xmax > 0.0 && xmax.is_finite() { xmax * 1.1 } else { 1.0 };
+    let px = |x: f64| left + (width - left - right) * x / xmax;
+    let py = |y: f64| height - bottom - (height - top - bottom) * y / total_h;
+    let mut out = format!(
+        r#"<svg xmlns="http://www.w3.org/2000/svg" class="drawing drift-profile" viewBox="0 0 {width:.0} {height:.0}" width="{width:.0}" height="{height:.0}" role="img" aria-label="Story drift profile" font-family="inherit">"#
+    );
+    // Axes, level lines and ticks.
+    let _ = write!(
+        out,
+        r#"<line x1="{l:.1}" y1="{b:.1}" x2="{r:.1}" y2="{b:.1}" stroke="{a}"/><line x1="{l:.1}" y1="{b:.1}" x2="{l:.1}" y2="{t:.1}" stroke="{a}"/>"#,
+        l = left,
+        r = width - right,
+        b = height - bottom,
+        t = top,
+        a = colour::AXIS
+    );
+    for (k, y) in levels.iter().enumerate() {
+        let _ = write!(
+            out,
+            r#"<line x1="{l:.1}" y1="{y:.1}" x2="{r:.1}" y2="{y:.1}" stroke="{u}" stroke-dasharray="2 4"/><text x="{tx:.1}" y="{ty:.1}" font-size="11" text-anchor="end">level {k}</text>"#,
+            l = left,
+            r = width - right,
+            y = py(*y),
+            u = colour::UNDEFORMED,
+            tx = left - 6.0,
+            ty = py(*y) + 4.0
+        );
+    }
+    for k in 1..=4 {
+        let x = xmax * k as f64 / 4.0;
+        let _ = write!(
+            out,
+            r#"<text x="{:.1}" y="{:.1}" font-size="11" text-anchor="middle">{}</text>"#,
+            px(x),
+            height - bottom + 16.0,
+            one_over(x)
+        );
+    }
+    let _ = write!(
+        out,
+        r#"<text x="{:.1}" y="{:.1}" font-size="12" text-anchor="middle">story drift ratio |Δ|/h</text>"#,
+        left + (width - left - right) / 2.0,
+        height - 10.0
+    );
+    // The limit, story by story.
+    for s in 0..r.stories.len() {
+        if let Some(lr) = limit_ratio(s) {
+            let _ = write!(
+                out,
+                r#"<line class="limit" x1="{x:.1}" y1="{y0:.1}" x2="{x:.1}" y2="{y1:.1}" stroke="{c}" stroke-width="2" stroke-dasharray="6 4"/>"#,
+                x = px(lr),
+                y0 = py(levels[s]),
+                y1 = py(levels[s + 1]),
+                c = colour::LIMIT
+            );
+        }
+    }
+    // One stepped line per case.
+    for (n, id) in cases.iter().enumerate() {
+        let Some(c) = r.cases.iter().find(|c| c.id == *id) else {
+            continue;
+        };
+        let col = colour::CASES[n % colour::CASES.len()];
+        let mut pts = Vec::new();
+        for s in 0..c.stories.len() {
+            let x = px(ratio_of(c, s));
+            pts.push(format!("{x:.1},{:.1}", py(levels[s])));
+            pts.push(format!("{x:.1},{:.1}", py(levels[s + 1])));
+        }
+        let _ = write!(
+            out,
+            r#"<polyline class="drift" data-case="{}" points="{}" fill="none" stroke="{col}" stroke-width="2"/>"#,
+            super::svg::esc(id),
+            pts.join(" ")
+        );
+        let _ = write!(
+            out,
+            r#"<text x="{:.1}" y="{:.1}" font-size="11" fill="{col}">{}</text>"#,
+            width - right - 4.0,
+            top + 14.0 * (n + 1) as f64,
+            super::svg::esc(id)
+        );
+    }
+    out.push_str("</svg>");
+    out
+}
+
+/// The deflected shape of the governing service case: the members drawn dashed as built
+/// and solid between their displaced ends, the displacements magnified to a visible size
+/// (the factor is returned). SVG, `width` px wide.
+pub fn deflected_shape_svg(model: &Model, r: &ServiceReport, width: f64) -> Option<(String, f64)> {
+    use std::fmt::Write;
+    let case = r.shape.as_ref()?;
+    // The largest displacement is drawn SHOWN px long, inside the margin.
+    const SHOWN: f64 = 50.0;
+    let v = super::svg::View::fit(model, width, SHOWN + 20.0);
+    let largest = case
+        .displacements
+        .iter()
+        .map(|d| d[0].hypot(d[1]))
+        .fold(0.0, f64::max);
+    let factor = if largest > 0.0 && largest.is_finite() {
+        SHOWN / (v.scale * largest)
+    } else {
+        1.0
+    };
+    let mut out = format!(
+        r#"<svg xmlns="http://www.w3.org/2000/svg" class="drawing deflected" viewBox="0 0 {w:.0} {h:.0}" width="{w:.0}" height="{h:.0}" role="img" aria-label="Deflected shape, case {id}" font-family="inherit">"#,
+        w = v.width,
+        h = v.height,
+        id = super::svg::esc(&case.case)
+    );
+    for mem in &model.members {
+        let (a, b) = (&model.nodes[mem.i], &model.nodes[mem.j]);
+        let (x1, y1) = v.at(a.x, a.y);
+        let (x2, y2) = v.at(b.x, b.y);
+        let _ = write!(
+            out,
+            r#"<line x1="{x1:.1}" y1="{y1:.1}" x2="{x2:.1}" y2="{y2:.1}" stroke="{}" stroke-width="2" stroke-dasharray="5 4"/>"#,
+            colour::UNDEFORMED
+        );
+        let (da, db) = (case.displacements[mem.i], case.displacements[mem.j]);
+        let (x1, y1) = v.at(a.x + factor * da[0], a.y + factor * da[1]);
+        let (x2, y2) = v.at(b.x + factor * db[0], b.y + factor * db[1]);
+        let _ = write!(
+            out,
+            r#"<line class="shape" data-shape="{}" x1="{x1:.1}" y1="{y1:.1}" x2="{x2:.1}" y2="{y2:.1}" stroke="{}" stroke-width="2.5"/>"#,
+            super::svg::esc(&mem.id),
+            colour::SHAPE
+        );
+    }
+    out.push_str("</svg>");
+    Some((out, factor))
 }

@@ -645,29 +645,46 @@ pub fn text(s: &Summary) -> String {
         out.push_str(&service_text(s.model, r));
     }
     if s.has_strength() {
-        out.push_str(&format!(
-            "{SIGN_NOTE}\n{}\n",
-            crate::check::story::DRIFT_NOTE
-        ));
+        out.push_str(&format!("{SIGN_NOTE}\n{}\n", drift_note(s)));
     }
     out.push_str(&format!("{CAUTION}\n"));
     out
 }
 
+/// What the strength drifts are: with a serviceability half, the note points to it.
+fn drift_note(s: &Summary) -> &'static str {
+    if s.service.is_some() {
+        super::service::STRENGTH_DRIFT_NOTE
+    } else {
+        crate::check::story::DRIFT_NOTE
+    }
+}
+
 /// The "Serviceability" section as text.
 fn service_text(model: &Model, r: &crate::service::ServiceReport) -> String {
     use super::service;
+    const WIDTH: usize = 120;
     let mut out = String::from("\nServiceability\n");
-    for l in service::heading_lines(r) {
-        out.push_str(&format!("{l}\n"));
+    let lines = service::heading_lines(r)
+        .into_iter()
+        .chain(std::iter::once(String::new()))
+        .collect::<Vec<_>>();
+    for l in lines {
+        for w in service::wrap(&l, WIDTH) {
+            out.push_str(&format!("{w}\n"));
+        }
+        if l.is_empty() {
+            out.push('\n');
+        }
     }
-    out.push('\n');
     for t in service::tables(model, r) {
         out.push_str(&text_table(&t));
     }
-    out.push_str(&format!("{}\n", service::verdict_line(r)));
-    for n in &r.notes {
-        out.push_str(&format!("{n}\n"));
+    let closing = std::iter::once(service::verdict_line(r)).chain(r.notes.iter().cloned());
+    for l in closing {
+        for w in service::wrap(&l, WIDTH) {
+            out.push_str(&format!("{w}\n"));
+        }
     }
     out
 }
@@ -751,7 +768,7 @@ pub fn markdown(s: &Summary) -> String {
         out.push_str(&service_markdown(s.model, r));
     }
     if s.has_strength() {
-        out.push_str(&format!("\n{}\n", crate::check::story::DRIFT_NOTE));
+        out.push_str(&format!("\n{}\n", drift_note(s)));
     }
     out.push_str(&format!(
         "\n{SIGN_NOTE}\n\nCombination table: {} ({}). {}\n\n",
