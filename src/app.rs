@@ -166,10 +166,15 @@ fn table_and_settings(
     Ok((table, settings))
 }
 
-/// `plumbline solve MODEL --case ID [--stiffness PRESET]`: the first-order solution of one
-/// load case, with gross section properties unless `stiffness` names another preset (a
-/// load case is a service load: the strength method's reduced stiffness does not apply).
-pub fn solve(
+/// `plumbline solve MODEL --case ID`: the first-order solution of one load case, with
+/// gross section properties (a load case is a service load: the strength method's reduced
+/// stiffness does not apply).
+pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<String, AppError> {
+    solve_with(model_path, case, "gross", format)
+}
+
+/// [`solve`] with the member stiffness preset `stiffness` (`--stiffness`).
+pub fn solve_with(
     model_path: &Path,
     case: &str,
     stiffness: &str,
@@ -465,7 +470,11 @@ fn param_settings(
         } else {
             (
                 "not set".into(),
-                "no default: combinations that need it are skipped".into(),
+                if label == "parameter" {
+                    "no default: combinations that need it are skipped".into()
+                } else {
+                    "no default: the limit that needs it is not checked".into()
+                },
             )
         };
         out.push(Setting {
@@ -602,7 +611,10 @@ pub fn run_check(
         (None, true) => Some(table.clone()),
         (None, false) => model_service_table(&model, model_path)?,
     };
-    if let Some(t) = service_table.as_ref().filter(|t| t.basis != crate::combos::Basis::Serviceability) {
+    if let Some(t) = service_table
+        .as_ref()
+        .filter(|t| t.basis != crate::combos::Basis::Serviceability)
+    {
         return Err(AppError::Usage(format!(
             "the serviceability table {} has basis {}: name a table of basis serviceability \
              (`plumbline combos` lists them)",
@@ -629,7 +641,11 @@ pub fn run_check(
             );
             let exp = arranged.apply(expand_with(st, &model.load_cases, &settings)?);
             let values = crate::combos::param_values(st, &settings)?;
-            Some((st.clone(), exp, crate::service::ServiceLimits::from_params(&values)))
+            Some((
+                st.clone(),
+                exp,
+                crate::service::ServiceLimits::from_params(&values),
+            ))
         }
         None => None,
     };
@@ -696,7 +712,11 @@ pub fn run_check(
     settings.extend(crate::report::summary::second_order_setting(&report));
     if service_only {
         // No strength analysis ran: its method, stiffness and notional loads do not apply.
-        settings.retain(|s| !STRENGTH_ONLY_SETTINGS.iter().any(|p| s.setting.starts_with(p)));
+        settings.retain(|s| {
+            !STRENGTH_ONLY_SETTINGS
+                .iter()
+                .any(|p| s.setting.starts_with(p))
+        });
     }
     if let Some(s) = &service {
         settings.extend(service_settings(
@@ -784,7 +804,11 @@ fn model_service_table(model: &Model, model_path: &Path) -> Result<Option<ComboT
 /// `settings` for `table` when the run also uses `other`: the parameters (model and
 /// command line) that only `other` declares are left to it. A parameter neither declares
 /// stays, so that `table`'s expansion reports it.
-fn split_settings(mut settings: Settings, table: &ComboTable, other: Option<&ComboTable>) -> Settings {
+fn split_settings(
+    mut settings: Settings,
+    table: &ComboTable,
+    other: Option<&ComboTable>,
+) -> Settings {
     if let Some(other) = other {
         let keep = |k: &String| table.param(k).is_some() || other.param(k).is_none();
         settings.model_params.retain(|k, _| keep(k));
@@ -835,7 +859,10 @@ fn service_settings(
     let t = &s.table;
     let mut out = vec![Setting {
         setting: "serviceability table".into(),
-        value: format!("{}: {}; {}; edition {}", t.file, t.title, t.standard, t.edition),
+        value: format!(
+            "{}: {}; {}; edition {}",
+            t.file, t.title, t.standard, t.edition
+        ),
         source: if args.service.is_some() {
             "command line (--service)".into()
         } else if keys.contains("combinations.service") {
@@ -1021,7 +1048,11 @@ pub fn check_output_status(
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<(Rendered, bool), AppError> {
     let run = run_check(model_path, args, progress)?;
-    let unstable = run.report.cases.iter().any(|c| !c.stable);
+    let unstable = run.report.cases.iter().any(|c| !c.stable)
+        || run
+            .service
+            .as_ref()
+            .is_some_and(|s| s.report.cases.iter().any(|c| !c.converged));
     let rendered = render_check(&run, args.format, args.detail || args.case.is_some());
     Ok((rendered, unstable))
 }

@@ -274,7 +274,7 @@ fn run(cli: Cli) -> Result<Done, AppError> {
     };
     Ok(match cli.command {
         Command::Solve(a) => text(
-            app::solve(&a.model, &a.case, &a.stiffness, a.format)?,
+            app::solve_with(&a.model, &a.case, &a.stiffness, a.format)?,
             a.out.output,
         ),
         Command::Cases(a) => text(

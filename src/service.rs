@@ -114,13 +114,11 @@ impl ServiceLimits {
         ) {
             (Some(cd), Some(ie), Some(rc)) if ie > 0.0 => {
                 let rc = rc.round().clamp(1.0, 4.0) as u8;
-                get(&format!("{}{rc}", params::SEISMIC_DRIFT_PREFIX)).map(|ratio| {
-                    SeismicLimits {
-                        cd,
-                        ie,
-                        risk_category: rc,
-                        allowable_ratio: ratio,
-                    }
+                get(&format!("{}{rc}", params::SEISMIC_DRIFT_PREFIX)).map(|ratio| SeismicLimits {
+                    cd,
+                    ie,
+                    risk_category: rc,
+                    allowable_ratio: ratio,
                 })
             }
             _ => None,
@@ -336,7 +334,10 @@ impl ServiceReport {
         self.stories
             .iter()
             .all(|s| s.unstable_case.is_none() && s.governing.as_ref().is_none_or(|g| g.ok()))
-            && self.beams.iter().all(|b| b.ratio().is_none_or(|r| r <= 1.0))
+            && self
+                .beams
+                .iter()
+                .all(|b| b.ratio().is_none_or(|r| r <= 1.0))
             && self.seismic.iter().all(|s| s.ratio <= 1.0)
     }
 }
@@ -384,8 +385,7 @@ pub fn service_check(
         solutions: &solutions,
         limits,
     };
-    let checked =
-        crate::solve::parallel::map_in_order(cases, |fc| ctx.case(fc), &mut |_, _| {});
+    let checked = crate::solve::parallel::map_in_order(cases, |fc| ctx.case(fc), &mut |_, _| {});
     let (cases, mut shapes): (Vec<ServiceCase>, Vec<Vec<[f64; 3]>>) = checked
         .into_iter()
         .collect::<Result<Vec<_>, _>>()?
@@ -460,9 +460,7 @@ impl Ctx<'_> {
     /// Check one service case; also its node displacements.
     fn case(&self, fc: &FactoredCase) -> Result<(ServiceCase, Vec<[f64; 3]>), CheckError> {
         let model = self.model;
-        let first = self
-            .combined(&fc.factors)
-            .ok_or(CheckError::NoCases)?;
+        let first = self.combined(&fc.factors).ok_or(CheckError::NoCases)?;
         let mut loads = MeshLoads::zero(&self.second.mesh);
         for &(k, f) in &fc.factors {
             loads.add_case(model, &self.second.mesh, k, f);
@@ -516,14 +514,8 @@ impl Ctx<'_> {
         let beams = beam_members(model)
             .into_iter()
             .map(|(m, cantilever)| {
-                let (total, total_x) = beam_deflection(
-                    model,
-                    self.stiffness,
-                    &first,
-                    &fc.factors,
-                    m,
-                    cantilever,
-                );
+                let (total, total_x) =
+                    beam_deflection(model, self.stiffness, &first, &fc.factors, m, cantilever);
                 let live = live_solution.as_ref().map_or(0.0, |s| {
                     beam_deflection(model, self.stiffness, s, &live, m, cantilever).0
                 });

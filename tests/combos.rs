@@ -1736,22 +1736,10 @@ fn en1990_sls_frequent_all_actions() {
         &natural(&e),
         &cases,
         &[
-            (
-                "6.15b-1a",
-                "dead*1.0 live*0.5",
-            ),
-            (
-                "6.15b-1b",
-                "dead*1.0 snow*0.2 live*0.3",
-            ),
-            (
-                "6.15b-1c",
-                "dead*1.0 wind*0.2 live*0.3",
-            ),
-            (
-                "6.15b-1d",
-                "dead*1.0 temperature*0.5 live*0.3",
-            ),
+            ("6.15b-1a", "dead*1.0 live*0.5"),
+            ("6.15b-1b", "dead*1.0 snow*0.2 live*0.3"),
+            ("6.15b-1c", "dead*1.0 wind*0.2 live*0.3"),
+            ("6.15b-1d", "dead*1.0 temperature*0.5 live*0.3"),
         ],
     );
 }
@@ -1763,12 +1751,5 @@ fn en1990_sls_quasi_permanent_all_actions() {
     let cases = every_category();
     let (t, e) = run("en1990-sls-quasi-permanent", &cases, &[]);
     assert_eq!(t.basis, Basis::Serviceability);
-    assert_cases(
-        &natural(&e),
-        &cases,
-        &[(
-            "6.16b-1",
-            "dead*1.0 live*0.3",
-        )],
-    );
+    assert_cases(&natural(&e), &cases, &[("6.16b-1", "dead*1.0 live*0.3")]);
 }

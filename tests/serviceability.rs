@@ -11,7 +11,7 @@ use common::{Frame, portal};
 use plumbline::combos::{Basis, FactoredCase};
 use plumbline::model::{ActionCategory, LoadDirection, Model, Restraint, StiffnessPreset};
 use plumbline::service::{
-    ServiceLimits, ServiceReport, SeismicLimits, beam_deflection, beam_members, service_check,
+    SeismicLimits, ServiceLimits, ServiceReport, beam_deflection, beam_members, service_check,
     service_model,
 };
 use plumbline::solve::Solution;
@@ -93,7 +93,11 @@ fn seismic_drift_is_cd_times_elastic_drift_over_ie() {
         risk_category: 3,
         allowable_ratio: 0.015,
     };
-    let r = run(f.model, &[service("D", &[(d, 1.0)])], &limits(Some(seismic)));
+    let r = run(
+        f.model,
+        &[service("D", &[(d, 1.0)])],
+        &limits(Some(seismic)),
+    );
     let delta_xe = p * h.powi(3) / (3.0 * E * i);
     let s = &r.seismic[0];
     assert!((s.delta_xe - delta_xe).abs() <= 1e-6 * delta_xe);
@@ -160,8 +164,14 @@ fn fixed_fixed_beam_deflection_relative_to_its_chord_is_wl4_over_384ei() {
     let a = f.node(0.0, 0.0);
     let b = f.node(l, 0.0);
     let m = f.member(a, b, E, 1.0, ib);
-    f.support(a, [Restraint::Fixed, Restraint::Spring(k), Restraint::Fixed]);
-    f.support(b, [Restraint::Fixed, Restraint::Spring(k), Restraint::Fixed]);
+    f.support(
+        a,
+        [Restraint::Fixed, Restraint::Spring(k), Restraint::Fixed],
+    );
+    f.support(
+        b,
+        [Restraint::Fixed, Restraint::Spring(k), Restraint::Fixed],
+    );
     let live = f.case("L", ActionCategory::Live);
     f.udl(live, m, w, LoadDirection::Gravity);
     let model = f.model;
@@ -205,7 +215,10 @@ fn cantilever_beam_tip_deflection_and_its_2l_limit() {
     let b = &r.cases[0].beams[0];
     assert!(b.cantilever);
     // Axial shortening of the column (A = 10 m²) moves root and tip alike.
-    assert!((b.total.abs() - exact).abs() <= 1e-9 * exact, "{b:?} vs {exact}");
+    assert!(
+        (b.total.abs() - exact).abs() <= 1e-9 * exact,
+        "{b:?} vs {exact}"
+    );
     let v = &r.beams[0];
     assert!((v.limit_length - 2.0 * l).abs() <= 1e-12);
     assert!((v.total.as_ref().unwrap().limit - 2.0 * l / 240.0).abs() <= 1e-12);
@@ -228,15 +241,25 @@ fn flagpole_p_delta_drift_against_the_amplifier_1_over_1_minus_p_over_pcr() {
         f.nodal(d, top, 0.0, -p, 0.0);
         let w = f.case("W", ActionCategory::Wind);
         f.nodal(w, top, hforce, 0.0, 0.0);
-        let r = run(f.model, &[service("DW", &[(d, 1.0), (w, 1.0)])], &limits(None));
+        let r = run(
+            f.model,
+            &[service("DW", &[(d, 1.0), (w, 1.0)])],
+            &limits(None),
+        );
         let s = &r.cases[0].stories[0];
         let amp = s.amplification.unwrap();
         let u = (p / (E * i)).sqrt() * h;
         let exact = 3.0 * (u.tan() - u) / u.powi(3);
         // The P-Δ/P-δ analysis (8 elements, consistent geometric stiffness) to 0.1 %.
-        assert!((amp - exact).abs() <= 1e-3 * exact, "P/Pcr {ratio}: {amp} vs {exact}");
+        assert!(
+            (amp - exact).abs() <= 1e-3 * exact,
+            "P/Pcr {ratio}: {amp} vs {exact}"
+        );
         let approx = 1.0 / (1.0 - ratio);
-        assert!((amp - approx).abs() <= 0.01 * approx, "P/Pcr {ratio}: {amp} vs {approx}");
+        assert!(
+            (amp - approx).abs() <= 0.01 * approx,
+            "P/Pcr {ratio}: {amp} vs {approx}"
+        );
         // The service drift is the second-order one.
         assert!((s.drift() - s.drift_first_order * amp).abs() <= 1e-9 * s.drift().abs());
     }
@@ -317,8 +340,7 @@ fn random_frames_chord_relative_deflection_equals_dense_sampling() {
             let loads = combined_member_loads(&model, &fc.factors);
             // The case's scale: its largest beam deflection (round-off below 1e-15 of the
             // frame's size is no figure).
-            let scale = c.beams.iter().map(|b| b.total.abs()).fold(0.0, f64::max)
-                + 1e-15 * longest;
+            let scale = c.beams.iter().map(|b| b.total.abs()).fold(0.0, f64::max) + 1e-15 * longest;
             for (b, (m, cant)) in c.beams.iter().zip(beam_members(&model)) {
                 if cant.is_some() {
                     continue;
@@ -403,10 +425,18 @@ fn a_service_table_alone_runs_as_serviceability() {
         },
     );
     assert!(text.contains("\nServiceability\n"));
-    for absent in ["M design", "Member envelope", "notional loads  ", "factored loads"] {
+    for absent in [
+        "M design",
+        "Member envelope",
+        "notional loads  ",
+        "factored loads",
+    ] {
         assert!(!text.contains(absent), "{absent}");
     }
-    assert!(text.contains("Cases included: all 9 factored cases of the table\n"), "{text}");
+    assert!(
+        text.contains("Cases included: all 9 factored cases of the table\n"),
+        "{text}"
+    );
 }
 
 #[test]
@@ -441,7 +471,10 @@ fn limits_follow_set_and_an_unknown_parameter_is_refused() {
         },
     )
     .unwrap_err();
-    assert!(err.to_string().contains("drift_h_nothing") || format!("{err:?}").contains("drift_h_nothing"));
+    assert!(
+        err.to_string().contains("drift_h_nothing")
+            || format!("{err:?}").contains("drift_h_nothing")
+    );
 }
 
 #[test]
@@ -451,14 +484,13 @@ fn solve_states_its_stiffness_and_uses_gross_by_default() {
     let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/office-3story.toml");
     let fmt = plumbline::report::OutputFormat::Json;
     let doc = |s: &str| -> serde_json::Value {
-        serde_json::from_str(&plumbline::app::solve(&path, "WL", s, fmt).unwrap()).unwrap()
+        serde_json::from_str(&plumbline::app::solve_with(&path, "WL", s, fmt).unwrap()).unwrap()
     };
     let (g, r) = (doc("gross"), doc("aisc-direct"));
     assert_eq!(g["stiffness"], "gross");
     assert_eq!(r["stiffness"], "aisc-direct");
     let ux = |d: &serde_json::Value| d["displacements"][1]["ux"].as_f64().unwrap();
     assert!((ux(&r) - ux(&g) / 0.8).abs() <= 1e-9 * ux(&g).abs());
-    let text = plumbline::app::solve(&path, "WL", "gross", plumbline::report::OutputFormat::Table)
-        .unwrap();
+    let text = plumbline::app::solve(&path, "WL", plumbline::report::OutputFormat::Table).unwrap();
     assert!(text.lines().nth(1).unwrap().contains("stiffness gross"));
 }

@@ -151,17 +151,20 @@ impl Ctx {
         names: &[&str],
     ) -> Result<T, FileError> {
         let listed = names.contains(&v.get_ref().as_str());
-        T::from_str(v.get_ref()).ok().filter(|_| listed).ok_or_else(|| {
-            self.err(
-                v.span(),
-                field,
-                format!(
-                    "expected one of {}, got \"{}\"",
-                    names.join(", "),
-                    v.get_ref()
-                ),
-            )
-        })
+        T::from_str(v.get_ref())
+            .ok()
+            .filter(|_| listed)
+            .ok_or_else(|| {
+                self.err(
+                    v.span(),
+                    field,
+                    format!(
+                        "expected one of {}, got \"{}\"",
+                        names.join(", "),
+                        v.get_ref()
+                    ),
+                )
+            })
     }
 }
 

@@ -227,7 +227,8 @@ fn governed_by(s: &Summary, id: &str) -> Vec<String> {
 /// the governing service case and the tables.
 fn service_section(model: &Model, r: &crate::service::ServiceReport) -> String {
     use super::service;
-    let mut out = String::from("<h2 class=\"pagebreak\" id=\"serviceability\">Serviceability</h2><ul>");
+    let mut out =
+        String::from("<h2 class=\"pagebreak\" id=\"serviceability\">Serviceability</h2><ul>");
     for l in service::heading_lines(r) {
         out.push_str(&format!("<li>{}</li>", esc(&l)));
     }
@@ -238,9 +239,10 @@ fn service_section(model: &Model, r: &crate::service::ServiceReport) -> String {
          height, one line per governing case; the dashed red line is each story's limit \
          h/N.</figcaption></figure>",
     );
-    if let (Some((svg, factor)), Some(c)) =
-        (service::deflected_shape_svg(model, r, WIDTH), r.shape.as_ref())
-    {
+    if let (Some((svg, factor)), Some(c)) = (
+        service::deflected_shape_svg(model, r, WIDTH),
+        r.shape.as_ref(),
+    ) {
         out.push_str("<figure>");
         out.push_str(&svg);
         out.push_str(&format!(
@@ -348,6 +350,19 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         );
     }
 
+    if !s.has_strength() {
+        // A serviceability table alone: no design moments, stories or member envelope.
+        if let Some(r) = s.service {
+            out.push_str(&service_section(model, r));
+        }
+        out.push_str(&format!(
+            "<div class=\"caution\"><strong>Caution.</strong> {} Combination table source: {}.</div>",
+            esc(CAUTION),
+            esc(&s.table.source)
+        ));
+        out.push_str("</body></html>\n");
+        return out;
+    }
     out.push_str("<h2 class=\"pagebreak\" id=\"moments\">Design moments</h2>");
     out.push_str(&format!(
         "<p class=\"legend\"><span><i class=\"swatch\" style=\"background:{}\"></i>positive (local −y face in tension: sagging of a beam)</span>\

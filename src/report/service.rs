@@ -53,9 +53,14 @@ pub fn story_table(model: &Model, r: &ServiceReport) -> Table {
                     )
                 }
                 None => {
-                    let d = case(&s.largest_case)
-                        .map_or(0.0, |c| c.stories[s.story - 1].drift());
-                    (d, "none".into(), "-".into(), s.largest_case.clone(), "no limit".into())
+                    let d = case(&s.largest_case).map_or(0.0, |c| c.stories[s.story - 1].drift());
+                    (
+                        d,
+                        "none".into(),
+                        "-".into(),
+                        s.largest_case.clone(),
+                        "no limit".into(),
+                    )
                 }
             };
             let amp = case(&id)
@@ -296,7 +301,10 @@ mod colour {
 fn profile_cases(r: &ServiceReport) -> Vec<&str> {
     let mut out: Vec<&str> = Vec::new();
     for s in &r.stories {
-        let id = s.governing.as_ref().map_or(s.largest_case.as_str(), |g| g.case.as_str());
+        let id = s
+            .governing
+            .as_ref()
+            .map_or(s.largest_case.as_str(), |g| g.case.as_str());
         if !out.contains(&id) {
             out.push(id);
         }
@@ -321,7 +329,12 @@ pub fn drift_profile_svg(r: &ServiceReport, width: f64) -> String {
     let ratio_of = |c: &crate::service::ServiceCase, s: usize| {
         (c.stories[s].drift() / c.stories[s].height).abs()
     };
-    let limit_ratio = |s: usize| r.stories[s].governing.as_ref().map(|g| g.limit / r.stories[s].height);
+    let limit_ratio = |s: usize| {
+        r.stories[s]
+            .governing
+            .as_ref()
+            .map(|g| g.limit / r.stories[s].height)
+    };
     let mut xmax = 0.0_f64;
     for id in &cases {
         if let Some(c) = r.cases.iter().find(|c| c.id == *id) {
@@ -333,7 +346,11 @@ pub fn drift_profile_svg(r: &ServiceReport, width: f64) -> String {
     for s in 0..r.stories.len() {
         xmax = xmax.max(limit_ratio(s).unwrap_or(0.0));
     }
-    let xmax = if xmax > 0.0 && xmax.is_finite() { xmax * 1.1 } else { 1.0 };
+    let xmax = if xmax > 0.0 && xmax.is_finite() {
+        xmax * 1.1
+    } else {
+        1.0
+    };
     let px = |x: f64| left + (width - left - right) * x / xmax;
     let py = |y: f64| height - bottom - (height - top - bottom) * y / total_h;
     let mut out = format!(
