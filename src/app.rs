@@ -875,6 +875,20 @@ fn service_settings(
         // A table run alone has its parameters listed once, as the run's table.
         out.extend(param_settings(model, t, cli_params, "service parameter"));
     }
+    // Of the allowable seismic drifts, only the risk category's (none while the seismic
+    // check is off).
+    let chosen = s.report.limits.seismic.map(|l| {
+        format!(
+            "{}{}",
+            crate::service::params::SEISMIC_DRIFT_PREFIX,
+            l.risk_category
+        )
+    });
+    out.retain(|x| {
+        let name = x.setting.rsplit(' ').next().unwrap_or_default();
+        !name.starts_with(crate::service::params::SEISMIC_DRIFT_PREFIX)
+            || chosen.as_deref() == Some(name)
+    });
     let preset: crate::model::StiffnessPreset = s.report.stiffness.parse().unwrap_or_default();
     out.push(Setting {
         setting: "service stiffness".into(),

@@ -495,3 +495,26 @@ fn solve_states_its_stiffness_and_uses_gross_by_default() {
     let text = plumbline::app::solve(&path, "WL", plumbline::report::OutputFormat::Table).unwrap();
     assert!(text.lines().nth(1).unwrap().contains("stiffness gross"));
 }
+
+#[test]
+fn the_html_report_draws_the_drift_profile_and_the_deflected_shape() {
+    // Issue 18 item 5: one stepped drift line per governing case with the limit drawn, and
+    // the governing service case's deflected shape (lines of their own class, so that the
+    // frame's members are still drawn once each).
+    let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/office-3story.toml");
+    let html = plumbline::app::report(&path, &Default::default(), &mut |_, _| {}).unwrap();
+    assert_eq!(html.matches("class=\"drawing drift-profile\"").count(), 1);
+    assert!(html.contains("<polyline class=\"drift\" data-case=\"C-2/2\""));
+    assert_eq!(
+        html.matches("<line class=\"limit\"").count(),
+        3,
+        "one limit per story"
+    );
+    assert_eq!(
+        html.matches("<line class=\"shape\"").count(),
+        15,
+        "every member once"
+    );
+    assert!(html.contains("Deflected shape of the governing service case C-2/2"));
+    assert!(html.contains(plumbline::CAUTION));
+}

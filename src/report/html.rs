@@ -291,14 +291,21 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
                 esc(&s.table.name)
             ),
         ),
-        (
-            "Second-order method",
-            esc(&format!(
-                "{}: {}",
-                s.report.method,
-                super::check::method_title(s.report.method)
-            )),
-        ),
+        if s.has_strength() {
+            (
+                "Second-order method",
+                esc(&format!(
+                    "{}: {}",
+                    s.report.method,
+                    super::check::method_title(s.report.method)
+                )),
+            )
+        } else {
+            (
+                "Analysis",
+                "serviceability: P-Δ at service load, no notional loads, no amplifiers".into(),
+            )
+        },
         ("Cases", esc(&s.selection.heading())),
         (
             "Program",

@@ -84,7 +84,7 @@ pub fn story_table(model: &Model, r: &ServiceReport) -> Table {
         })
         .collect();
     Table {
-        name: "service_stories",
+        name: "service-stories",
         title: "Story drift under service loads (P-Δ at service load), governing case against \
                 its limit"
             .into(),
@@ -133,7 +133,7 @@ pub fn beam_table(model: &Model, r: &ServiceReport) -> Table {
         })
         .collect();
     Table {
-        name: "service_beams",
+        name: "service-beams",
         title: "Beam deflection relative to the chord: variable gravity part (live) and whole \
                 case (total)"
             .into(),
@@ -183,7 +183,7 @@ pub fn seismic_table(model: &Model, r: &ServiceReport) -> Table {
         None => "Seismic story drift".into(),
     };
     Table {
-        name: "service_seismic",
+        name: "service-seismic",
         title,
         header: vec![
             "story".into(),
