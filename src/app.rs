@@ -166,9 +166,27 @@ fn table_and_settings(
     Ok((table, settings))
 }
 
-/// `plumbline solve MODEL --case ID`: the first-order solution of one load case.
+/// `plumbline solve MODEL --case ID`: the first-order solution of one load case, with
+/// gross section properties (a load case is a service load: the strength method's reduced
+/// stiffness does not apply).
 pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<String, AppError> {
-    let model = load_model(model_path)?;
+    solve_with(model_path, case, "gross", format)
+}
+
+/// [`solve`] with the member stiffness preset `stiffness` (`--stiffness`).
+pub fn solve_with(
+    model_path: &Path,
+    case: &str,
+    stiffness: &str,
+    format: OutputFormat,
+) -> Result<String, AppError> {
+    use std::str::FromStr;
+    let mut model = load_model(model_path)?;
+    model.analysis.stiffness = crate::model::StiffnessPreset::from_str(stiffness).map_err(|_| {
+        AppError::Usage(format!(
+            "--stiffness: expected gross, aci-cracked, aisc-direct or aci-service, got \"{stiffness}\""
+        ))
+    })?;
     let k = model.case_index(case).ok_or_else(|| {
         let ids: Vec<&str> = model.load_cases.iter().map(|c| c.id.as_str()).collect();
         AppError::Usage(format!(
@@ -239,6 +257,11 @@ pub struct CheckArgs {
     pub detail: bool,
     /// Add the approximate check (hand methods beside the stiffness solution).
     pub approximate: bool,
+    /// `--service`: the serviceability table of the run (shipped name or path); overrides
+    /// the model's `[combinations] service`.
+    pub service: Option<String>,
+    /// `--service-stiffness`: `gross` or `aci-service`; overrides the model.
+    pub service_stiffness: Option<String>,
 }
 
 /// Exit status of the program (documented in the README, "Exit status").
@@ -268,11 +291,15 @@ pub fn apply_settings(
         if s == "auto" {
             a.origin.stiffness = SettingOrigin::MethodDefault;
         } else {
-            a.stiffness = StiffnessPreset::from_str(s).map_err(|_| {
-                AppError::Usage(format!(
-                    "--stiffness: expected gross, aci-cracked, aisc-direct or auto, got \"{s}\""
-                ))
-            })?;
+            a.stiffness = StiffnessPreset::from_str(s)
+                .ok()
+                .filter(|p| !p.is_service_only())
+                .ok_or_else(|| {
+                    AppError::Usage(format!(
+                        "--stiffness: expected gross, aci-cracked, aisc-direct or auto, got \"{s}\" \
+                         (aci-service is the serviceability preset: --service-stiffness)"
+                    ))
+                })?;
             a.origin.stiffness = SettingOrigin::CommandLine;
         }
     }
@@ -316,7 +343,7 @@ fn origin_source(o: crate::model::SettingOrigin, key: &str, method: SecondOrderM
 }
 
 /// Plain words for a stiffness preset, with its clause.
-fn stiffness_words(p: crate::model::StiffnessPreset) -> &'static str {
+pub fn stiffness_words(p: crate::model::StiffnessPreset) -> &'static str {
     use crate::model::StiffnessPreset;
     match p {
         StiffnessPreset::Gross => "gross: gross section properties",
@@ -326,6 +353,7 @@ fn stiffness_words(p: crate::model::StiffnessPreset) -> &'static str {
         StiffnessPreset::AiscDirect => {
             "aisc-direct: AISC 360-16 §C2.3 direct-analysis rules, 0.8·τb·EI with τb = 1.0, 0.8·EA"
         }
+        StiffnessPreset::AciService => crate::service::stiffness_words(p),
     }
 }
 
@@ -344,6 +372,16 @@ pub struct CheckRun {
     pub envelope: Envelope,
     /// The approximate check of the same cases, when asked for.
     pub approximate: Option<crate::approx::ApproxReport>,
+    /// The serviceability half of the run, when it has a serviceability table.
+    pub service: Option<ServiceRun>,
+}
+
+/// The serviceability half of a `check` run.
+pub struct ServiceRun {
+    pub table: ComboTable,
+    /// The service cases analysed.
+    pub cases: Vec<FactoredCase>,
+    pub report: crate::service::ServiceReport,
 }
 
 impl CheckRun {
@@ -365,7 +403,13 @@ impl CheckRun {
             settings: self.settings.clone(),
             selection: self.selection.clone(),
             envelope: self.envelope.clone(),
+            service: self.service.as_ref().map(|s| &s.report),
         }
+    }
+
+    /// Whether the run has a strength half (a run of a serviceability table alone has not).
+    pub fn has_strength(&self) -> bool {
+        self.table.basis != crate::combos::Basis::Serviceability
     }
 }
 
@@ -396,6 +440,52 @@ fn model_keys(path: &Path) -> std::collections::BTreeSet<String> {
     out
 }
 
+/// One assumptions row per parameter of `table`: its value and where it came from; `label`
+/// starts each row's name.
+fn param_settings(
+    model: &Model,
+    table: &ComboTable,
+    cli_params: &BTreeMap<String, f64>,
+    label: &str,
+) -> Vec<Setting> {
+    let mut out = Vec::new();
+    for p in &table.params {
+        let (value, source) = if let Some(v) = cli_params.get(&p.name) {
+            (
+                crate::report::num(*v, 4),
+                "command line (--set)".to_string(),
+            )
+        } else if let Some(v) = model.combos.params.get(&p.name) {
+            (
+                crate::report::num(*v, 4),
+                "model file (combinations.params)".to_string(),
+            )
+        } else if let Some(d) = &p.default {
+            (
+                d.text.clone(),
+                format!("table default {}", p.tag.clone().unwrap_or_default())
+                    .trim()
+                    .to_string(),
+            )
+        } else {
+            (
+                "not set".into(),
+                if label == "parameter" {
+                    "no default: combinations that need it are skipped".into()
+                } else {
+                    "no default: the limit that needs it is not checked".into()
+                },
+            )
+        };
+        out.push(Setting {
+            setting: format!("{label} {}", p.name),
+            value,
+            source,
+        });
+    }
+    out
+}
+
 /// Each setting of a run with its value and where it came from.
 fn settings(
     model: &Model,
@@ -422,36 +512,7 @@ fn settings(
         ),
         source: from(args.combos.is_some(), "combinations.table"),
     }];
-    for p in &table.params {
-        let (value, source) = if let Some(v) = cli_params.get(&p.name) {
-            (
-                crate::report::num(*v, 4),
-                "command line (--set)".to_string(),
-            )
-        } else if let Some(v) = model.combos.params.get(&p.name) {
-            (
-                crate::report::num(*v, 4),
-                "model file (combinations.params)".to_string(),
-            )
-        } else if let Some(d) = &p.default {
-            (
-                d.text.clone(),
-                format!("table default {}", p.tag.clone().unwrap_or_default())
-                    .trim()
-                    .to_string(),
-            )
-        } else {
-            (
-                "not set".into(),
-                "no default: combinations that need it are skipped".into(),
-            )
-        };
-        out.push(Setting {
-            setting: format!("parameter {}", p.name),
-            value,
-            source,
-        });
-    }
+    out.extend(param_settings(model, table, cli_params, "parameter"));
     let a = &model.analysis;
     out.push(Setting {
         setting: "second-order method".into(),
@@ -538,12 +599,56 @@ pub fn run_check(
         args.stiffness.as_deref(),
         args.notional.as_deref(),
     )?;
-    let (table, combo_settings) =
-        table_and_settings(&model, model_path, args.combos.as_deref(), &args.sets)?;
     let cli_params = parse_sets(&args.sets)?;
+    let table = resolve_table(&model, model_path, args.combos.as_deref())?;
+    let own = match &args.combos {
+        Some(_) => own_table(&model, model_path)?,
+        None => Some(table.clone()),
+    };
+    let service_only = table.basis == crate::combos::Basis::Serviceability;
+    let service_table = match (args.service.as_deref(), service_only) {
+        (Some(name), _) => Some(named_table(name, "--service")?),
+        (None, true) => Some(table.clone()),
+        (None, false) => model_service_table(&model, model_path)?,
+    };
+    if let Some(t) = service_table
+        .as_ref()
+        .filter(|t| t.basis != crate::combos::Basis::Serviceability)
+    {
+        return Err(AppError::Usage(format!(
+            "the serviceability table {} has basis {}: name a table of basis serviceability \
+             (`plumbline combos` lists them)",
+            t.file, t.basis
+        )));
+    }
+    let other = |t: &ComboTable| -> Option<ComboTable> {
+        service_table.as_ref().filter(|s| s.file != t.file).cloned()
+    };
+    let combo_settings = split_settings(
+        Settings::for_model(&model, own.as_ref(), &cli_params),
+        &table,
+        other(&table).as_ref(),
+    );
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
     let arranged = crate::arrange::arrange(&model);
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    let service = match &service_table {
+        Some(st) => {
+            let settings = split_settings(
+                Settings::for_model(&model, own.as_ref(), &cli_params),
+                st,
+                Some(&table).filter(|t| t.file != st.file),
+            );
+            let exp = arranged.apply(expand_with(st, &model.load_cases, &settings)?);
+            let values = crate::combos::param_values(st, &settings)?;
+            Some((
+                st.clone(),
+                exp,
+                crate::service::ServiceLimits::from_params(&values),
+            ))
+        }
+        None => None,
+    };
     let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
@@ -557,16 +662,46 @@ pub fn run_check(
             )));
         }
     }
-    let mut report = crate::check::check_with_progress(&model, &cases, progress)
-        .map_err(|e| analysis(model_path, e))?;
+    let mut report = if service_only {
+        empty_report(&model)
+    } else {
+        crate::check::check_with_progress(&model, &cases, progress)
+            .map_err(|e| analysis(model_path, e))?
+    };
     if let Some(prefix) = &args.case {
         report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
     }
+    let service = match service {
+        Some((st, exp, limits)) => {
+            let mut smodel = crate::service::service_model(&model);
+            if let Some(p) = args.service_stiffness.as_deref() {
+                smodel.analysis.stiffness = service_stiffness(p)?;
+            }
+            let scases = if service_only && st.file == table.file {
+                cases.clone()
+            } else {
+                exp.cases
+            };
+            let line = format!("{}; {}; edition {}", st.title, st.standard, st.edition);
+            let r = crate::service::service_check(&smodel, &scases, &limits, (&st.file, &line))
+                .map_err(|e| analysis(model_path, e))?;
+            Some(ServiceRun {
+                table: st,
+                cases: scases,
+                report: r,
+            })
+        }
+        None => None,
+    };
+    let analysed = match (&service, service_only) {
+        (Some(s), true) => s.report.cases.iter().map(|c| c.id.clone()).collect(),
+        _ => report.cases.iter().map(|c| c.id.clone()).collect(),
+    };
     let selection = Selection {
         filter: args.case.clone(),
         table_cases: expansion.cases.len(),
         selected: cases.len(),
-        analysed: report.cases.iter().map(|c| c.id.clone()).collect(),
+        analysed,
         remarks: expansion_summary(&expansion)
             .lines()
             .skip(1)
@@ -575,7 +710,27 @@ pub fn run_check(
     };
     let mut settings = settings(&model, model_path, &table, args, &cli_params);
     settings.extend(crate::report::summary::second_order_setting(&report));
-    settings.push(crate::report::handoff::handoff_setting(report.method));
+    if !service_only {
+        settings.push(crate::report::handoff::handoff_setting(report.method));
+    }
+    if service_only {
+        // No strength analysis ran: its method, stiffness and notional loads do not apply.
+        settings.retain(|s| {
+            !STRENGTH_ONLY_SETTINGS
+                .iter()
+                .any(|p| s.setting.starts_with(p))
+        });
+    }
+    if let Some(s) = &service {
+        settings.extend(service_settings(
+            &model,
+            args,
+            s,
+            &cli_params,
+            model_path,
+            service_only,
+        ));
+    }
     let envelope = crate::envelope::envelope(&report);
     let approximate = if args.approximate {
         let th = crate::approx::Thresholds::default();
@@ -604,7 +759,161 @@ pub fn run_check(
         selection,
         envelope,
         approximate,
+        service,
     })
+}
+
+/// Assumptions rows of the strength analysis, left out of a serviceability run alone.
+const STRENGTH_ONLY_SETTINGS: [&str; 4] = [
+    "second-order method",
+    "analysis stiffness",
+    "notional loads",
+    "βdns",
+];
+
+/// A table named on the command line by `option` (a shipped name or a path).
+fn named_table(name: &str, option: &str) -> Result<ComboTable, AppError> {
+    load_table(name, Some(Path::new("."))).map_err(|e| {
+        if e.line > 0 {
+            return AppError::from(e);
+        }
+        AppError::from(FileError {
+            file: "command line".to_string(),
+            field: format!("{option} {name}"),
+            ..e
+        })
+    })
+}
+
+/// The model's serviceability table (`[combinations] service`), when it names one; an error
+/// reading it points at the model's line.
+fn model_service_table(model: &Model, model_path: &Path) -> Result<Option<ComboTable>, AppError> {
+    let Some(name) = model.combos.service.as_deref() else {
+        return Ok(None);
+    };
+    load_table(name, Some(&model_dir(model_path)))
+        .map(Some)
+        .map_err(|e| {
+            if e.line > 0 {
+                return AppError::from(e);
+            }
+            let w = &model.combos.written;
+            let mut located = w.error(w.service.clone(), "combinations.service", e.message);
+            located.help = e.help;
+            AppError::from(located)
+        })
+}
+
+/// `settings` for `table` when the run also uses `other`: the parameters (model and
+/// command line) that only `other` declares are left to it. A parameter neither declares
+/// stays, so that `table`'s expansion reports it.
+fn split_settings(
+    mut settings: Settings,
+    table: &ComboTable,
+    other: Option<&ComboTable>,
+) -> Settings {
+    if let Some(other) = other {
+        let keep = |k: &String| table.param(k).is_some() || other.param(k).is_none();
+        settings.model_params.retain(|k, _| keep(k));
+        settings.sets.retain(|k, _| keep(k));
+    }
+    settings
+}
+
+/// `--service-stiffness`: `gross` or `aci-service`.
+fn service_stiffness(p: &str) -> Result<crate::model::StiffnessPreset, AppError> {
+    use std::str::FromStr;
+    crate::input::validate::SERVICE_STIFFNESS_NAMES
+        .contains(&p)
+        .then(|| crate::model::StiffnessPreset::from_str(p).ok())
+        .flatten()
+        .ok_or_else(|| {
+            AppError::Usage(format!(
+                "--service-stiffness: expected gross or aci-service, got \"{p}\""
+            ))
+        })
+}
+
+/// A report with no strength cases (a run of a serviceability table alone).
+fn empty_report(model: &Model) -> CheckReport {
+    CheckReport {
+        title: model.title.clone(),
+        method: model.analysis.method,
+        stiffness: model.analysis.stiffness,
+        notional: model.analysis.notional,
+        origin: model.analysis.origin,
+        stories: Vec::new(),
+        cases: Vec::new(),
+        supports: crate::check::support_info(model),
+        service_reactions: Vec::new(),
+        warnings: Vec::new(),
+        caution: crate::CAUTION.to_string(),
+    }
+}
+
+/// The assumptions of the serviceability half: its table, stiffness and limit parameters.
+fn service_settings(
+    model: &Model,
+    args: &CheckArgs,
+    s: &ServiceRun,
+    cli_params: &BTreeMap<String, f64>,
+    model_path: &Path,
+    alone: bool,
+) -> Vec<Setting> {
+    let keys = model_keys(model_path);
+    let t = &s.table;
+    let mut out = vec![Setting {
+        setting: "serviceability table".into(),
+        value: format!(
+            "{}: {}; {}; edition {}",
+            t.file, t.title, t.standard, t.edition
+        ),
+        source: if args.service.is_some() {
+            "command line (--service)".into()
+        } else if keys.contains("combinations.service") {
+            "model file (combinations.service)".into()
+        } else {
+            "combination table (basis serviceability)".into()
+        },
+    }];
+    if !alone {
+        // A table run alone has its parameters listed once, as the run's table.
+        out.extend(param_settings(model, t, cli_params, "service parameter"));
+    }
+    // Of the allowable seismic drifts, only the risk category's (none while the seismic
+    // check is off).
+    let chosen = s.report.limits.seismic.map(|l| {
+        format!(
+            "{}{}",
+            crate::service::params::SEISMIC_DRIFT_PREFIX,
+            l.risk_category
+        )
+    });
+    out.retain(|x| {
+        let name = x.setting.rsplit(' ').next().unwrap_or_default();
+        !name.starts_with(crate::service::params::SEISMIC_DRIFT_PREFIX)
+            || chosen.as_deref() == Some(name)
+    });
+    let preset: crate::model::StiffnessPreset = s.report.stiffness.parse().unwrap_or_default();
+    out.push(Setting {
+        setting: "service stiffness".into(),
+        value: crate::service::stiffness_words(preset).into(),
+        source: if args.service_stiffness.is_some() {
+            "command line (--service-stiffness)".into()
+        } else if keys.contains("analysis.service_stiffness") {
+            "model file (analysis.service_stiffness)".into()
+        } else if model.analysis.method == SecondOrderMethod::AciMagnifier {
+            "program default for a concrete frame (aci-magnifier)".into()
+        } else {
+            "program default".into()
+        },
+    });
+    out.push(Setting {
+        setting: "service analysis".into(),
+        value: "P-Δ at service load, no notional loads, no amplifiers".into(),
+        source: "program (serviceability basis)".into(),
+    });
+    out
 }
 
 /// Refuse an output file that is one of the input files (the model or a table file named
@@ -758,7 +1067,11 @@ pub fn check_output_status(
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<(Rendered, bool), AppError> {
     let run = run_check(model_path, args, progress)?;
-    let unstable = run.report.cases.iter().any(|c| !c.stable);
+    let unstable = run.report.cases.iter().any(|c| !c.stable)
+        || run
+            .service
+            .as_ref()
+            .is_some_and(|s| s.report.cases.iter().any(|c| !c.converged));
     let rendered = render_check(&run, args.format, args.detail || args.case.is_some());
     Ok((rendered, unstable))
 }

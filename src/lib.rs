@@ -34,6 +34,7 @@ pub mod input;
 pub mod limits;
 pub mod model;
 pub mod report;
+pub mod service;
 pub mod solve;
 pub mod stories;
 pub mod units;

@@ -64,6 +64,11 @@ struct SolveArgs {
     /// Id of the load case to solve.
     #[arg(long)]
     case: String,
+    /// Member stiffness: gross (the default: a service load case), aci-cracked,
+    /// aisc-direct or aci-service.
+    #[arg(long, value_name = "PRESET", default_value = "gross",
+          value_parser = ["gross", "aci-cracked", "aisc-direct", "aci-service"])]
+    stiffness: String,
     /// table: aligned tables in the model's units; json: SI base units; csv: member ends.
     #[arg(long, value_enum, default_value_t)]
     format: OutputFormat,
@@ -123,6 +128,16 @@ struct RunCli {
     /// Only the factored cases whose id starts with this (implies --detail).
     #[arg(long)]
     case: Option<String>,
+    /// Serviceability table (a shipped name or a path, basis serviceability): adds the
+    /// serviceability half (story drift, beam deflection, limits and verdicts); overrides the
+    /// model's [combinations] service.
+    #[arg(long, value_name = "NAME|PATH")]
+    service: Option<String>,
+    /// Stiffness of the serviceability analysis: gross, or aci-service (ACI 318-19
+    /// §6.6.3.2.2, 1.4 × the cracked values, at most Ig); default gross (aci-service under
+    /// aci-magnifier); overrides the model's [analysis] service_stiffness.
+    #[arg(long, value_name = "PRESET", value_parser = ["gross", "aci-service"])]
+    service_stiffness: Option<String>,
 }
 
 impl RunCli {
@@ -135,6 +150,8 @@ impl RunCli {
             stiffness: self.stiffness,
             notional: self.notional,
             case: self.case,
+            service: self.service,
+            service_stiffness: self.service_stiffness,
             format,
             detail,
             ..Default::default()
@@ -281,7 +298,10 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         unstable: false,
     };
     Ok(match cli.command {
-        Command::Solve(a) => text(app::solve(&a.model, &a.case, a.format)?, a.out.output),
+        Command::Solve(a) => text(
+            app::solve_with(&a.model, &a.case, &a.stiffness, a.format)?,
+            a.out.output,
+        ),
         Command::Cases(a) => text(
             app::cases(&a.model, a.combos.as_deref(), &a.sets, a.format)?,
             a.out.output,

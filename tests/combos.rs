@@ -606,7 +606,7 @@ fn asnzs1170_0_all_actions() {
 #[test]
 fn every_shipped_table_carries_source_caution_and_tags() {
     // Working rule 4 and the notes' instruction to carry confidence tags into data files.
-    assert_eq!(shipped_tables().len(), 9);
+    assert_eq!(shipped_tables().len(), 12);
     for s in shipped_tables() {
         let t = parse_table(s.text, s.name).unwrap();
         let caution = "verify against the edition adopted where the building stands";
@@ -1680,4 +1680,77 @@ fn shipped_tables_cite_no_blog_or_upload_site_and_state_levels() {
             }
         }
     }
+}
+
+#[test]
+fn asce7_16_service_all_actions() {
+    // ASCE/SEI 7-16 Commentary to Appendix C [M]: deflection under D + L + (Lr or S or R),
+    // each variable term also absent; drift under D + 0.5L + Wa with Wa = 0.42·W (wa_factor
+    // [M]), L also absent. E is not combined (the §12.8.6 drift check uses it alone).
+    let cases = every_category();
+    let (t, e) = run("asce7-16-service", &cases, &[]);
+    assert_eq!(t.basis, Basis::Serviceability);
+    assert_cases(
+        &e,
+        &cases,
+        &[
+            ("C-1a", "dead*1.0 live*1.0 roof-live*1.0"),
+            ("C-1b", "dead*1.0 live*1.0 snow*1.0"),
+            ("C-1c", "dead*1.0 live*1.0 rain*1.0"),
+            ("C-1a~Lr", "dead*1.0 live*1.0"),
+            ("C-1a~L", "dead*1.0 roof-live*1.0"),
+            ("C-1b~L", "dead*1.0 snow*1.0"),
+            ("C-1c~L", "dead*1.0 rain*1.0"),
+            ("C-1a~L~Lr", "dead*1.0"),
+            ("C-2", "dead*1.0 live*0.5 wind*0.42"),
+            ("C-2~L", "dead*1.0 wind*0.42"),
+        ],
+    );
+    // The factor on the strength-level W is the parameter wa_factor, and only it.
+    let (_, e2) = run("asce7-16-service", &cases, &[("wa_factor", 0.5)]);
+    for (a, b) in e.cases.iter().zip(&e2.cases) {
+        for (k, c) in cases.iter().enumerate() {
+            let changed = (a.factor_of(k) - b.factor_of(k)).abs() > 1e-12;
+            let wind = c.category == ActionCategory::Wind && a.factor_of(k) != 0.0;
+            assert_eq!(changed, wind, "{} {}", a.id, c.id);
+        }
+    }
+}
+
+#[test]
+fn permanent_only_asce7_16_service() {
+    // ASCE/SEI 7-16 Commentary to Appendix C [M]: D alone is the deflection case.
+    let (_, e) = run("asce7-16-service", &permanent_only(), &[]);
+    assert_cases(&e, &permanent_only(), &[("C-1a", "G*1.0")]);
+}
+
+#[test]
+fn en1990_sls_frequent_all_actions() {
+    // EN 1990 §6.5.3 (6.15b) [C: infosteel MSB03/15]: Gk + ψ1,1·Qk,1 + Σ ψ2,i·Qk,i with
+    // Table A1.1 ψ1 = 0.5 / 0.2 / 0.2 / 0.5 and ψ2 = 0.3 / 0 / 0 / 0 (offices, snow below
+    // 1000 m, wind, temperature). The leading rows, every accompanying action present (a
+    // zero factor leaves its action out of the case):
+    let cases = every_category();
+    let (t, e) = run("en1990-sls-frequent", &cases, &[]);
+    assert_eq!(t.basis, Basis::Serviceability);
+    assert_cases(
+        &natural(&e),
+        &cases,
+        &[
+            ("6.15b-1a", "dead*1.0 live*0.5"),
+            ("6.15b-1b", "dead*1.0 snow*0.2 live*0.3"),
+            ("6.15b-1c", "dead*1.0 wind*0.2 live*0.3"),
+            ("6.15b-1d", "dead*1.0 temperature*0.5 live*0.3"),
+        ],
+    );
+}
+
+#[test]
+fn en1990_sls_quasi_permanent_all_actions() {
+    // EN 1990 §6.5.3 (6.16b) [C: infosteel MSB03/15]: Gk + Σ ψ2,i·Qk,i, ψ2 = 0.3 for office
+    // floors and 0 for snow below 1000 m, wind and temperature (Table A1.1).
+    let cases = every_category();
+    let (t, e) = run("en1990-sls-quasi-permanent", &cases, &[]);
+    assert_eq!(t.basis, Basis::Serviceability);
+    assert_cases(&natural(&e), &cases, &[("6.16b-1", "dead*1.0 live*0.3")]);
 }

@@ -231,13 +231,7 @@ pub fn expand_with(
     cases: &[LoadCase],
     settings: &Settings,
 ) -> Result<Expansion, FileError> {
-    let overrides = checked_overrides(table, settings)?;
-    let defaults = table
-        .params
-        .iter()
-        .map(|p| (p.name.clone(), p.default.as_ref().map(|d| d.expr.clone())))
-        .collect();
-    let values = resolve(&defaults, &overrides);
+    let values = param_values(table, settings)?;
     let scale = case_scales(table, cases, settings)?;
     let by_cat = cases_by_category(cases);
 
@@ -290,6 +284,22 @@ pub fn expand_with(
         }
     }
     Ok(out)
+}
+
+/// The value of every parameter of `table` under `settings`: the model's and the command
+/// line's values (checked as [`expand_with`] checks them), else the table's default; None
+/// where a parameter has neither.
+pub fn param_values(
+    table: &ComboTable,
+    settings: &Settings,
+) -> Result<BTreeMap<String, Option<f64>>, FileError> {
+    let overrides = checked_overrides(table, settings)?;
+    let defaults = table
+        .params
+        .iter()
+        .map(|p| (p.name.clone(), p.default.as_ref().map(|d| d.expr.clone())))
+        .collect();
+    Ok(resolve(&defaults, &overrides))
 }
 
 /// Visit every combination of one option per slot, in order (first options first).

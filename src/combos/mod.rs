@@ -32,7 +32,7 @@ use crate::model::{ActionCategory, LoadLevel};
 
 pub use expand::{
     Expansion, FactoredCase, MAX_FACTORED_CASES, Merged, Notice, Settings, Skipped, Unplaced,
-    expand, expand_with,
+    expand, expand_with, param_values,
 };
 pub use expr::Expr;
 pub use render::{
@@ -241,6 +241,9 @@ static SHIPPED: &[ShippedTable] = shipped![
     "en1990-6.10",
     "en1990-6.10ab",
     "en1990-sls-characteristic",
+    "en1990-sls-frequent",
+    "en1990-sls-quasi-permanent",
+    "asce7-16-service",
     "nbcc-2020",
     "asnzs1170-0-2002",
 ];

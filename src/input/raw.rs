@@ -223,6 +223,8 @@ pub struct RawMemberLoad {
 #[serde(deny_unknown_fields)]
 pub struct RawCombinations {
     pub table: Option<S<String>>,
+    /// The serviceability table of the run, beside the strength `table`.
+    pub service: Option<S<String>>,
     #[serde(default)]
     pub params: BTreeMap<String, S<Num>>,
     #[serde(default)]
@@ -245,6 +247,8 @@ pub struct RawConvert {
 pub struct RawAnalysis {
     pub method: Option<S<String>>,
     pub stiffness: Option<S<String>>,
+    /// Stiffness of the serviceability analysis: `gross` or `aci-service`.
+    pub service_stiffness: Option<S<String>>,
     #[serde(default)]
     pub inertia_factor: BTreeMap<String, S<Num>>,
     /// `none`, `aisc` or `ec3-imperfection`.

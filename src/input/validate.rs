@@ -28,6 +28,9 @@ use crate::units::{Dimension, UnitSystem, parse_quantity};
 pub const METHOD_NAMES: [&str; 4] = ["aisc-b1b2", "aci-magnifier", "ec3-alpha-cr", "direct"];
 /// Names accepted for [`StiffnessPreset`].
 pub const STIFFNESS_NAMES: [&str; 3] = ["gross", "aci-cracked", "aisc-direct"];
+
+/// The stiffness presets of a serviceability analysis.
+pub const SERVICE_STIFFNESS_NAMES: [&str; 2] = ["gross", "aci-service"];
 /// Names accepted for [`Role`].
 pub const ROLE_NAMES: [&str; 3] = ["column", "beam", "brace"];
 /// Names accepted for [`LoadDirection`].
@@ -147,17 +150,21 @@ impl Ctx {
         field: &str,
         names: &[&str],
     ) -> Result<T, FileError> {
-        T::from_str(v.get_ref()).map_err(|_| {
-            self.err(
-                v.span(),
-                field,
-                format!(
-                    "expected one of {}, got \"{}\"",
-                    names.join(", "),
-                    v.get_ref()
-                ),
-            )
-        })
+        let listed = names.contains(&v.get_ref().as_str());
+        T::from_str(v.get_ref())
+            .ok()
+            .filter(|_| listed)
+            .ok_or_else(|| {
+                self.err(
+                    v.span(),
+                    field,
+                    format!(
+                        "expected one of {}, got \"{}\"",
+                        names.join(", "),
+                        v.get_ref()
+                    ),
+                )
+            })
     }
 }
 
@@ -896,8 +903,10 @@ fn combinations(ctx: &Ctx, raw: Option<&S<RawCombinations>>) -> Result<ComboChoi
         written.conversions.push(cv.span());
     }
     written.table = c.table.as_ref().map(|t| t.span());
+    written.service = c.service.as_ref().map(|t| t.span());
     Ok(ComboChoice {
         table: c.table.as_ref().map(|t| t.get_ref().clone()),
+        service: c.service.as_ref().map(|t| t.get_ref().clone()),
         params,
         conversions,
         written,
@@ -923,6 +932,13 @@ fn analysis(
     if let Some(s) = a.stiffness.as_ref().filter(|s| s.get_ref() != "auto") {
         out.stiffness = ctx.choice::<StiffnessPreset>(s, "analysis.stiffness", &STIFFNESS_NAMES)?;
         out.origin.stiffness = SettingOrigin::Model;
+    }
+    if let Some(s) = &a.service_stiffness {
+        out.service_stiffness = Some(ctx.choice::<StiffnessPreset>(
+            s,
+            "analysis.service_stiffness",
+            &SERVICE_STIFFNESS_NAMES,
+        )?);
     }
     for (role, v) in &a.inertia_factor {
         let field = format!("analysis.inertia_factor.{role}");

@@ -133,6 +133,17 @@ pub enum StiffnessPreset {
     AciCracked,
     /// AISC 360-16 §C2.3: 0.8 on all stiffnesses and τb on flexural stiffness of columns.
     AiscDirect,
+    /// Service-level concrete: ACI 318-19 §6.6.3.2.2 permits 1.4 × the moments of inertia of
+    /// Table 6.6.3.1.1(a), not above Ig (from memory): 0.98 Ig columns, 0.49 Ig beams.
+    /// Only for serviceability runs.
+    AciService,
+}
+
+impl StiffnessPreset {
+    /// Whether the preset belongs to a serviceability analysis only.
+    pub fn is_service_only(self) -> bool {
+        self == StiffnessPreset::AciService
+    }
 }
 
 /// Notional lateral loads added to every factored case where the method calls for them.
@@ -165,6 +176,9 @@ pub struct AnalysisOptions {
     pub beta_dns: f64,
     /// Where the stiffness and notional settings came from.
     pub origin: SettingOrigins,
+    /// Stiffness of the serviceability analysis (`[analysis] service_stiffness`); None: the
+    /// program's default ([`AnalysisOptions::service_stiffness_or_default`]).
+    pub service_stiffness: Option<StiffnessPreset>,
 }
 
 /// Where an analysis setting came from, for the report's heading.
@@ -219,6 +233,19 @@ impl AnalysisOptions {
     }
 }
 
+impl AnalysisOptions {
+    /// The stiffness of a serviceability analysis: the model's or command line's choice, else
+    /// gross section properties, except under ACI 318's method (a concrete frame), where the
+    /// service-level preset of ACI 318-19 §6.6.3.2.2 (1.4 × the cracked values, at most Ig,
+    /// from memory) is the default.
+    pub fn service_stiffness_or_default(&self) -> StiffnessPreset {
+        self.service_stiffness.unwrap_or(match self.method {
+            SecondOrderMethod::AciMagnifier => StiffnessPreset::AciService,
+            _ => StiffnessPreset::Gross,
+        })
+    }
+}
+
 impl Default for AnalysisOptions {
     fn default() -> Self {
         AnalysisOptions {
@@ -229,6 +256,7 @@ impl Default for AnalysisOptions {
             segments: 4,
             beta_dns: 0.6,
             origin: SettingOrigins::default(),
+            service_stiffness: None,
         }
     }
 }
@@ -246,6 +274,8 @@ pub struct StoryDeclaration {
 pub struct ComboChoice {
     /// Shipped table name or path, relative to the model file.
     pub table: Option<String>,
+    /// The serviceability table (`[combinations] service`), shipped name or path.
+    pub service: Option<String>,
     pub params: BTreeMap<String, f64>,
     /// Conversions the engineer states between load levels (`[[combinations.convert]]`).
     pub conversions: Vec<LevelConversion>,
@@ -274,6 +304,8 @@ pub struct ModelSpans {
     pub text: Option<std::sync::Arc<str>>,
     /// `[combinations] table`.
     pub table: Option<std::ops::Range<usize>>,
+    /// `[combinations] service`.
+    pub service: Option<std::ops::Range<usize>>,
     /// `[combinations] params.NAME`, by name.
     pub params: BTreeMap<String, std::ops::Range<usize>>,
     /// Each load case by id: its `level` key when written, else its `id`.

@@ -263,6 +263,48 @@ fn governed_by(s: &Summary, id: &str) -> Vec<String> {
         .collect()
 }
 
+/// The serviceability section: its heading lines, the drift profile, the deflected shape of
+/// the governing service case and the tables.
+fn service_section(model: &Model, r: &crate::service::ServiceReport) -> String {
+    use super::service;
+    let mut out =
+        String::from("<h2 class=\"pagebreak\" id=\"serviceability\">Serviceability</h2><ul>");
+    for l in service::heading_lines(r) {
+        out.push_str(&format!("<li>{}</li>", esc(&l)));
+    }
+    out.push_str("</ul><figure>");
+    out.push_str(&service::drift_profile_svg(r, WIDTH));
+    out.push_str(
+        "<figcaption>Story drift ratio under service loads (P-Δ at service load) against \
+         height, one line per governing case; the dashed red line is each story's limit \
+         h/N.</figcaption></figure>",
+    );
+    if let (Some((svg, factor)), Some(c)) = (
+        service::deflected_shape_svg(model, r, WIDTH),
+        r.shape.as_ref(),
+    ) {
+        out.push_str("<figure>");
+        out.push_str(&svg);
+        out.push_str(&format!(
+            "<figcaption>Deflected shape of the governing service case {}: members drawn \
+             straight between their displaced ends, displacements magnified {}×; dashed: \
+             as built.</figcaption></figure>",
+            esc(&c.case),
+            super::num(factor, 0)
+        ));
+    }
+    for t in service::tables(model, r) {
+        out.push_str(&format!("<h3>{}</h3>", esc(&t.title)));
+        out.push_str(&html_table(&t));
+    }
+    out.push_str(&format!(
+        "<p>{}</p><p>{}</p>",
+        esc(&service::verdict_line(r)),
+        r.notes.iter().map(|n| esc(n)).collect::<Vec<_>>().join(" ")
+    ));
+    out
+}
+
 /// The whole report.
 pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
     let model = s.model;
@@ -289,14 +331,21 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
                 esc(&s.table.name)
             ),
         ),
-        (
-            "Second-order method",
-            esc(&format!(
-                "{}: {}",
-                s.report.method,
-                super::check::method_title(s.report.method)
-            )),
-        ),
+        if s.has_strength() {
+            (
+                "Second-order method",
+                esc(&format!(
+                    "{}: {}",
+                    s.report.method,
+                    super::check::method_title(s.report.method)
+                )),
+            )
+        } else {
+            (
+                "Analysis",
+                "serviceability: P-Δ at service load, no notional loads, no amplifiers".into(),
+            )
+        },
         ("Cases", esc(&s.selection.heading())),
         (
             "Program",
@@ -348,6 +397,19 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         );
     }
 
+    if !s.has_strength() {
+        // A serviceability table alone: no design moments, stories or member envelope.
+        if let Some(r) = s.service {
+            out.push_str(&service_section(model, r));
+        }
+        out.push_str(&format!(
+            "<div class=\"caution\"><strong>Caution.</strong> {} Combination table source: {}.</div>",
+            esc(CAUTION),
+            esc(&s.table.source)
+        ));
+        out.push_str("</body></html>\n");
+        return out;
+    }
     out.push_str("<h2 class=\"pagebreak\" id=\"moments\">Design moments</h2>");
     out.push_str(&format!(
         "<p class=\"legend\"><span><i class=\"swatch\" style=\"background:{}\"></i>positive (local −y face in tension: sagging of a beam)</span>\
@@ -390,6 +452,9 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         out.push_str(&html_table(&columns));
     }
     handoff_section(&mut out, s);
+    if let Some(r) = s.service {
+        out.push_str(&service_section(model, r));
+    }
     out.push_str("<ul>");
     for l in closing_lines(s) {
         out.push_str(&format!("<li>{}</li>", esc(&l)));

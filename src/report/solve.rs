@@ -14,6 +14,10 @@ use crate::units::Dimension;
 struct Doc<'a> {
     title: &'a str,
     case: &'a str,
+    /// The member stiffness preset of the solution (`gross` unless asked otherwise).
+    stiffness: String,
+    /// That preset in words, with its clause.
+    stiffness_description: &'static str,
     units: Units,
     displacements: Vec<NodeDisp<'a>>,
     reactions: Vec<NodeReaction<'a>>,
@@ -141,6 +145,8 @@ fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
     let doc = Doc {
         title: &model.title,
         case,
+        stiffness: model.analysis.stiffness.to_string(),
+        stiffness_description: crate::app::stiffness_words(model.analysis.stiffness),
         units: SI,
         displacements: model
             .nodes
@@ -282,8 +288,9 @@ fn text(
         return out;
     }
     let mut out = format!(
-        "{}\nLoad case {case}: first-order solution\n\n",
-        model.title
+        "{}\nLoad case {case}: first-order solution, stiffness {}\n\n",
+        model.title,
+        crate::app::stiffness_words(model.analysis.stiffness)
     );
     out.push_str("Displacements (global axes; rotation counter-clockwise, rad)\n");
     out.push_str(&table_of(

@@ -93,9 +93,16 @@ pub struct Summary<'a> {
     pub settings: Vec<Setting>,
     pub selection: Selection,
     pub envelope: Envelope,
+    /// The serviceability half of the run, when it has one.
+    pub service: Option<&'a crate::service::ServiceReport>,
 }
 
 impl Summary<'_> {
+    /// Whether the run has strength cases (a run of a serviceability table alone has not).
+    pub fn has_strength(&self) -> bool {
+        !(self.report.cases.is_empty() && self.service.is_some())
+    }
+
     /// "title; standard; edition" of the combination table.
     pub fn table_line(&self) -> String {
         format!(
@@ -137,6 +144,9 @@ pub struct CheckDoc {
     pub governing: Vec<GoverningMoment>,
     /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see the README).
     pub report: serde_json::Value,
+    /// The serviceability half of the run (see the README), when it has one.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub serviceability: Option<crate::service::ServiceReport>,
     pub caution: String,
 }
 
@@ -164,6 +174,7 @@ pub fn json_doc(s: &Summary) -> CheckDoc {
         envelope: s.envelope.clone(),
         governing: governing(&s.envelope.members),
         report: serde_json::to_value(s.report).expect("a check report serializes"),
+        serviceability: s.service.cloned(),
         caution: CAUTION.to_string(),
     }
 }
@@ -625,17 +636,78 @@ pub fn text(s: &Summary) -> String {
     for t in page_tables(s) {
         out.push_str(&text_table(&t));
     }
-    for l in closing_lines(s) {
-        out.push_str(&l);
-        out.push('\n');
+    if s.has_strength() {
+        for l in closing_lines(s) {
+            out.push_str(&l);
+            out.push('\n');
+        }
     }
     for w in &s.report.warnings {
         out.push_str(&format!("Warning: {w}\n"));
     }
-    out.push_str(&format!(
-        "{SIGN_NOTE}\n{}\n{CAUTION}\n",
+    if let Some(r) = s.service {
+        out.push_str(&service_text(s.model, r));
+    }
+    if s.has_strength() {
+        out.push_str(&format!("{SIGN_NOTE}\n{}\n", drift_note(s)));
+    }
+    out.push_str(&format!("{CAUTION}\n"));
+    out
+}
+
+/// What the strength drifts are: with a serviceability half, the note points to it.
+fn drift_note(s: &Summary) -> &'static str {
+    if s.service.is_some() {
+        super::service::STRENGTH_DRIFT_NOTE
+    } else {
         crate::check::story::DRIFT_NOTE
-    ));
+    }
+}
+
+/// The "Serviceability" section as text.
+fn service_text(model: &Model, r: &crate::service::ServiceReport) -> String {
+    use super::service;
+    const WIDTH: usize = 120;
+    let mut out = String::from("\nServiceability\n");
+    let lines = service::heading_lines(r)
+        .into_iter()
+        .chain(std::iter::once(String::new()))
+        .collect::<Vec<_>>();
+    for l in lines {
+        for w in service::wrap(&l, WIDTH) {
+            out.push_str(&format!("{w}\n"));
+        }
+        if l.is_empty() {
+            out.push('\n');
+        }
+    }
+    for t in service::tables(model, r) {
+        out.push_str(&text_table(&t));
+    }
+    let closing = std::iter::once(service::verdict_line(r)).chain(r.notes.iter().cloned());
+    for l in closing {
+        for w in service::wrap(&l, WIDTH) {
+            out.push_str(&format!("{w}\n"));
+        }
+    }
+    out
+}
+
+/// The "Serviceability" section as Markdown.
+fn service_markdown(model: &Model, r: &crate::service::ServiceReport) -> String {
+    use super::service;
+    let mut out = String::from("## Serviceability\n\n");
+    for l in service::heading_lines(r) {
+        out.push_str(&format!("- {}\n", md_cell(&l)));
+    }
+    out.push('\n');
+    for t in service::tables(model, r) {
+        out.push_str(&md_table(&t));
+    }
+    out.push_str(&format!("**{}.**\n\n", service::verdict_line(r)));
+    for n in &r.notes {
+        out.push_str(&format!("{}\n\n", md_cell(n)));
+    }
     out
 }
 
@@ -667,11 +739,15 @@ fn md_table(t: &Table) -> String {
 /// The summary as a calculation-package page in Markdown.
 pub fn markdown(s: &Summary) -> String {
     let mut out = format!("# {}\n\n", md_cell(&s.model.title));
-    out.push_str(&format!(
-        "Second-order analysis and governing design moments, {} ({}).\n\n",
-        s.table_line(),
-        s.report.method
-    ));
+    if s.has_strength() {
+        out.push_str(&format!(
+            "Second-order analysis and governing design moments, {} ({}).\n\n",
+            s.table_line(),
+            s.report.method
+        ));
+    } else {
+        out.push_str(&format!("Serviceability check, {}.\n\n", s.table_line()));
+    }
     out.push_str(&format!("> **Caution.** {CAUTION}\n\n"));
     out.push_str(&format!("{}.\n\n", s.selection.heading()));
     for r in &s.selection.remarks {
@@ -683,13 +759,21 @@ pub fn markdown(s: &Summary) -> String {
     for t in page_tables(s) {
         out.push_str(&md_table(&t));
     }
-    for l in closing_lines(s) {
-        out.push_str(&format!("- {}\n", md_cell(&l)));
+    if s.has_strength() {
+        for l in closing_lines(s) {
+            out.push_str(&format!("- {}\n", md_cell(&l)));
+        }
     }
     for w in &s.report.warnings {
         out.push_str(&format!("- Warning: {}\n", md_cell(w)));
     }
-    out.push_str(&format!("\n{}\n", crate::check::story::DRIFT_NOTE));
+    if let Some(r) = s.service {
+        out.push('\n');
+        out.push_str(&service_markdown(s.model, r));
+    }
+    if s.has_strength() {
+        out.push_str(&format!("\n{}\n", drift_note(s)));
+    }
     out.push_str(&format!(
         "\n{SIGN_NOTE}\n\nCombination table: {} ({}). {}\n\n",
         s.table.source, s.table.name, s.table.caution
@@ -741,6 +825,9 @@ pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
         super::handoff::service_reaction_table(s, true),
     ];
     tables.extend(super::check::detail_tables(s.model, s.report));
+    if let Some(r) = s.service {
+        tables.extend(super::service::tables(s.model, r));
+    }
     tables
         .iter()
         .map(|t| (format!("{}.csv", t.name), csv_text(t)))

@@ -29,6 +29,8 @@ pub struct MemberStiffness {
 /// * [`StiffnessPreset::AiscDirect`]: AISC 360-16 §C2.3(a) 0.80 on all stiffnesses, with
 ///   τb = 1.0 (the additional notional load 0.001·α·Yi of §C2.3(c) is then added by the
 ///   load stage; notes §9).
+/// * [`StiffnessPreset::AciService`]: ACI 318-19 §6.6.3.2.2, 1.4 × the values above, not
+///   above Ig (from memory; reference notes §7.1 and §11), for service-load analysis.
 /// * The model's `inertia_factor` by role multiplies I on top of the preset.
 pub fn member_stiffness(model: &Model) -> Vec<MemberStiffness> {
     let opts = &model.analysis;
@@ -43,6 +45,11 @@ pub fn member_stiffness(model: &Model) -> Vec<MemberStiffness> {
                     Role::Column | Role::Brace => (1.0, 0.70),
                 },
                 StiffnessPreset::AiscDirect => (0.8, 0.8),
+                // ACI 318-19 §6.6.3.2.2: 1.4 × Table 6.6.3.1.1(a), not above Ig (from memory).
+                StiffnessPreset::AciService => match role {
+                    Role::Beam => (1.0, (1.4_f64 * 0.35).min(1.0)),
+                    Role::Column | Role::Brace => (1.0, (1.4_f64 * 0.70).min(1.0)),
+                },
             };
             let user = opts
                 .inertia_factor
