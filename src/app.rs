@@ -208,7 +208,7 @@ pub fn cases(
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
-    let arranged = crate::arrange::arrange(&model);
+    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     Ok(render_expansion(
         &table,
@@ -542,7 +542,7 @@ pub fn run_check(
         table_and_settings(&model, model_path, args.combos.as_deref(), &args.sets)?;
     let cli_params = parse_sets(&args.sets)?;
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
-    let arranged = crate::arrange::arrange(&model);
+    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     let model = arranged.model;
     let mut cases = expansion.cases.clone();
