@@ -166,6 +166,19 @@ fn scale(model: &Model, pieces: &SpanPieces, q: Quantity, divisions: usize) -> f
     big
 }
 
+/// Whether each member carries a transverse load in some load case. Elsewhere the moment
+/// of every span's load, and of any subset, is linear along the member: its extremes over
+/// the member lie at the ends.
+pub fn bent_members(model: &Model) -> Vec<bool> {
+    let mut out = vec![false; model.members.len()];
+    for k in 0..model.load_cases.len() {
+        for (m, loads) in model.local_loads(k).iter().enumerate() {
+            out[m] |= crate::solve::beam::has_transverse_load(loads);
+        }
+    }
+    out
+}
+
 /// Error of the exact mode.
 #[derive(Debug, thiserror::Error)]
 pub enum ExactError {
@@ -214,10 +227,17 @@ pub fn exact_patterns(
         out.push(Pattern { tag, spans });
         Ok(())
     };
+    let bent = bent_members(model);
     for q in Quantity::ALL {
         let tiny = ROUND_OFF * scale(model, pieces, q, divisions);
         for m in 0..model.members.len() {
-            for x in sections(model.length(m), divisions) {
+            // Interior points only where the quantity can peak inside the member.
+            let d = if q == Quantity::Moment && bent[m] {
+                divisions
+            } else {
+                1
+            };
+            for x in sections(model.length(m), d) {
                 let c: Vec<f64> = pieces
                     .contributions(q, m, x)
                     .into_iter()
