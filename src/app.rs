@@ -403,6 +403,7 @@ fn settings(
     table: &ComboTable,
     args: &CheckArgs,
     cli_params: &BTreeMap<String, f64>,
+    patterns: usize,
 ) -> Vec<Setting> {
     let keys = model_keys(model_path);
     let from = |cli: bool, key: &str| -> String {
@@ -518,6 +519,31 @@ fn settings(
         },
         source: from(false, "analysis.story_levels"),
     });
+    if model.load_cases.iter().any(|c| c.arrange) {
+        let exact = a.live_patterns == crate::model::LivePatterns::Exact;
+        out.push(Setting {
+            setting: "live-load patterns".into(),
+            value: if exact {
+                format!(
+                    "exact: the worst subset of spans for each section, by signs; {patterns} \
+                     subsets run as cases"
+                )
+            } else {
+                format!(
+                    "code: full, alt-a/-b, adj-{{joint}}, left-/right-{{column}}; {patterns} \
+                     arrangements"
+                )
+            },
+            source: from(false, "analysis.live_patterns"),
+        });
+        if exact {
+            out.push(Setting {
+                setting: "pattern spans".into(),
+                value: "x loaded, . not; floors from the lowest, spans from the left".into(),
+                source: "program default".into(),
+            });
+        }
+    }
     out
 }
 
@@ -544,6 +570,7 @@ pub fn run_check(
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
     let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    let patterns = arranged.patterns.len();
     let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
@@ -573,7 +600,7 @@ pub fn run_check(
             .map(str::to_string)
             .collect(),
     };
-    let mut settings = settings(&model, model_path, &table, args, &cli_params);
+    let mut settings = settings(&model, model_path, &table, args, &cli_params, patterns);
     settings.extend(crate::report::summary::second_order_setting(&report));
     let envelope = crate::envelope::envelope(&report);
     let approximate = if args.approximate {

@@ -483,3 +483,14 @@ fn run_subsets_against_signs_with_the_full_loads_amplifiers() {
     // opposite signs a smaller amplifier can raise the sum a little (ratio above 1).
     assert!(low > 0.95 && high < 1.001, "{low} {high}");
 }
+
+/// More worst subsets than the cap is a typed error that names the key and the way out
+/// (project rule: bad input never panics).
+#[test]
+fn too_many_subsets_is_an_error_with_a_way_out() {
+    let a = arrange(&issue_frame());
+    let pieces = SpanPieces::solve(&a).expect("solves");
+    let err = exact_patterns(&a, &pieces, PATTERN_DIVISIONS, 3).expect_err("over the cap");
+    let text = err.to_string();
+    assert!(text.contains("live_patterns = \"code\""), "{text}");
+}

@@ -1009,7 +1009,6 @@ fn analysis(
     if let Some(p) = &a.live_patterns {
         out.live_patterns =
             ctx.choice::<LivePatterns>(p, "analysis.live_patterns", &["exact", "code"])?;
-        out.live_patterns_given = true;
     }
     out.apply_method_defaults();
     let stories = match &a.story_levels {

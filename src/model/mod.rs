@@ -178,9 +178,8 @@ pub struct AnalysisOptions {
     pub segments: usize,
     /// ACI 318-19 §6.6.4.4.4: βdns, ratio of sustained to total factored axial load.
     pub beta_dns: f64,
-    /// How arranged live load is placed on the spans, and whether the model said so.
+    /// How arranged live load is placed on the spans.
     pub live_patterns: LivePatterns,
-    pub live_patterns_given: bool,
     /// Where the stiffness and notional settings came from.
     pub origin: SettingOrigins,
 }
@@ -247,7 +246,6 @@ impl Default for AnalysisOptions {
             segments: 4,
             beta_dns: 0.6,
             live_patterns: LivePatterns::default(),
-            live_patterns_given: false,
             origin: SettingOrigins::default(),
         }
     }
