@@ -193,7 +193,8 @@ fn exact_is_never_below_any_code_arrangement() {
                 // and the moment inside members with transverse load (elsewhere the
                 // extreme over the member lies at an end).
                 let end = *x == 0.0 || *x == a.model.length(*m);
-                if !end && !(q == Quantity::Moment && bent[*m]) {
+                let sought = end || (q == Quantity::Moment && bent[*m]);
+                if !sought {
                     continue;
                 }
                 let reach_max = run

@@ -230,9 +230,9 @@ pub fn exact_patterns(
     let bent = bent_members(model);
     for q in Quantity::ALL {
         let tiny = ROUND_OFF * scale(model, pieces, q, divisions);
-        for m in 0..model.members.len() {
+        for (m, &bent) in bent.iter().enumerate() {
             // Interior points only where the quantity can peak inside the member.
-            let d = if q == Quantity::Moment && bent[m] {
+            let d = if q == Quantity::Moment && bent {
                 divisions
             } else {
                 1
