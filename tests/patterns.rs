@@ -241,7 +241,12 @@ fn exact_is_never_below_any_code_arrangement() {
 /// bases, E = 200 GPa, columns A = 0.018 m², I = 4e-4 m⁴, beams A = 0.012 m², I = 6e-4 m⁴,
 /// L = 8 kN/m on every beam, arranged.
 fn issue_frame() -> Model {
-    let text = r#"title = "two-bay two-storey frame (issue 19)"
+    plumbline::input::parse_model(issue_frame_text(), "issue.toml").expect("valid model")
+}
+
+/// The model file of [`issue_frame`].
+fn issue_frame_text() -> &'static str {
+    r#"title = "two-bay two-storey frame (issue 19)"
 units = "kN-m"
 [[material]]
 id = "S"
@@ -272,8 +277,7 @@ members = "B*"
 kind = "uniform"
 direction = "down"
 w = 8
-"#;
-    plumbline::input::parse_model(text, "issue.toml").expect("valid model")
+"#
 }
 
 /// The column of the issue: at the bottom of C2.2 no code arrangement of the old set
@@ -494,4 +498,14 @@ fn too_many_subsets_is_an_error_with_a_way_out() {
     let err = exact_patterns(&a, &pieces, PATTERN_DIVISIONS, 3).expect_err("over the cap");
     let text = err.to_string();
     assert!(text.contains("live_patterns = \"code\""), "{text}");
+}
+
+/// An unknown mode names the key and the choices (project rule: file, line and field).
+#[test]
+fn an_unknown_mode_is_an_input_error() {
+    let text = issue_frame_text().to_string() + "[analysis]\nlive_patterns = \"all\"\n";
+    let err = plumbline::input::parse_model(&text, "issue.toml").expect_err("unknown mode");
+    assert_eq!(err.field, "analysis.live_patterns");
+    assert!(err.message.contains("exact, code"), "{}", err.message);
+    assert!(err.line > 0);
 }
