@@ -210,6 +210,7 @@ pub fn cases(
     let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
     let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(model_path, e))?;
     Ok(render_expansion(
         &table,
         &expansion,
@@ -570,6 +571,7 @@ pub fn run_check(
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
     let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(model_path, e))?;
     let patterns = arranged.patterns.len();
     let model = arranged.model;
     let mut cases = expansion.cases.clone();

@@ -408,6 +408,17 @@ pub fn arrange_model(model: &Model) -> Result<Arranged, exact::ExactError> {
     Ok(out)
 }
 
+/// The factored cases after [`Arranged::apply`] stay within
+/// [`crate::combos::MAX_FACTORED_CASES`] (each arrangement multiplies the cases that draw on
+/// the arranged load).
+pub fn within_case_limit(expansion: &Expansion) -> Result<(), exact::ExactError> {
+    let (count, cap) = (expansion.cases.len(), crate::combos::MAX_FACTORED_CASES);
+    if count > cap {
+        return Err(exact::ExactError::TooManyCases { count, cap });
+    }
+    Ok(())
+}
+
 /// A piece of arranged case `case`: same category, no loads yet.
 fn piece(case: &LoadCase, what: &str, description: &str) -> LoadCase {
     LoadCase {

@@ -509,3 +509,26 @@ fn an_unknown_mode_is_an_input_error() {
     assert!(err.message.contains("exact, code"), "{}", err.message);
     assert!(err.line > 0);
 }
+
+/// Arrangements multiply the factored cases; beyond the table's case limit that is an
+/// error that suggests the code mode (project rule: bad input never exhausts memory).
+#[test]
+fn too_many_arranged_cases_is_an_error() {
+    let limit = plumbline::combos::MAX_FACTORED_CASES;
+    let case = factored("U", Basis::Strength, &[(0, 1.0)]);
+    let expansion = plumbline::combos::Expansion {
+        cases: vec![case; limit + 1],
+        merged: vec![],
+        skipped: vec![],
+        warnings: vec![],
+        notices: vec![],
+    };
+    let err = plumbline::arrange::within_case_limit(&expansion).expect_err("over the limit");
+    assert!(
+        err.to_string().contains("live_patterns = \"code\""),
+        "{err}"
+    );
+    let mut fewer = expansion;
+    fewer.cases.truncate(limit);
+    assert!(plumbline::arrange::within_case_limit(&fewer).is_ok());
+}

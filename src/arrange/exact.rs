@@ -190,6 +190,12 @@ pub enum ExactError {
          live_patterns = \"code\", or arrange the live load of fewer floors"
     )]
     TooMany { cap: usize },
+    #[error(
+        "the live-load arrangements give {count} factored cases: expected at most {cap}; use \
+         live_patterns = \"code\", arrange the live load of fewer floors, or a table with \
+         fewer combinations"
+    )]
+    TooManyCases { count: usize, cap: usize },
 }
 
 /// The distinct worst subsets of the arranged spans of `arranged`: `full` first, then, member
