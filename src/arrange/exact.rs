@@ -102,8 +102,12 @@ pub struct SpanPieces {
 
 impl SpanPieces {
     /// Solve every span piece of `arranged` (spans without arranged load give zero).
-    pub fn solve(arranged: &Arranged) -> Result<SpanPieces, SystemError> {
+    pub fn solve(arranged: &Arranged) -> Result<SpanPieces, ExactError> {
         let model = &arranged.model;
+        let (spans, members) = (arranged.spans.len(), model.members.len());
+        if spans.saturating_mul(members) > MAX_SPAN_MEMBERS {
+            return Err(ExactError::TooLarge { spans, members });
+        }
         let fo = FirstOrder::new(model, &[])?;
         let mut out = SpanPieces {
             solutions: Vec::with_capacity(arranged.spans.len()),
@@ -196,7 +200,16 @@ pub enum ExactError {
          fewer combinations"
     )]
     TooManyCases { count: usize, cap: usize },
+    #[error(
+        "analysis.live_patterns = \"exact\": {spans} spans × {members} members is more than \
+         {MAX_SPAN_MEMBERS} single-span results to keep; use live_patterns = \"code\""
+    )]
+    TooLarge { spans: usize, members: usize },
 }
+
+/// The most `spans × members` the exact mode keeps single-span solutions for (about 100 bytes
+/// each, so some 200 MB), checked before anything is solved.
+pub const MAX_SPAN_MEMBERS: usize = 2_000_000;
 
 /// The distinct worst subsets of the arranged spans of `arranged`: `full` first, then, member
 /// by member and section by section, the subsets that make the moment, shear and axial
