@@ -226,8 +226,9 @@ pub fn cases(
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
-    let arranged = crate::arrange::arrange(&model);
+    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
+    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(model_path, e))?;
     Ok(render_expansion(
         &table,
         &expansion,
@@ -493,6 +494,7 @@ fn settings(
     table: &ComboTable,
     args: &CheckArgs,
     cli_params: &BTreeMap<String, f64>,
+    patterns: usize,
 ) -> Vec<Setting> {
     let keys = model_keys(model_path);
     let from = |cli: bool, key: &str| -> String {
@@ -579,6 +581,31 @@ fn settings(
         },
         source: from(false, "analysis.story_levels"),
     });
+    if model.load_cases.iter().any(|c| c.arrange) {
+        let exact = a.live_patterns == crate::model::LivePatterns::Exact;
+        out.push(Setting {
+            setting: "live-load patterns".into(),
+            value: if exact {
+                format!(
+                    "exact: the worst subset of spans for each section, by signs; {patterns} \
+                     subsets run as cases"
+                )
+            } else {
+                format!(
+                    "code: full, alt-a/-b, adj-{{joint}}, left-/right-{{column}}; {patterns} \
+                     arrangements"
+                )
+            },
+            source: from(false, "analysis.live_patterns"),
+        });
+        if exact {
+            out.push(Setting {
+                setting: "pattern spans".into(),
+                value: "x loaded, . not; floors from the lowest, spans from the left".into(),
+                source: "program default".into(),
+            });
+        }
+    }
     out
 }
 
@@ -630,7 +657,7 @@ pub fn run_check(
         other(&table).as_ref(),
     );
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
-    let arranged = crate::arrange::arrange(&model);
+    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     let service = match &service_table {
         Some(st) => {
@@ -649,6 +676,8 @@ pub fn run_check(
         }
         None => None,
     };
+    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(model_path, e))?;
+    let patterns = arranged.patterns.len();
     let model = arranged.model;
     let mut cases = expansion.cases.clone();
     if let Some(prefix) = &args.case {
@@ -708,7 +737,7 @@ pub fn run_check(
             .map(str::to_string)
             .collect(),
     };
-    let mut settings = settings(&model, model_path, &table, args, &cli_params);
+    let mut settings = settings(&model, model_path, &table, args, &cli_params, patterns);
     settings.extend(crate::report::summary::second_order_setting(&report));
     if !service_only {
         settings.push(crate::report::handoff::handoff_setting(report.method));

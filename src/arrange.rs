@@ -1,43 +1,66 @@
-//! Live-load arrangement: the spans of a live load case loaded in the patterns that
-//! ACI 318-19 §6.4.3 and EN 1992-1-1:2004 §5.1.3 call for, as mutually exclusive
-//! alternatives of that load case.
+//! Live-load arrangement: the spans of a live load case loaded in patterns, as mutually
+//! exclusive alternatives of that load case.
 //!
 //! A load case of category `live` marked `arrange = true` is split into *pieces*: one load
 //! case per beam span that carries some of its load (`L@B1.1`), plus one piece for the rest
 //! of it (nodal loads and loads on columns, `L@rest`), which every arrangement carries.
 //! Each piece is an ordinary service load case, solved once; an arrangement is a set of
 //! pieces, so its results are the sum of the pieces' solutions (first-order results combine
-//! linearly). The arrangements are:
+//! linearly). The model's `analysis.live_patterns` chooses the arrangements
+//! ([`arrange_model`]):
+//!
+//! * `exact` (the default, [`exact`]): for every enveloped quantity (moment, shear, axial
+//!   force) at every enveloped section (member ends and points along each member), the
+//!   subset of spans, on every floor, that makes it largest and the one that makes it
+//!   smallest, found from the signs of each span's first-order effect
+//!   ([`exact::pattern_extremes`]). Each distinct subset is one arrangement (`full`,
+//!   `none`, `p1`, `p2`, …), so amplifiers and second-order analyses see a real load pattern.
+//! * `code`: the arrangements below ([`patterns`]).
+//!
+//! The code arrangements are:
 //!
 //! * `full`: every span loaded (ACI 318-19 §6.4.3.1 and §6.4.3.2 cover this case too);
 //! * `alt-a`, `alt-b`: alternate spans loaded, checkerboard across floors, for the largest
-//!   positive moments (ACI 318-19 §6.4.3.2(a), EN 1992-1-1 §5.1.3(1)P(a)): span `s`
-//!   (counted from the left of its beam line, from 0) of the floor of rank `f` (counted
-//!   from the lowest beam line, from 0) is loaded in `alt-a` when `s + f` is even and in
-//!   `alt-b` when it is odd;
+//!   positive span moments (ACI 318-19 §6.4.3.2(a), EN 1992-1-1 §5.1.3(1)P(a); the
+//!   checkerboard from floor to floor is common practice, no source): span `s` (counted
+//!   from the left of its beam line, from 0) of the floor of rank `f` (counted from the
+//!   lowest beam line, from 0) is loaded in `alt-a` when `s + f` is even and in `alt-b`
+//!   when it is odd. A checkerboard never loads one bay on both floors at a column's ends,
+//!   so it does not give the largest column moments;
 //! * `adj-{node}`: the two spans meeting at that interior joint of a beam line loaded, and
 //!   no other, for the largest negative moment there (ACI 318-19 §6.4.3.2(b),
-//!   EN 1992-1-1 §5.1.3(1)P(b)).
+//!   EN 1992-1-1 §5.1.3(1)P(b));
+//! * `left-{column}`, `right-{column}`: the spans on one side of a column that meet it, on
+//!   the floors at both of its ends, for the largest column end moments (from memory: the
+//!   pattern of a column designed for unbalanced floor load).
 //!
 //! Arrangements that load nothing, or exactly the same spans as an earlier one, are left
-//! out. The count per model is therefore at most `3 + Σ (spans of each beam line − 1)`,
-//! and a model is refused beyond [`MAX_ARRANGEMENTS`]. Several arranged load cases of one
-//! model share the same arrangements (they are geometric); a factored case in which two of
-//! them act takes the same arrangement for both, so arranged cases never multiply each
-//! other.
+//! out. The count per model is therefore at most
+//! `3 + Σ (spans of each beam line − 1) + 2 × columns`, and a model is refused beyond
+//! [`MAX_ARRANGEMENTS`] (the exact mode: beyond [`MAX_EXACT_PATTERNS`]). Several arranged load cases of one model share
+//! the same arrangements (they are geometric); a factored case in which two of them act
+//! takes the same arrangement for both, so arranged cases never multiply each other.
 //!
 //! A *span* is a chain of beam members between joints, where a joint is a node with a
 //! column, brace or support, or where other than two beams meet. A *beam line* is a set of
 //! spans connected end to end; its spans are ordered by the X of their mid-points and
 //! lines are ranked into floors by their mean elevation.
 
+pub mod exact;
+
 use std::collections::{BTreeMap, BTreeSet};
 
 use crate::combos::{Expansion, FactoredCase, Merged};
-use crate::model::{ActionCategory, LoadCase, Model, Role};
+use crate::model::{ActionCategory, LivePatterns, LoadCase, Model, Role};
 
-/// The most arrangements a model may have (see the module documentation for the count).
-pub const MAX_ARRANGEMENTS: usize = 120;
+/// The most code arrangements a model may have (see the module documentation for the
+/// count).
+pub const MAX_ARRANGEMENTS: usize = 300;
+
+/// The most exact worst subsets a model may have (each one multiplies the factored cases
+/// that draw on the arranged load). Measured by `cargo bench --bench patterns`: the 5-bay,
+/// 10-storey frame has 1,673.
+pub const MAX_EXACT_PATTERNS: usize = 2000;
 
 /// A span: a chain of beam members between two joints.
 #[derive(Debug, Clone, PartialEq)]
@@ -223,8 +246,9 @@ fn other_end(model: &Model, m: usize, node: usize) -> usize {
     if mem.i == node { mem.j } else { mem.i }
 }
 
-/// The arrangements of `loaded` spans (indices into `spans`): full, the two checkerboards,
-/// then two adjacent spans at each interior joint of each line. Empty and repeated
+/// The code arrangements of `loaded` spans (indices into `spans`): full, the two
+/// checkerboards, two adjacent spans at each interior joint of each line, then the spans
+/// on each side of each column on the floors at both its ends. Empty and repeated
 /// arrangements are left out.
 pub fn patterns(model: &Model, spans: &[Span], loaded: &BTreeSet<usize>) -> Vec<Pattern> {
     let mut candidates: Vec<Pattern> = vec![Pattern {
@@ -256,11 +280,44 @@ pub fn patterns(model: &Model, spans: &[Span], loaded: &BTreeSet<usize>) -> Vec<
             }
         }
     }
+    candidates.extend(column_patterns(model, spans));
     let mut out: Vec<Pattern> = Vec::new();
     for mut c in candidates {
         c.spans.retain(|s| loaded.contains(s));
         if !c.spans.is_empty() && !out.iter().any(|o| o.spans == c.spans) {
             out.push(c);
+        }
+    }
+    out
+}
+
+/// For every column, the spans that meet either of its end nodes from the left, and those
+/// from the right (`left-{column}`, `right-{column}`): live load on the floors at both ends
+/// of the column, on one side only, bends the column in single curvature (from memory).
+fn column_patterns(model: &Model, spans: &[Span]) -> Vec<Pattern> {
+    let mut out = Vec::new();
+    for m in model.members.iter().filter(|m| m.role == Role::Column) {
+        for (side, left) in [("left", true), ("right", false)] {
+            let chosen: Vec<usize> = (0..spans.len())
+                .filter(|&s| {
+                    let (a, b) = spans[s].ends;
+                    [m.i, m.j].into_iter().any(|v| {
+                        let here = model.nodes[v].x;
+                        let far = if a == v {
+                            model.nodes[b].x
+                        } else if b == v {
+                            model.nodes[a].x
+                        } else {
+                            return false;
+                        };
+                        (far < here) == left && far != here
+                    })
+                })
+                .collect();
+            out.push(Pattern {
+                tag: format!("{side}-{}", m.id),
+                spans: chosen,
+            });
         }
     }
     out
@@ -337,6 +394,31 @@ pub fn arrange(model: &Model) -> Arranged {
     out
 }
 
+/// Split the arranged load cases of `model` into pieces and list the arrangements of the
+/// model's `analysis.live_patterns`: the code arrangements ([`patterns`]), or the exact
+/// worst subsets ([`exact::exact_patterns`], which solves each span's piece first).
+pub fn arrange_model(model: &Model) -> Result<Arranged, exact::ExactError> {
+    let mut out = arrange(model);
+    if out.pieces.is_empty() || model.analysis.live_patterns == LivePatterns::Code {
+        return Ok(out);
+    }
+    let pieces = exact::SpanPieces::solve(&out)?;
+    out.patterns =
+        exact::exact_patterns(&out, &pieces, exact::PATTERN_DIVISIONS, MAX_EXACT_PATTERNS)?;
+    Ok(out)
+}
+
+/// The factored cases after [`Arranged::apply`] stay within
+/// [`crate::combos::MAX_FACTORED_CASES`] (each arrangement multiplies the cases that draw on
+/// the arranged load).
+pub fn within_case_limit(expansion: &Expansion) -> Result<(), exact::ExactError> {
+    let (count, cap) = (expansion.cases.len(), crate::combos::MAX_FACTORED_CASES);
+    if count > cap {
+        return Err(exact::ExactError::TooManyCases { count, cap });
+    }
+    Ok(())
+}
+
 /// A piece of arranged case `case`: same category, no loads yet.
 fn piece(case: &LoadCase, what: &str, description: &str) -> LoadCase {
     LoadCase {
@@ -353,16 +435,41 @@ fn piece(case: &LoadCase, what: &str, description: &str) -> LoadCase {
 }
 
 impl Arranged {
-    /// Readable list of the spans an arrangement loads, e.g. `B1.1, B3.1, B2.2`.
+    /// Readable list of the spans an arrangement loads, e.g. `B1.1, B3.1, B2.2`, or, where
+    /// that is longer, the brief map of [`Arranged::span_map`].
     pub fn spans_text(&self, p: &Pattern) -> String {
         if p.tag == "full" {
             return "every span".into();
         }
-        p.spans
+        if p.spans.is_empty() {
+            return "no span".into();
+        }
+        let names = p
+            .spans
             .iter()
             .map(|&s| self.spans[s].name.as_str())
             .collect::<Vec<_>>()
-            .join(", ")
+            .join(", ");
+        let map = self.span_map(p);
+        if names.chars().count() <= map.chars().count() {
+            names
+        } else {
+            map
+        }
+    }
+
+    /// The spans an arrangement loads as a brief map: floors from the lowest, separated by
+    /// `/`, each its spans from the left (beam lines of one floor in turn), `x` loaded and
+    /// `.` not, e.g. `spans x.x/.x.` for two floors.
+    pub fn span_map(&self, p: &Pattern) -> String {
+        let mut out = String::from("spans ");
+        for (k, span) in self.spans.iter().enumerate() {
+            if k > 0 && span.floor != self.spans[k - 1].floor {
+                out.push('/');
+            }
+            out.push(if p.spans.contains(&k) { 'x' } else { '.' });
+        }
+        out
     }
 
     /// Replace every factored case that draws on an arranged load case by one case per

@@ -66,7 +66,9 @@ fn check_model(model: &Model) {
     };
     let mut params = BTreeMap::from([("s_ds".to_string(), 0.5)]);
     params.extend(model.combos.params.clone());
-    let arranged = crate::arrange::arrange(model);
+    let Ok(arranged) = crate::arrange::arrange_model(model) else {
+        return;
+    };
     let Ok(expansion) = combos::expand(&table, &model.load_cases, &params) else {
         return;
     };

@@ -149,9 +149,15 @@ fn arrangements_on_random_frames_superpose_count_and_alternate() {
         let (bays, stories) = (rf.bays + usize::from(!rf.leaning.is_empty()), rf.stories);
         let arranged = arrange(&rf.model);
         let exp = arranged.apply(one(live));
-        // Count, module documentation of `arrange`: at most 3 + Σ(spans per line − 1), and
-        // within the documented maximum.
-        assert!(arranged.patterns.len() <= 3 + stories * (bays - 1));
+        // Count, module documentation of `arrange`: at most 3 + Σ(spans per line − 1)
+        // + 2 × columns, and within the documented maximum.
+        let columns = rf
+            .model
+            .members
+            .iter()
+            .filter(|m| m.role == plumbline::model::Role::Column)
+            .count();
+        assert!(arranged.patterns.len() <= 3 + stories * (bays - 1) + 2 * columns);
         assert!(arranged.patterns.len() <= MAX_ARRANGEMENTS);
         assert_eq!(exp.cases.len() + merged(&exp), arranged.patterns.len());
 
@@ -271,13 +277,19 @@ fn checkerboard_across_floors_on_a_generated_frame() {
         .map(|p| (p.tag.clone(), arranged.spans_text(p)))
         .collect();
     // ACI 318-19 §6.4.3.2: alternate spans, checkerboard from floor to floor, and the two
-    // spans at each interior joint, per floor; 3 + 2 floors × (2 spans − 1) = 5.
+    // spans at each interior joint, per floor; 3 + 2 floors × (2 spans − 1) = 5. Then the
+    // spans on one side of each column on the floors at both its ends (from memory): the
+    // left side of C2.1 repeats the right side of C1.1, and so on, so 4 remain.
     let expected = [
         ("full", "every span"),
         ("alt-a", "B1.1, B2.2"),
         ("alt-b", "B2.1, B1.2"),
         ("adj-N2.1", "B1.1, B2.1"),
         ("adj-N2.2", "B1.2, B2.2"),
+        ("right-C1.1", "B1.1"),
+        ("right-C2.1", "B2.1"),
+        ("right-C1.2", "B1.1, B1.2"),
+        ("right-C2.2", "B2.1, B2.2"),
     ];
     assert_eq!(text, expected.map(|(a, b)| (a.to_string(), b.to_string())));
 }
@@ -313,8 +325,9 @@ fn cases_and_check_name_the_arrangement() {
         + "[[case]]\nid = \"D\"\ncategory = \"dead\"\n"
         + &BEAM_LOAD.replace("w = 10", "w = 20")
         + "[combinations]\ntable = \"asce7-16-strength\"\n";
+    let code = text.clone() + "[analysis]\nlive_patterns = \"code\"\n";
     let path = std::env::temp_dir().join(format!("plumbline-arrange-{}.toml", std::process::id()));
-    std::fs::write(&path, text).expect("temp file");
+    std::fs::write(&path, code).expect("temp file");
     let run = |args: &[&str]| {
         let o = std::process::Command::new(env!("CARGO_BIN_EXE_plumbline"))
             .args(args)
@@ -340,6 +353,17 @@ fn cases_and_check_name_the_arrangement() {
     assert!(cases.contains("L on B1.1, B2.2"));
     let check = run(&["check"]);
     assert!(check.contains("/L:adj-N2.1"), "{check}");
+    // The exact mode (the default) names its worst subsets and their loaded spans.
+    std::fs::write(&path, text).expect("temp file");
+    let cases = run(&["cases"]);
+    for tag in ["/L:full", "/L:p1", "/L:none"] {
+        assert!(
+            cases.contains(&format!("2.3.1-2a{tag}")),
+            "{tag} missing:\n{cases}"
+        );
+    }
+    let check = run(&["check"]);
+    assert!(check.contains("exact: the worst subset"), "{check}");
     let _ = std::fs::remove_file(&path);
 }
 

@@ -50,6 +50,8 @@ pub enum CheckError {
     System(#[from] SystemError),
     #[error("no factored cases to check")]
     NoCases,
+    #[error(transparent)]
+    Patterns(#[from] crate::arrange::exact::ExactError),
     #[error(
         "factored case {case}: {what} is not a finite number; the model's values are out of \
          any plausible range (check E, A, I, the loads and their units)"

@@ -256,6 +256,8 @@ pub struct RawAnalysis {
     pub notional_coefficient: Option<S<Num>>,
     pub segments: Option<S<i64>>,
     pub beta_dns: Option<S<Num>>,
+    /// `exact` or `code`: how arranged live load is placed on the spans.
+    pub live_patterns: Option<S<String>>,
     /// Elevations of the story tops, bottom story first.
     pub story_levels: Option<S<Vec<S<Num>>>>,
 }

@@ -17,10 +17,10 @@ use super::raw::{
 use super::select;
 use crate::diag::{FileError, line_col};
 use crate::model::{
-    ActionCategory, AnalysisOptions, ComboChoice, LevelConversion, LoadCase, LoadDirection,
-    LoadLevel, Material, Measure, Member, MemberLoad, MemberLoadKind, Model, ModelSpans, NodalLoad,
-    Node, NotionalLoads, Restraint, Role, SecondOrderMethod, Section, SettingOrigin,
-    StiffnessPreset, StoryDeclaration, Support,
+    ActionCategory, AnalysisOptions, ComboChoice, LevelConversion, LivePatterns, LoadCase,
+    LoadDirection, LoadLevel, Material, Measure, Member, MemberLoad, MemberLoadKind, Model,
+    ModelSpans, NodalLoad, Node, NotionalLoads, Restraint, Role, SecondOrderMethod, Section,
+    SettingOrigin, StiffnessPreset, StoryDeclaration, Support,
 };
 use crate::units::{Dimension, UnitSystem, parse_quantity};
 
@@ -1022,6 +1022,10 @@ fn analysis(
         }
         out.beta_dns = v;
     }
+    if let Some(p) = &a.live_patterns {
+        out.live_patterns =
+            ctx.choice::<LivePatterns>(p, "analysis.live_patterns", &["exact", "code"])?;
+    }
     out.apply_method_defaults();
     let stories = match &a.story_levels {
         None => None,
@@ -1233,8 +1237,10 @@ fn arrangeable(
             "nothing to arrange: expected member loads on beams in this case",
         ));
     }
+    // The exact mode's count is known once the pieces are solved (`arrange_model`).
+    let code = model.analysis.live_patterns == crate::model::LivePatterns::Code;
     let count = patterns(model, &all, &(0..all.len()).collect()).len();
-    if count > MAX_ARRANGEMENTS {
+    if code && count > MAX_ARRANGEMENTS {
         return Err(ctx.err(
             at.span(),
             field,

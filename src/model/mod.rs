@@ -146,6 +146,21 @@ impl StiffnessPreset {
     }
 }
 
+/// How the spans of an arranged live load case (`arrange = true`) are loaded
+/// ([`crate::arrange`]).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Display, EnumString, Default)]
+#[serde(rename_all = "kebab-case")]
+#[strum(serialize_all = "kebab-case")]
+pub enum LivePatterns {
+    /// The worst subset of loaded spans for every enveloped quantity at every enveloped
+    /// section, found from the signs of each span's first-order effect, each distinct
+    /// subset run as an arrangement ([`crate::arrange::exact`]).
+    #[default]
+    Exact,
+    /// The arrangements of ACI 318-19 §6.4.3 / EN 1992-1-1 §5.1.3 and the column patterns.
+    Code,
+}
+
 /// Notional lateral loads added to every factored case where the method calls for them.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
 #[serde(rename_all = "kebab-case")]
@@ -174,6 +189,8 @@ pub struct AnalysisOptions {
     pub segments: usize,
     /// ACI 318-19 §6.6.4.4.4: βdns, ratio of sustained to total factored axial load.
     pub beta_dns: f64,
+    /// How arranged live load is placed on the spans.
+    pub live_patterns: LivePatterns,
     /// Where the stiffness and notional settings came from.
     pub origin: SettingOrigins,
     /// Stiffness of the serviceability analysis (`[analysis] service_stiffness`); None: the
@@ -255,6 +272,7 @@ impl Default for AnalysisOptions {
             notional: NotionalLoads::Auto,
             segments: 4,
             beta_dns: 0.6,
+            live_patterns: LivePatterns::default(),
             origin: SettingOrigins::default(),
             service_stiffness: None,
         }
