@@ -87,6 +87,35 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
     Ok(out)
 }
 
+/// How many combination names the `--case` no-match message shows.
+const NO_MATCH_SHOWN: usize = 8;
+
+/// The message for a `--case` prefix that matches no factored case: the first few
+/// combination names (ids up to their first `/` or `~`), never the whole list, and how to
+/// see every id.
+fn no_case_message(prefix: &str, cases: &[FactoredCase], model_path: &Path) -> String {
+    let mut names: Vec<&str> = Vec::new();
+    for c in cases {
+        let name = c.id.split(['/', '~']).next().unwrap_or(&c.id);
+        if !names.contains(&name) {
+            names.push(name);
+        }
+    }
+    let more = if names.len() > NO_MATCH_SHOWN {
+        format!(" and {} more", names.len() - NO_MATCH_SHOWN)
+    } else {
+        String::new()
+    };
+    names.truncate(NO_MATCH_SHOWN);
+    format!(
+        "no factored case id starts with \"{prefix}\"; the combinations are {}{more} \
+         ({} cases: `plumbline cases {}` lists them)",
+        names.join(", "),
+        cases.len(),
+        model_path.display()
+    )
+}
+
 /// The folder of the model file (tables named in the model are relative to it).
 fn model_dir(model_path: &Path) -> PathBuf {
     model_path
@@ -117,6 +146,47 @@ pub fn own_table(model: &Model, model_path: &Path) -> Result<Option<ComboTable>,
             located.help = e.help;
             AppError::from(located)
         })
+}
+
+/// The load cases that state no `level` in a category where the trade distinguishes levels
+/// (wind, snow, seismic): only these take their level from the model's own table.
+fn cases_without_level(model: &Model) -> Vec<&str> {
+    model
+        .load_cases
+        .iter()
+        .filter(|c| c.level.is_none() && c.category.has_levels())
+        .map(|c| c.id.as_str())
+        .collect()
+}
+
+/// The model's own table when `--combos` names another one: it then serves only to know the
+/// load level of cases that state none. When every case states its level (or none needs
+/// one) it is not read at all; when it cannot be read and some case needs it, the error
+/// says so and names those cases.
+fn own_table_for_levels(model: &Model, model_path: &Path) -> Result<Option<ComboTable>, AppError> {
+    let unstated = cases_without_level(model);
+    if unstated.is_empty() {
+        return Ok(None);
+    }
+    own_table(model, model_path).map_err(|e| match e {
+        AppError::File(mut fe) if fe.field == "combinations.table" => {
+            fe.message = format!(
+                "{}; with --combos, the model's table serves only to know the load level of \
+                 case{} {}, which state{} no `level`",
+                fe.message,
+                if unstated.len() == 1 { "" } else { "s" },
+                unstated.join(", "),
+                if unstated.len() == 1 { "s" } else { "" },
+            );
+            fe.help = Some(
+                "give those cases `level = \"...\"` (then the model's table is not read), or make \
+                 the table file available"
+                    .into(),
+            );
+            AppError::File(fe)
+        }
+        other => other,
+    })
 }
 
 /// The combination table a command uses: `--combos` if given, else the model's
@@ -157,9 +227,21 @@ fn table_and_settings(
     sets: &[String],
 ) -> Result<(ComboTable, Settings), AppError> {
     let sets = parse_sets(sets)?;
+    if model.load_cases.is_empty() {
+        return Err(AppError::from(FileError {
+            file: model_path.display().to_string(),
+            line: 0,
+            column: 0,
+            field: "case".into(),
+            message: "the model has no load cases: nothing to combine or check".into(),
+            help: Some("add at least one [[case]] with its category and loads".into()),
+            span: None,
+            source_text: None,
+        }));
+    }
     let table = resolve_table(model, model_path, combos)?;
     let own = match combos {
-        Some(_) => own_table(model, model_path)?,
+        Some(_) => own_table_for_levels(model, model_path)?,
         None => Some(table.clone()),
     };
     let settings = Settings::for_model(model, own.as_ref(), &sets);
@@ -167,7 +249,7 @@ fn table_and_settings(
 }
 
 /// `plumbline solve MODEL --case ID`: the first-order solution of one load case.
-pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<String, AppError> {
+pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Rendered, AppError> {
     let model = load_model(model_path)?;
     let k = model.case_index(case).ok_or_else(|| {
         let ids: Vec<&str> = model.load_cases.iter().map(|c| c.id.as_str()).collect();
@@ -179,7 +261,9 @@ pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Stri
     })?;
     let solution =
         crate::solve::solve_case(&model, k).map_err(|e: SystemError| analysis(model_path, e))?;
-    Ok(crate::report::solve::render(&model, k, &solution, format))
+    Ok(Rendered {
+        files: crate::report::solve::render(&model, k, &solution, format),
+    })
 }
 
 /// `plumbline combos [NAME|PATH]`: the shipped tables, or one table's combinations.
@@ -550,10 +634,10 @@ pub fn run_check(
         // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.
         cases.retain(|c| c.id.starts_with(prefix.as_str()) || prefix.starts_with(c.id.as_str()));
         if cases.is_empty() {
-            let ids: Vec<&str> = expansion.cases.iter().map(|c| c.id.as_str()).collect();
-            return Err(AppError::Usage(format!(
-                "no factored case id starts with \"{prefix}\"; the cases are: {}",
-                ids.join(", ")
+            return Err(AppError::Usage(no_case_message(
+                prefix,
+                &expansion.cases,
+                model_path,
             )));
         }
     }

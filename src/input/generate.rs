@@ -158,6 +158,7 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
                 at: here("frame", id),
                 x,
                 y,
+                written: None,
             });
         }
     }

@@ -635,8 +635,12 @@ pub fn text(s: &Summary) -> String {
     out
 }
 
+/// A cell or line for Markdown: `|` would end a cell, `~` strike text through (case ids
+/// such as `1.2D~L`) and `*` start emphasis, so each is escaped.
 fn md_cell(c: &str) -> String {
     c.replace('|', "\\|")
+        .replace('~', "\\~")
+        .replace('*', "\\*")
 }
 
 fn md_table(t: &Table) -> String {
