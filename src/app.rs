@@ -25,12 +25,13 @@ pub enum AppError {
     #[error(transparent)]
     #[diagnostic(transparent)]
     File(Box<FileError>),
-    /// The frame could not be analysed.
-    #[error("{file}: {source}")]
+    /// The frame could not be analysed. The cause is part of the message, not a source, so
+    /// that it is printed once; `note` adds what the model's properties suggest.
+    #[error("{file}: {error}{note}")]
     Analysis {
         file: String,
-        #[source]
-        source: CheckError,
+        error: CheckError,
+        note: String,
     },
     /// A command-line value is wrong.
     #[error("{0}")]
@@ -51,11 +52,36 @@ impl From<FileError> for AppError {
     }
 }
 
-fn analysis(path: &Path, e: impl Into<CheckError>) -> AppError {
+/// An analysis error of `model`, read from `path`. A mechanism says whether members with
+/// implausible properties sit at the nodes found free to move (a unit slip makes pivots
+/// vanish as surely as a missing support does).
+fn analysis(model: &Model, path: &Path, e: impl Into<CheckError>) -> AppError {
+    let error = e.into();
+    let note = match &error {
+        CheckError::System(SystemError::Mechanism(free)) => {
+            let nodes: Vec<usize> = free.iter().map(|f| f.node).collect();
+            crate::model::plausible::mechanism_note(model, &nodes)
+        }
+        _ => String::new(),
+    };
     AppError::Analysis {
         file: path.display().to_string(),
-        source: e.into(),
+        error,
+        note,
     }
+}
+
+/// Warnings on the model file at `path` that do not stop a command: members whose
+/// properties look like a unit slip, each prefixed with the file name. Empty when the file
+/// cannot be read (the command itself then reports why).
+pub fn model_warnings(path: &Path) -> Vec<String> {
+    let Ok(model) = load_model(path) else {
+        return Vec::new();
+    };
+    crate::model::plausible::implausible_members(&model)
+        .into_iter()
+        .map(|w| format!("{}: {}", path.display(), w.message))
+        .collect()
 }
 
 /// Parse `PARAM=VALUE` overrides of combination-table parameters.
@@ -259,8 +285,8 @@ pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Rend
             ids.join(", ")
         ))
     })?;
-    let solution =
-        crate::solve::solve_case(&model, k).map_err(|e: SystemError| analysis(model_path, e))?;
+    let solution = crate::solve::solve_case(&model, k)
+        .map_err(|e: SystemError| analysis(&model, model_path, e))?;
     Ok(Rendered {
         files: crate::report::solve::render(&model, k, &solution, format),
     })
@@ -642,7 +668,7 @@ pub fn run_check(
         }
     }
     let mut report = crate::check::check_with_progress(&model, &cases, progress)
-        .map_err(|e| analysis(model_path, e))?;
+        .map_err(|e| analysis(&model, model_path, e))?;
     if let Some(prefix) = &args.case {
         report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
     }
@@ -665,6 +691,7 @@ pub fn run_check(
         Some(
             crate::approx::approximate_check(&model, &cases, &th).map_err(|e| {
                 analysis(
+                    &model,
                     model_path,
                     match e {
                         crate::approx::ApproxError::Stories(s) => CheckError::Stories(s),

@@ -260,6 +260,17 @@ fn method_parser() -> impl clap::builder::TypedValueParser<Value = SecondOrderMe
 }
 
 impl Command {
+    /// The model file the command reads, if any.
+    fn model(&self) -> Option<&Path> {
+        match self {
+            Command::Solve(a) => Some(&a.model),
+            Command::Cases(a) => Some(&a.model),
+            Command::Check(a) => Some(&a.run.model),
+            Command::Report(a) => Some(&a.run.model),
+            Command::Combos(_) | Command::New(_) | Command::Completions(_) => None,
+        }
+    }
+
     /// The output file and the input files it must not be, for commands that write one.
     fn output_and_inputs(&self) -> Option<(&Path, Vec<&Path>)> {
         let (output, model, combos) = match self {
@@ -277,6 +288,15 @@ impl Command {
 }
 
 fn run(cli: Cli) -> Result<Done, AppError> {
+    // Implausible member properties are said first, before any result or error.
+    for w in cli
+        .command
+        .model()
+        .map(app::model_warnings)
+        .unwrap_or_default()
+    {
+        let _ = writeln!(std::io::stderr(), "plumbline: warning: {w}");
+    }
     if let Some((output, inputs)) = cli.command.output_and_inputs() {
         app::check_output_path(output, &inputs)?;
     }
