@@ -25,12 +25,13 @@ pub enum AppError {
     #[error(transparent)]
     #[diagnostic(transparent)]
     File(Box<FileError>),
-    /// The frame could not be analysed.
-    #[error("{file}: {source}")]
+    /// The frame could not be analysed. The cause is part of the message, not a source, so
+    /// that it is printed once; `note` adds what the model's properties suggest.
+    #[error("{file}: {error}{note}")]
     Analysis {
         file: String,
-        #[source]
-        source: CheckError,
+        error: CheckError,
+        note: String,
     },
     /// A command-line value is wrong.
     #[error("{0}")]
@@ -51,11 +52,36 @@ impl From<FileError> for AppError {
     }
 }
 
-fn analysis(path: &Path, e: impl Into<CheckError>) -> AppError {
+/// An analysis error of `model`, read from `path`. A mechanism says whether members with
+/// implausible properties sit at the nodes found free to move (a unit slip makes pivots
+/// vanish as surely as a missing support does).
+fn analysis(model: &Model, path: &Path, e: impl Into<CheckError>) -> AppError {
+    let error = e.into();
+    let note = match &error {
+        CheckError::System(SystemError::Mechanism(free)) => {
+            let nodes: Vec<usize> = free.iter().map(|f| f.node).collect();
+            crate::model::plausible::mechanism_note(model, &nodes)
+        }
+        _ => String::new(),
+    };
     AppError::Analysis {
         file: path.display().to_string(),
-        source: e.into(),
+        error,
+        note,
     }
+}
+
+/// Warnings on the model file at `path` that do not stop a command: members whose
+/// properties look like a unit slip, each prefixed with the file name. Empty when the file
+/// cannot be read (the command itself then reports why).
+pub fn model_warnings(path: &Path) -> Vec<String> {
+    let Ok(model) = load_model(path) else {
+        return Vec::new();
+    };
+    crate::model::plausible::implausible_members(&model)
+        .into_iter()
+        .map(|w| format!("{}: {}", path.display(), w.message))
+        .collect()
 }
 
 /// Parse `PARAM=VALUE` overrides of combination-table parameters.
@@ -85,6 +111,35 @@ pub fn parse_sets(sets: &[String]) -> Result<BTreeMap<String, f64>, AppError> {
         out.insert(k.to_string(), v);
     }
     Ok(out)
+}
+
+/// How many combination names the `--case` no-match message shows.
+const NO_MATCH_SHOWN: usize = 8;
+
+/// The message for a `--case` prefix that matches no factored case: the first few
+/// combination names (ids up to their first `/` or `~`), never the whole list, and how to
+/// see every id.
+fn no_case_message(prefix: &str, cases: &[FactoredCase], model_path: &Path) -> String {
+    let mut names: Vec<&str> = Vec::new();
+    for c in cases {
+        let name = c.id.split(['/', '~']).next().unwrap_or(&c.id);
+        if !names.contains(&name) {
+            names.push(name);
+        }
+    }
+    let more = if names.len() > NO_MATCH_SHOWN {
+        format!(" and {} more", names.len() - NO_MATCH_SHOWN)
+    } else {
+        String::new()
+    };
+    names.truncate(NO_MATCH_SHOWN);
+    format!(
+        "no factored case id starts with \"{prefix}\"; the combinations are {}{more} \
+         ({} cases: `plumbline cases {}` lists them)",
+        names.join(", "),
+        cases.len(),
+        model_path.display()
+    )
 }
 
 /// The folder of the model file (tables named in the model are relative to it).
@@ -117,6 +172,47 @@ pub fn own_table(model: &Model, model_path: &Path) -> Result<Option<ComboTable>,
             located.help = e.help;
             AppError::from(located)
         })
+}
+
+/// The load cases that state no `level` in a category where the trade distinguishes levels
+/// (wind, snow, seismic): only these take their level from the model's own table.
+fn cases_without_level(model: &Model) -> Vec<&str> {
+    model
+        .load_cases
+        .iter()
+        .filter(|c| c.level.is_none() && c.category.has_levels())
+        .map(|c| c.id.as_str())
+        .collect()
+}
+
+/// The model's own table when `--combos` names another one: it then serves only to know the
+/// load level of cases that state none. When every case states its level (or none needs
+/// one) it is not read at all; when it cannot be read and some case needs it, the error
+/// says so and names those cases.
+fn own_table_for_levels(model: &Model, model_path: &Path) -> Result<Option<ComboTable>, AppError> {
+    let unstated = cases_without_level(model);
+    if unstated.is_empty() {
+        return Ok(None);
+    }
+    own_table(model, model_path).map_err(|e| match e {
+        AppError::File(mut fe) if fe.field == "combinations.table" => {
+            fe.message = format!(
+                "{}; with --combos, the model's table serves only to know the load level of \
+                 case{} {}, which state{} no `level`",
+                fe.message,
+                if unstated.len() == 1 { "" } else { "s" },
+                unstated.join(", "),
+                if unstated.len() == 1 { "s" } else { "" },
+            );
+            fe.help = Some(
+                "give those cases `level = \"...\"` (then the model's table is not read), or make \
+                 the table file available"
+                    .into(),
+            );
+            AppError::File(fe)
+        }
+        other => other,
+    })
 }
 
 /// The combination table a command uses: `--combos` if given, else the model's
@@ -157,9 +253,21 @@ fn table_and_settings(
     sets: &[String],
 ) -> Result<(ComboTable, Settings), AppError> {
     let sets = parse_sets(sets)?;
+    if model.load_cases.is_empty() {
+        return Err(AppError::from(FileError {
+            file: model_path.display().to_string(),
+            line: 0,
+            column: 0,
+            field: "case".into(),
+            message: "the model has no load cases: nothing to combine or check".into(),
+            help: Some("add at least one [[case]] with its category and loads".into()),
+            span: None,
+            source_text: None,
+        }));
+    }
     let table = resolve_table(model, model_path, combos)?;
     let own = match combos {
-        Some(_) => own_table(model, model_path)?,
+        Some(_) => own_table_for_levels(model, model_path)?,
         None => Some(table.clone()),
     };
     let settings = Settings::for_model(model, own.as_ref(), &sets);
@@ -169,7 +277,7 @@ fn table_and_settings(
 /// `plumbline solve MODEL --case ID`: the first-order solution of one load case, with
 /// gross section properties (a load case is a service load: the strength method's reduced
 /// stiffness does not apply).
-pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<String, AppError> {
+pub fn solve(model_path: &Path, case: &str, format: OutputFormat) -> Result<Rendered, AppError> {
     solve_with(model_path, case, "gross", format)
 }
 
@@ -179,7 +287,7 @@ pub fn solve_with(
     case: &str,
     stiffness: &str,
     format: OutputFormat,
-) -> Result<String, AppError> {
+) -> Result<Rendered, AppError> {
     use std::str::FromStr;
     let mut model = load_model(model_path)?;
     model.analysis.stiffness = crate::model::StiffnessPreset::from_str(stiffness).map_err(|_| {
@@ -195,9 +303,11 @@ pub fn solve_with(
             ids.join(", ")
         ))
     })?;
-    let solution =
-        crate::solve::solve_case(&model, k).map_err(|e: SystemError| analysis(model_path, e))?;
-    Ok(crate::report::solve::render(&model, k, &solution, format))
+    let solution = crate::solve::solve_case(&model, k)
+        .map_err(|e: SystemError| analysis(&model, model_path, e))?;
+    Ok(Rendered {
+        files: crate::report::solve::render(&model, k, &solution, format),
+    })
 }
 
 /// `plumbline combos [NAME|PATH]`: the shipped tables, or one table's combinations.
@@ -226,9 +336,9 @@ pub fn cases(
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
-    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
+    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(&model, model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
-    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(model_path, e))?;
+    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(&model, model_path, e))?;
     Ok(render_expansion(
         &table,
         &expansion,
@@ -657,7 +767,7 @@ pub fn run_check(
         other(&table).as_ref(),
     );
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
-    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(model_path, e))?;
+    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(&model, model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     let service = match &service_table {
         Some(st) => {
@@ -676,7 +786,7 @@ pub fn run_check(
         }
         None => None,
     };
-    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(model_path, e))?;
+    crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(&model, model_path, e))?;
     let patterns = arranged.patterns.len();
     let model = arranged.model;
     let mut cases = expansion.cases.clone();
@@ -684,10 +794,10 @@ pub fn run_check(
         // A prefix may also name a notional-load variant such as `2.3.1-2a/N+`.
         cases.retain(|c| c.id.starts_with(prefix.as_str()) || prefix.starts_with(c.id.as_str()));
         if cases.is_empty() {
-            let ids: Vec<&str> = expansion.cases.iter().map(|c| c.id.as_str()).collect();
-            return Err(AppError::Usage(format!(
-                "no factored case id starts with \"{prefix}\"; the cases are: {}",
-                ids.join(", ")
+            return Err(AppError::Usage(no_case_message(
+                prefix,
+                &expansion.cases,
+                model_path,
             )));
         }
     }
@@ -695,7 +805,7 @@ pub fn run_check(
         empty_report(&model)
     } else {
         crate::check::check_with_progress(&model, &cases, progress)
-            .map_err(|e| analysis(model_path, e))?
+            .map_err(|e| analysis(&model, model_path, e))?
     };
     if let Some(prefix) = &args.case {
         report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
@@ -713,7 +823,7 @@ pub fn run_check(
             };
             let line = format!("{}; {}; edition {}", st.title, st.standard, st.edition);
             let r = crate::service::service_check(&smodel, &scases, &limits, (&st.file, &line))
-                .map_err(|e| analysis(model_path, e))?;
+                .map_err(|e| analysis(&model, model_path, e))?;
             Some(ServiceRun {
                 table: st,
                 cases: scases,
@@ -766,6 +876,7 @@ pub fn run_check(
         Some(
             crate::approx::approximate_check(&model, &cases, &th).map_err(|e| {
                 analysis(
+                    &model,
                     model_path,
                     match e {
                         crate::approx::ApproxError::Stories(s) => CheckError::Stories(s),

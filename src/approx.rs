@@ -30,6 +30,7 @@
 
 use serde::Serialize;
 
+use crate::check::story::is_moment_frame_column;
 use crate::combos::FactoredCase;
 use crate::model::{LocalLoad, Model, Restraint, Role};
 use crate::solve::beam::internal_forces;
@@ -135,16 +136,19 @@ pub struct MemberEstimate {
 /// beams of a rectangular frame, not the rafters of a gable frame.
 pub const MAX_SLOPE: f64 = 5.0 * std::f64::consts::PI / 180.0;
 
-/// Members the hand methods apply to: not a sloped beam (over [`MAX_SLOPE`]), a beam
-/// with a released end or a beam that is one of several members of a span (see
+/// Members the hand methods apply to: not a sloped beam (over [`MAX_SLOPE`]) that takes
+/// moment, or a beam that is one of several members of a span (see
 /// [`crate::arrange::spans`]), nor any other member meeting the end of one (the portal
-/// method and the joint balance assume continuous horizontal beams, one member a span).
+/// method and the joint balance assume horizontal beams, one member a span).
 pub fn estimable(model: &Model) -> Vec<bool> {
     let outside = |m: usize| {
         let mem = &model.members[m];
         let (c, s) = model.cosines(m);
+        // A pin-ended brace or link puts no moment on its joints; a beam with one released
+        // end is a propped span (inflection at the hinge) and its joints stay estimable.
         mem.role == Role::Beam
-            && (s.abs() > MAX_SLOPE.sin() * c.hypot(s) || mem.release_i || mem.release_j)
+            && s.abs() > MAX_SLOPE.sin() * c.hypot(s)
+            && !(mem.release_i && mem.release_j)
     };
     let mut bad_node = vec![false; model.nodes.len()];
     let split: Vec<usize> = crate::arrange::spans(model)
@@ -390,8 +394,11 @@ fn portal(
             .filter(|&n| model.nodes[n].y >= st.top - LEVEL_TOLERANCE)
             .map(|n| fx[n])
             .sum();
-        let mut cols = st.columns.clone();
+        let mut cols = portal_columns(model, &st.columns);
         cols.sort_by(|&a, &b| column_x(model, a).total_cmp(&column_x(model, b)));
+        // A braced story's shear goes to its braces first (their axial stiffness dwarfs the
+        // columns' bending stiffness): the moment columns take none of it.
+        let v = if is_braced(model, st) { 0.0 } else { v };
         for (&c, vc) in cols.iter().zip(portal_shares(cols.len(), v)) {
             let l = model.length(c);
             let x0 = inflection_height(model, c);
@@ -411,6 +418,10 @@ fn portal(
     for s in spans.iter().filter(|s| s.members.len() == 1) {
         let m = s.members[0];
         let mem = &model.members[m];
+        let (c, sn) = model.cosines(m);
+        if (mem.release_i && mem.release_j) || sn.abs() > MAX_SLOPE.sin() * c.hypot(sn) {
+            continue; // a link or brace: no lateral moment
+        }
         let left = if model.nodes[mem.i].x <= model.nodes[mem.j].x {
             mem.i
         } else {
@@ -418,10 +429,60 @@ fn portal(
         };
         let right = if left == mem.i { mem.j } else { mem.i };
         let mz = -column_mz_at[left] - carried[left];
-        carried[right] += mz;
-        out[m] = (-mz, mz);
+        // A hinged end takes no moment: the beam turns about it and passes nothing on;
+        // otherwise the inflection is at mid-span (equal end actions).
+        let (released_left, released_right) = if left == mem.i {
+            (mem.release_i, mem.release_j)
+        } else {
+            (mem.release_j, mem.release_i)
+        };
+        let (m_left, m_right) = match (released_left, released_right) {
+            (false, false) => (mz, mz),
+            (false, true) => (mz, 0.0),
+            _ => (0.0, 0.0),
+        };
+        carried[right] += m_right;
+        // Internal moments: M(0) = −Mz_i, M(L) = +Mz_j.
+        out[m] = if left == mem.i {
+            (-m_left, m_right)
+        } else {
+            (-m_right, m_left)
+        };
     }
     out
+}
+
+/// Whether story member `m` is a brace: inclined more than a tenth of its height off the
+/// vertical (a column stands vertical or nearly so; common practice, no source).
+fn is_brace(model: &Model, m: usize) -> bool {
+    let (dx, dy) = model.delta(m);
+    dy.abs() > 0.0 && dx.abs() > 0.1 * dy.abs() && {
+        let (c, s) = model.cosines(m);
+        s.abs() > MAX_SLOPE.sin() * c.hypot(s)
+    }
+}
+
+/// Whether story `st` is braced: a brace (see [`is_brace`]) spans its height, from at or
+/// below its bottom to at or above its top.
+fn is_braced(model: &Model, st: &Story) -> bool {
+    (0..model.members.len()).any(|m| {
+        let mem = &model.members[m];
+        let (a, b) = (model.nodes[mem.i].y, model.nodes[mem.j].y);
+        is_brace(model, m)
+            && a.min(b) <= st.bottom + LEVEL_TOLERANCE
+            && a.max(b) >= st.top - LEVEL_TOLERANCE
+    })
+}
+
+/// The story members that take a portal share of the story shear: the columns of the
+/// moment frame, not braces and not leaning columns (hinged at both ends, or onto beams
+/// released at them), which carry gravity load only.
+fn portal_columns(model: &Model, story_members: &[usize]) -> Vec<usize> {
+    story_members
+        .iter()
+        .copied()
+        .filter(|&m| !is_brace(model, m) && is_moment_frame_column(model, m))
+        .collect()
 }
 
 /// Where a column's lateral inflection point lies, from end i: at a released end or a
@@ -537,8 +598,12 @@ pub fn compare_case(
 /// than `limit` times the median of the case's loaded beams, less than the median over
 /// `limit`, or of the opposite sense: (member, load/median).
 pub fn load_outliers(model: &Model, loads: &[Vec<LocalLoad>], limit: f64) -> Vec<(usize, f64)> {
+    // Braces and pin-ended links (to a leaning column) are not beams that carry floor load.
     let w: Vec<(usize, f64)> = (0..model.members.len())
-        .filter(|&m| model.members[m].role == Role::Beam)
+        .filter(|&m| {
+            let mem = &model.members[m];
+            mem.role == Role::Beam && !is_brace(model, m) && !(mem.release_i && mem.release_j)
+        })
         .map(|m| {
             let (c, s) = model.cosines(m);
             let (px, py) = local_total(model, m, &loads[m]);

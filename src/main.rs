@@ -82,7 +82,7 @@ struct CasesArgs {
     model: PathBuf,
     /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
     /// model's own choice.
-    #[arg(long)]
+    #[arg(long, value_parser = TableName, hide_possible_values = true)]
     combos: Option<String>,
     /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
     #[arg(long = "set", value_name = "PARAM=VALUE")]
@@ -96,7 +96,37 @@ struct CasesArgs {
 #[derive(Debug, Args)]
 struct CombosArgs {
     /// A shipped table name (e.g. asce7-16-strength) or the path of a table file.
+    #[arg(value_parser = TableName, hide_possible_values = true)]
     table: Option<String>,
+}
+
+/// A combination table named on the command line: any text is accepted (a shipped name or
+/// a path, read later by `app`), and the shipped names are offered as possible values so
+/// that the shell completions list them.
+#[derive(Debug, Clone, Copy)]
+struct TableName;
+
+impl clap::builder::TypedValueParser for TableName {
+    type Value = String;
+
+    fn parse_ref(
+        &self,
+        cmd: &clap::Command,
+        arg: Option<&clap::Arg>,
+        value: &std::ffi::OsStr,
+    ) -> Result<String, clap::Error> {
+        clap::builder::StringValueParser::new().parse_ref(cmd, arg, value)
+    }
+
+    fn possible_values(
+        &self,
+    ) -> Option<Box<dyn Iterator<Item = clap::builder::PossibleValue> + '_>> {
+        Some(Box::new(
+            plumbline::combos::shipped_tables()
+                .iter()
+                .map(|t| clap::builder::PossibleValue::new(t.name)),
+        ))
+    }
 }
 
 /// The model and analysis options shared by `check` and `report`.
@@ -106,7 +136,7 @@ struct RunCli {
     model: PathBuf,
     /// Combination table: a shipped name (see `plumbline combos`) or a path; overrides the
     /// model's own choice.
-    #[arg(long)]
+    #[arg(long, value_parser = TableName, hide_possible_values = true)]
     combos: Option<String>,
     /// Override a table parameter, e.g. --set l_companion=0.5 (repeatable).
     #[arg(long = "set", value_name = "PARAM=VALUE")]
@@ -271,6 +301,18 @@ fn method_parser() -> impl clap::builder::TypedValueParser<Value = SecondOrderMe
 }
 
 impl Command {
+    /// The model file the command reads, if any.
+    fn model(&self) -> Option<&Path> {
+        match self {
+            Command::Solve(a) => Some(&a.model),
+            Command::Cases(a) => Some(&a.model),
+            Command::Check(a) => Some(&a.run.model),
+            Command::Report(a) => Some(&a.run.model),
+            Command::Compare(a) => Some(&a.model),
+            Command::Combos(_) | Command::New(_) | Command::Completions(_) => None,
+        }
+    }
+
     /// The output file and the input files it must not be, for commands that write one.
     fn output_and_inputs(&self) -> Option<(&Path, Vec<&Path>)> {
         let (output, model, combos) = match self {
@@ -289,6 +331,15 @@ impl Command {
 }
 
 fn run(cli: Cli) -> Result<Done, AppError> {
+    // Implausible member properties are said first, before any result or error.
+    for w in cli
+        .command
+        .model()
+        .map(app::model_warnings)
+        .unwrap_or_default()
+    {
+        let _ = writeln!(std::io::stderr(), "plumbline: warning: {w}");
+    }
     if let Some((output, inputs)) = cli.command.output_and_inputs() {
         app::check_output_path(output, &inputs)?;
     }
@@ -298,10 +349,11 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         unstable: false,
     };
     Ok(match cli.command {
-        Command::Solve(a) => text(
-            app::solve_with(&a.model, &a.case, &a.stiffness, a.format)?,
-            a.out.output,
-        ),
+        Command::Solve(a) => Done {
+            rendered: app::solve_with(&a.model, &a.case, &a.stiffness, a.format)?,
+            output: a.out.output,
+            unstable: false,
+        },
         Command::Cases(a) => text(
             app::cases(&a.model, a.combos.as_deref(), &a.sets, a.format)?,
             a.out.output,
@@ -365,6 +417,15 @@ fn run(cli: Cli) -> Result<Done, AppError> {
 }
 
 fn main() -> ExitCode {
+    // Wrap error messages at spaces only, so that an id such as `2.3.1-2a` is never split.
+    let _ = miette::set_hook(Box::new(|_| {
+        Box::new(
+            miette::MietteHandlerOpts::new()
+                .word_splitter(textwrap::WordSplitter::NoHyphenation)
+                .break_words(false)
+                .build(),
+        )
+    }));
     let cli = Cli::parse();
     let result = run(cli).and_then(|done| {
         app::emit(&done.rendered, done.output.as_deref()).map(|w| (w, done.unstable))

@@ -501,3 +501,57 @@ fn report_default_name_never_overwrites_the_model() {
     );
     assert_eq!(std::fs::read_to_string(&model).unwrap(), text);
 }
+
+#[test]
+fn a_mechanism_from_a_unit_slip_is_said_once_with_its_cause() {
+    // Issue 20 item 5: I typed as bare m⁴ numbers under kN-m (section unit mm) makes every
+    // member 10¹² too flexible in bending; the warnings name members and sections before
+    // the error, the mechanism message says where the singular pivots sit, once.
+    let err = fails(&["check", "tests/bad_inputs/units-inertia-m4-mechanism.toml"]);
+    assert_eq!(err.matches("the frame is a mechanism").count(), 1, "{err}");
+    assert!(
+        err.contains("implausible properties (left, beam, right)"),
+        "{err}"
+    );
+    let warning = err.find("warning:").expect("a warning");
+    assert!(warning < err.find("mechanism").unwrap(), "{err}");
+}
+
+#[test]
+fn text_rows_end_without_spaces_and_markdown_escapes_case_id_marks() {
+    // Issue 20 item 8 (project requirements, no external source).
+    for p in examples() {
+        let text = ok(&["check", p.to_str().unwrap()]);
+        assert!(!text.lines().any(|l| l.ends_with(' ')), "{}", p.display());
+        let md = ok(&["check", p.to_str().unwrap(), "--format", "md"]);
+        for l in md.lines().filter(|l| l.starts_with('|')) {
+            let unescaped = l.replace("\\~", "");
+            assert!(!unescaped.contains('~'), "{l}");
+        }
+    }
+}
+
+#[test]
+fn solve_csv_writes_every_table_with_the_caution() {
+    // Issue 20 item 8: like `check`, one CSV file per table, each closed by the caution.
+    let dir = scratch("solve-csv");
+    let run_out = run(&[
+        "solve",
+        OFFICE,
+        "--case",
+        "D",
+        "--format",
+        "csv",
+        "-o",
+        dir.to_str().unwrap(),
+    ]);
+    assert!(run_out.status.success(), "{}", stderr(&run_out));
+    for name in ["displacements", "reactions", "end_actions", "span_moments"] {
+        let text = std::fs::read_to_string(dir.join(format!("{name}.csv"))).unwrap();
+        assert!(
+            text.trim_end()
+                .ends_with(&format!("# {}", plumbline::CAUTION)),
+            "{name}"
+        );
+    }
+}

@@ -1323,7 +1323,7 @@ fn a_level_on_dead_load_is_an_error() {
     );
     let e = plumbline::input::parse_model(&text, "portal.toml").unwrap_err();
     assert!(e.message.contains("not distinguished"), "{e}");
-    assert_eq!(e.field, "case[1].level");
+    assert_eq!(e.field, "case \"D\".level");
 }
 
 // ------------------------------------------------------------- lateral loads ---------------

@@ -843,3 +843,37 @@ fn explicit_member_overlapping_generated_columns() {
     let t = format!("{TWO_BAY_THREE_STORY}\n[[node]]\nid = \"N2.2\" # <-\nx = 1\ny = 1\n");
     assert!(error_on_marked_line(&t).contains("duplicate node id \"N2.2\""));
 }
+
+#[test]
+fn the_generator_takes_exterior_and_interior_columns_and_hinges() {
+    // Issue 20 item 10: the id scheme of docs/model-file.md, column sections by grid line
+    // (1 and the last exterior), leaning columns hinged at both ends, and beam ends hinged
+    // where they meet a chosen grid line (project requirements, no external source).
+    let text = std::fs::read_to_string(
+        std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("tests/frames/leaning-braced.toml"),
+    )
+    .unwrap();
+    let model = parse_model(&text, "leaning-braced.toml").unwrap();
+    let member = |id: &str| &model.members[model.member_index(id).expect(id)];
+    let section = |id: &str| model.sections[member(id).section].id.as_str();
+    for s in 1..=2 {
+        assert_eq!(section(&format!("C1.{s}")), "W10x33");
+        assert_eq!(section(&format!("C2.{s}")), "W12x53");
+        assert_eq!(section(&format!("C3.{s}")), "W12x53");
+        assert_eq!(section(&format!("C4.{s}")), "W10x33");
+        let c4 = member(&format!("C4.{s}"));
+        assert!(c4.release_i && c4.release_j);
+        let c2 = member(&format!("C2.{s}"));
+        assert!(!c2.release_i && !c2.release_j);
+        let b3 = member(&format!("B3.{s}"));
+        assert_eq!((b3.release_i, b3.release_j), (false, true));
+        let b1 = member(&format!("B1.{s}"));
+        assert_eq!((b1.release_i, b1.release_j), (false, false));
+    }
+    // A grid line that is not there is refused at its value.
+    let bad = text.replace("hinged_columns = [4]", "hinged_columns = [5] # <-");
+    assert!(
+        error_on_marked_line(&bad).contains("expected a grid line number from 1 to 4"),
+        "{bad}"
+    );
+}

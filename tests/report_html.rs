@@ -201,3 +201,109 @@ fn the_report_renders_in_headless_chromium() {
     assert!(colours.len() > 20, "{} colours", colours.len());
     let _ = std::fs::remove_dir_all(&dir);
 }
+
+/// The script that measures the laid-out drawings in the browser: every `<text>` of every
+/// SVG by its rendered box; a pair overlapping by more than half a pixel either way, or a
+/// box leaving its SVG, is listed. The result is written into the page as `LAYOUT[...]`.
+const LAYOUT_SCRIPT: &str = r#"<script>
+window.addEventListener('load', () => {
+  const bad = [];
+  document.querySelectorAll('svg').forEach((svg, si) => {
+    const s = svg.getBoundingClientRect();
+    const label = svg.getAttribute('aria-label') || ('svg ' + si);
+    const boxes = [...svg.querySelectorAll('text')]
+      .map(t => [t.textContent, t.getBoundingClientRect()])
+      .filter(b => b[1].width > 0);
+    boxes.forEach(([text, r], i) => {
+      if (r.left < s.left - 0.5 || r.right > s.right + 0.5 || r.top < s.top - 0.5 || r.bottom > s.bottom + 0.5)
+        bad.push('clipped in ' + label + ': ' + text);
+      for (let j = 0; j < i; j++) {
+        const q = boxes[j][1];
+        const w = Math.min(r.right, q.right) - Math.max(r.left, q.left);
+        const h = Math.min(r.bottom, q.bottom) - Math.max(r.top, q.top);
+        if (w > 0.5 && h > 0.5) bad.push('overlap in ' + label + ': ' + text + ' / ' + boxes[j][0]);
+      }
+    });
+  });
+  const pre = document.createElement('pre');
+  pre.textContent = 'LAY' + 'OUT[' + bad.join(' | ') + ']';
+  document.body.appendChild(pre);
+});
+</script>"#;
+
+/// The layout problems Chromium finds in the report of `model`.
+fn layout_problems(browser: &str, model: &Path) -> String {
+    let html = report(model, &CheckArgs::default(), &mut |_, _| {}).unwrap();
+    let html = html.replace("</body>", &format!("{LAYOUT_SCRIPT}</body>"));
+    let name = model.file_stem().unwrap().to_string_lossy().to_string();
+    let dir = std::env::temp_dir().join(format!("plumbline-layout-{}-{name}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let page = dir.join("page.html");
+    std::fs::write(&page, html).unwrap();
+    let out = Command::new(browser)
+        .args([
+            "--headless",
+            "--no-sandbox",
+            "--disable-gpu",
+            "--no-first-run",
+            "--disable-background-networking",
+            "--disable-component-update",
+            "--disable-sync",
+            "--window-size=1400,1000",
+            "--virtual-time-budget=5000",
+            "--dump-dom",
+        ])
+        .arg(format!("--user-data-dir={}", dir.join("profile").display()))
+        .arg(format!("file://{}", page.display()))
+        .output()
+        .expect("chromium runs");
+    let dom = String::from_utf8_lossy(&out.stdout).to_string();
+    let _ = std::fs::remove_dir_all(&dir);
+    let start = dom.find("LAYOUT[").expect("the layout script ran") + "LAYOUT[".len();
+    let end = start + dom[start..].find(']').unwrap();
+    dom[start..end].to_string()
+}
+
+#[test]
+fn no_drawing_label_overlaps_another_or_leaves_its_drawing() {
+    // Issue 20 item 4, measured in the browser on every shipped example and on a steel
+    // gable portal in kip-ft (project requirement, no external source).
+    let Some(browser) = chromium() else {
+        eprintln!("SKIPPED no_drawing_label_overlaps_another_or_leaves_its_drawing: no chromium");
+        return;
+    };
+    let mut models: Vec<PathBuf> = std::fs::read_dir(Path::new(ROOT).join("examples"))
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.extension().is_some_and(|x| x == "toml"))
+        .collect();
+    models.sort();
+    models.push(Path::new(ROOT).join("tests/frames/gable-kip-ft.toml"));
+    let problems: Vec<String> = models
+        .iter()
+        .map(|m| (m, layout_problems(&browser, m)))
+        .filter(|(_, p)| !p.is_empty())
+        .map(|(m, p)| format!("{}: {p}", m.display()))
+        .collect();
+    assert!(problems.is_empty(), "{}", problems.join("\n"));
+}
+
+#[test]
+fn loads_are_labelled_as_typed_and_the_drift_note_is_there() {
+    // Issue 20 item 4: a load typed "w = 0.25" kip/ft down on plan reads so, not as its
+    // transverse part (0.25·cos 18.4° = 0.24 kip/ft, closed form).
+    let html = report(
+        &Path::new(ROOT).join("tests/frames/gable-kip-ft.toml"),
+        &CheckArgs::default(),
+        &mut |_, _| {},
+    )
+    .unwrap();
+    assert!(
+        html.contains("0.25 kip/ft down, on plan"),
+        "typed load label"
+    );
+    assert!(!html.contains(">0.24 kip/ft<"));
+    assert!(html.contains(&plumbline::report::svg::esc(
+        plumbline::check::story::DRIFT_NOTE
+    )));
+}

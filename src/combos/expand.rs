@@ -533,21 +533,41 @@ impl Row<'_, '_> {
             )
             .with_help("set it in the model file's [combinations] params or with --set NAME=VALUE")
         })?;
-        if x < 0.0 && !p.allow_negative {
+        let with = || {
             let used: Vec<String> = f
                 .expr
                 .params()
                 .into_iter()
                 .map(|n| {
                     let v = self.values.get(&n).copied().flatten().unwrap_or(f64::NAN);
-                    format!("{n} = {v}{}", self.origin_of(&n))
+                    format!("{n} = {}{}", value_text(v), self.origin_of(&n))
                 })
                 .collect();
-            let with = if used.is_empty() {
+            if used.is_empty() {
                 String::new()
             } else {
                 format!(" with {}", used.join(", "))
-            };
+            }
+        };
+        if x.abs() > MAX_LOAD_FACTOR {
+            return Err(FileError::at(
+                &self.table.file,
+                &self.table.source_text,
+                Some(f.span.clone()),
+                format!("combination {comb}"),
+                format!(
+                    "factor `{}` on {} evaluates to {:e}{}; a load factor above {MAX_LOAD_FACTOR} is \
+                     taken for a slip in a parameter value",
+                    f.text,
+                    self.symbol(p.action),
+                    x,
+                    with()
+                ),
+            )
+            .with_help("check the parameter values (their ranges are listed by `plumbline combos NAME`)"));
+        }
+        if x < 0.0 && !p.allow_negative {
+            let with = with();
             return Err(FileError::at(
                 &self.table.file,
                 &self.table.source_text,
@@ -568,7 +588,7 @@ impl Row<'_, '_> {
     /// Where a parameter's value came from, for messages.
     fn origin_of(&self, name: &str) -> String {
         if let Some(v) = self.settings.sets.get(name) {
-            format!(" (--set {name}={v})")
+            format!(" (--set {name}={})", value_text(*v))
         } else if self.settings.model_params.contains_key(name) {
             let span = self.settings.written.params.get(name);
             format!(" (model, {})", self.settings.written.place(span))
@@ -638,6 +658,21 @@ impl Row<'_, '_> {
         }
     }
 }
+
+/// A parameter value for a message: plain, or in exponent form when very large or small
+/// (`1e308`, never 309 digits).
+fn value_text(v: f64) -> String {
+    if v != 0.0 && !(1e-4..1e6).contains(&v.abs()) {
+        format!("{v:e}")
+    } else {
+        format!("{v}")
+    }
+}
+
+/// Largest load factor a combination may apply, in magnitude. Published load factors lie
+/// between 0 and about 3; a factor a hundred times larger is a slip in a parameter value,
+/// and one near 1e308 would overflow the factored loads (common practice, no source).
+pub const MAX_LOAD_FACTOR: f64 = 100.0;
 
 /// Parameter values of the model and the command line, each declared by the table, finite
 /// and in the declared range; command-line values win.

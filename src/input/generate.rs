@@ -8,6 +8,11 @@
 //! * beam `B{b}.{k}`: bay b at level k, from `N{b}.{k}` to `N{b+1}.{k}` (left to right).
 //!
 //! Members are listed story by story (columns of the story, then the beams on top of it).
+//!
+//! Column sections come from `columns`, or on the two outer grid lines from
+//! `exterior_columns` and on the others from `interior_columns` where the model gives them.
+//! `hinged_columns` lists grid lines whose columns are hinged at both ends (leaning
+//! columns); `beam_hinges` grid lines where the beam ends framing into them are hinged.
 
 use super::raw::{RawFrame, S};
 use super::validate::{Ctx, MemberDef, NodeDef, Ref, SupportDef};
@@ -86,6 +91,33 @@ fn check_per_story(
     ))
 }
 
+/// Grid line numbers (from 1) from a list, each between 1 and `grids`.
+fn grid_lines(
+    ctx: &Ctx,
+    list: Option<&S<Vec<S<i64>>>>,
+    field: &str,
+    grids: usize,
+) -> Result<Vec<usize>, FileError> {
+    let Some(list) = list else {
+        return Ok(Vec::new());
+    };
+    list.get_ref()
+        .iter()
+        .enumerate()
+        .map(|(k, g)| match usize::try_from(*g.get_ref()) {
+            Ok(n) if (1..=grids).contains(&n) => Ok(n),
+            _ => Err(ctx.err(
+                g.span(),
+                &format!("{field}[{}]", k + 1),
+                format!(
+                    "expected a grid line number from 1 to {grids} (left to right), got {}",
+                    g.get_ref()
+                ),
+            )),
+        })
+        .collect()
+}
+
 /// Expand a `[frame]` table into nodes, members and base supports.
 pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> {
     let f = frame.get_ref();
@@ -110,6 +142,22 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
     }
     check_per_story(ctx, &f.columns, "frame.columns", ns)?;
     check_per_story(ctx, &f.beams, "frame.beams", ns)?;
+    for (list, field) in [
+        (&f.exterior_columns, "frame.exterior_columns"),
+        (&f.interior_columns, "frame.interior_columns"),
+    ] {
+        if let Some(list) = list {
+            check_per_story(ctx, list, field, ns)?;
+        }
+    }
+    let grids = bays.len() + 1;
+    let hinged_columns = grid_lines(
+        ctx,
+        f.hinged_columns.as_ref(),
+        "frame.hinged_columns",
+        grids,
+    )?;
+    let beam_hinges = grid_lines(ctx, f.beam_hinges.as_ref(), "frame.beam_hinges", grids)?;
     let base = match f.base.get_ref().as_str() {
         "fixed" => [Restraint::Fixed; 3],
         "pinned" => [Restraint::Fixed, Restraint::Fixed, Restraint::Free],
@@ -158,6 +206,7 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
                 at: here("frame", id),
                 x,
                 y,
+                written: None,
             });
         }
     }
@@ -174,15 +223,26 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
             field: field.to_string(),
         }
     };
+    // The column list of grid line g: exterior or interior where the model gives one.
+    let columns_of = |g: usize| {
+        let outer = g == 1 || g == grids;
+        match (outer, &f.exterior_columns, &f.interior_columns) {
+            (true, Some(list), _) => (list, "frame.exterior_columns"),
+            (false, _, Some(list)) => (list, "frame.interior_columns"),
+            _ => (&f.columns, "frame.columns"),
+        }
+    };
     for s in 1..=ns {
         for g in 1..=xs.len() {
+            let (list, field) = columns_of(g);
+            let pinned = hinged_columns.contains(&g);
             out.members.push(MemberDef {
                 at: here("frame", column_id(g, s)),
                 i: here("frame", node_id(g, s - 1)),
                 j: here("frame", node_id(g, s)),
-                section: section(&f.columns, s, "frame.columns"),
+                section: section(list, s, field),
                 material: material.clone(),
-                release: [false, false],
+                release: [pinned, pinned],
             });
         }
         for b in 1..=bays.len() {
@@ -192,7 +252,7 @@ pub fn generate(ctx: &Ctx, frame: &S<RawFrame>) -> Result<Generated, FileError> 
                 j: here("frame", node_id(b + 1, s)),
                 section: section(&f.beams, s, "frame.beams"),
                 material: material.clone(),
-                release: [false, false],
+                release: [beam_hinges.contains(&b), beam_hinges.contains(&(b + 1))],
             });
         }
     }

@@ -131,6 +131,14 @@ pub struct RawFrame {
     pub beams: S<Vec<S<String>>>,
     /// Coordinates of node N1.0, default (0, 0).
     pub origin: Option<S<Vec<S<Num>>>>,
+    /// Column section per story on the two outer grid lines, in place of `columns`.
+    pub exterior_columns: Option<S<Vec<S<String>>>>,
+    /// Column section per story on the inner grid lines, in place of `columns`.
+    pub interior_columns: Option<S<Vec<S<String>>>>,
+    /// Grid lines (from 1) whose columns are hinged at both ends (leaning columns).
+    pub hinged_columns: Option<S<Vec<S<i64>>>>,
+    /// Grid lines (from 1) where the ends of the beams framing into them are hinged.
+    pub beam_hinges: Option<S<Vec<S<i64>>>>,
 }
 
 #[derive(Debug, Deserialize)]

@@ -63,6 +63,9 @@ pub struct NodeDef {
     pub at: Ref,
     pub x: f64,
     pub y: f64,
+    /// Where `x` and `y` were written, with their field names (explicit nodes only; a
+    /// generated node's coordinates come from the grid).
+    pub written: Option<[(Range<usize>, String); 2]>,
 }
 
 /// A member before its references are resolved.
@@ -306,6 +309,7 @@ pub fn build(raw: RawModel, file: &str, text: Arc<str>) -> Result<Model, FileErr
             at: reference(&n.id, field("id")),
             x: ctx.quantity(&n.x, Dimension::Length, &field("x"))?,
             y: ctx.quantity(&n.y, Dimension::Length, &field("y"))?,
+            written: Some([(n.x.span(), field("x")), (n.y.span(), field("y"))]),
         });
     }
     if let Some(m) = exceeded("nodes", node_defs.len(), MAX_NODES, "MAX_NODES") {
@@ -585,11 +589,15 @@ pub const MAX_COORDINATE: f64 = 1.0e5;
 /// Every node coordinate finite and within [`MAX_COORDINATE`]; the error names the node.
 fn check_node_coordinates(ctx: &Ctx, nodes: &[Node], defs: &[NodeDef]) -> Result<(), FileError> {
     for (n, d) in nodes.iter().zip(defs) {
-        for (axis, v) in [("x", n.x), ("y", n.y)] {
+        for (k, (axis, v)) in [("x", n.x), ("y", n.y)].into_iter().enumerate() {
             if !v.is_finite() || v.abs() > MAX_COORDINATE {
+                let (span, field) = match &d.written {
+                    Some(w) => (w[k].0.clone(), w[k].1.as_str()),
+                    None => (d.at.span.clone(), d.at.field.as_str()),
+                };
                 return Err(ctx.err(
-                    d.at.span.clone(),
-                    &d.at.field,
+                    span,
+                    field,
                     format!(
                         "node \"{}\" has {axis} = {v:e} m: expected a coordinate within ±{} km \
                          of the origin (check the value and the model's units)",
@@ -1100,13 +1108,23 @@ fn select_ids<'a>(
     Ok(chosen)
 }
 
+/// The field path of a load case's key, naming the case by its id (`case "W".level`), or
+/// by position when the id is blank (`case[3].level`).
+fn case_field(k: usize, id: &str, name: &str) -> String {
+    if id.trim().is_empty() || id.contains(['"', '\n']) {
+        format!("case[{}].{name}", k + 1)
+    } else {
+        format!("case \"{id}\".{name}")
+    }
+}
+
 fn load_cases(ctx: &Ctx, raw: &[S<RawCase>], model: &Model) -> Result<Vec<LoadCase>, FileError> {
     let mut index = HashMap::new();
     let mut groups: HashMap<String, ActionCategory> = HashMap::new();
     let mut out = Vec::new();
     for (k, c) in raw.iter().enumerate() {
         let c = c.get_ref();
-        let field = |name: &str| format!("case[{}].{name}", k + 1);
+        let field = |name: &str| case_field(k, c.id.get_ref(), name);
         register(ctx, &mut index, &reference(&c.id, field("id")), "load case")?;
         let names: Vec<&'static str> = ActionCategory::iter().map(|a| a.into()).collect();
         let category = ctx.choice::<ActionCategory>(&c.category, &field("category"), &names)?;

@@ -6,6 +6,7 @@
 //! [`loads`].
 
 pub mod loads;
+pub mod plausible;
 
 use serde::Serialize;
 use std::collections::BTreeMap;

@@ -91,8 +91,9 @@ pub fn render_text(model: &Model, r: &ApproxReport) -> String {
          Beams under gravity: inflection points at {a}·L from each continuous end \
          (end moments −{e}·wL², mid-span +{s}·wL² with both ends continuous). Columns: \
          unbalanced beam-end moments by stiffness, half carried to the other end (none to a \
-         pinned base). Lateral load: portal method. Sloped beams (over 5°), beams with a \
-         released end, spans of several members and the members meeting them are not judged.\n\
+         pinned base). Lateral load: portal method over the moment-frame columns (none to \
+         leaning columns; a braced story's shear to its brace). Sloped beams (over 5°) that \
+         take moment, spans of several members and the members meeting them are not judged.\n\
          Flagged: opposite sign, or ratio computed/approx above {ra} or below 1/{ra}, where \
          the approximate |M| reaches {sig} of the case's largest moment of the same role; a \
          beam load more than {ld} times (or under 1/{ld} of) the case's median beam load, or \

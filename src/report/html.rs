@@ -392,8 +392,9 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
         out.push_str(&svg::loads(model, k, WIDTH));
         out.push_str(
             "<figcaption>Service loads as given: nodal forces and moments, and the \
-             transverse part of member loads (self-weight included), labelled with the mean \
-             intensity on each member.</figcaption></figure>",
+             transverse part of member loads (self-weight included), each member's line \
+             loads labelled as typed in the model (intensity, direction, and on a sloped \
+             member whether per length of plan or of member).</figcaption></figure>",
         );
     }
 
@@ -459,7 +460,11 @@ pub fn render(s: &Summary, cases: &[FactoredCase]) -> String {
     for l in closing_lines(s) {
         out.push_str(&format!("<li>{}</li>", esc(&l)));
     }
-    out.push_str(&format!("<li>{}</li></ul>", esc(SIGN_NOTE)));
+    out.push_str(&format!("<li>{}</li>", esc(SIGN_NOTE)));
+    out.push_str(&format!(
+        "<li>{}</li></ul>",
+        esc(crate::check::story::DRIFT_NOTE)
+    ));
     out.push_str(&format!(
         "<div class=\"caution\"><strong>Caution.</strong> {} Combination table source: {}.</div>",
         esc(CAUTION),

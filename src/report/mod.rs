@@ -63,7 +63,12 @@ pub fn table_of<S: AsRef<str>>(header: &[S], rows: Vec<Vec<String>>) -> String {
     }
     let mut t = b.build();
     t.with(Style::blank().horizontals([(1, HorizontalLine::new('-').intersection(' '))]));
+    // The padding of the last column would leave trailing spaces on every row.
     t.to_string()
+        .lines()
+        .map(str::trim_end)
+        .collect::<Vec<_>>()
+        .join("\n")
 }
 
 /// A number for a table: `digits` significant decimals, `-` for NaN, `∞` for infinity.

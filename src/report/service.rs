@@ -427,7 +427,7 @@ pub fn drift_profile_svg(r: &ServiceReport, width: f64) -> String {
         );
         let _ = write!(
             out,
-            r#"<text x="{:.1}" y="{:.1}" font-size="11" fill="{col}">{}</text>"#,
+            r#"<text x="{:.1}" y="{:.1}" font-size="11" fill="{col}" text-anchor="end">{}</text>"#,
             width - right - 4.0,
             top + 14.0 * (n + 1) as f64,
             super::svg::esc(id)

@@ -2,6 +2,7 @@
 
 use serde::Serialize;
 
+use super::summary::{Table, csv_text};
 use super::{CAUTION, OutputFormat, num, table_of};
 use crate::model::{LocalLoad, Model, Restraint};
 use crate::solve::Solution;
@@ -125,18 +126,28 @@ fn supported(model: &Model) -> Vec<usize> {
     v
 }
 
-/// Render the first-order `solution` of load case number `case` of `model`.
+/// Render the first-order `solution` of load case number `case` of `model`: one text
+/// (`("", text)`), or for CSV one file per table, each closed by the caution.
 ///
 /// Member-end values are the end actions in member-local axes (forces the nodes exert on
 /// the member: axial along i→j, shear along local y, moment counter-clockwise); span
 /// extremes and stations are internal forces (N tension positive, M positive with the
 /// local −y face in tension).
-pub fn render(model: &Model, case: usize, solution: &Solution, format: OutputFormat) -> String {
+pub fn render(
+    model: &Model,
+    case: usize,
+    solution: &Solution,
+    format: OutputFormat,
+) -> Vec<(String, String)> {
     let loads = combined_member_loads(model, &[(case, 1.0)]);
     let id = &model.load_cases[case].id;
     match format {
-        OutputFormat::Json => json(model, id, solution, &loads),
-        OutputFormat::Table | OutputFormat::Csv => text(model, id, solution, &loads, format),
+        OutputFormat::Json => vec![(String::new(), json(model, id, solution, &loads))],
+        OutputFormat::Table => vec![(String::new(), text(model, id, solution, &loads))],
+        OutputFormat::Csv => tables(model, solution, &loads)
+            .iter()
+            .map(|t| (format!("{}.csv", t.name), csv_text(t)))
+            .collect(),
     }
 }
 
@@ -233,131 +244,126 @@ fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
     serde_json::to_string_pretty(&doc).expect("a solution serializes") + "\n"
 }
 
-fn text(
-    model: &Model,
-    case: &str,
-    s: &Solution,
-    loads: &[Vec<LocalLoad>],
-    format: OutputFormat,
-) -> String {
+/// The solution's tables in the model's units: displacements, reactions, member end
+/// actions and the extreme moments along each member.
+fn tables(model: &Model, s: &Solution, loads: &[Vec<LocalLoad>]) -> [Table; 4] {
     let u = &model.units;
-    let (ld, lf, lm) = (
+    let (ld, lf, lm, ll) = (
         u.label(Dimension::Displacement),
         u.label(Dimension::Force),
         u.label(Dimension::Moment),
+        u.label(Dimension::Length),
     );
     let d = |v: f64| num(u.from_si(v, Dimension::Displacement), 4);
     let f = |v: f64| num(u.from_si(v, Dimension::Force), 3);
     let m = |v: f64| num(u.from_si(v, Dimension::Moment), 3);
-    let disp_rows: Vec<Vec<String>> = model
-        .nodes
-        .iter()
-        .zip(&s.displacements)
-        .map(|(n, x)| vec![n.id.clone(), d(x[0]), d(x[1]), num(x[2], 6)])
-        .collect();
-    let reac_rows: Vec<Vec<String>> = supported(model)
-        .into_iter()
-        .map(|n| {
-            let r = s.reactions[n];
-            vec![model.nodes[n].id.clone(), f(r[0]), f(r[1]), m(r[2])]
-        })
-        .collect();
-    let end_rows: Vec<Vec<String>> = model
-        .members
-        .iter()
-        .zip(&s.end_forces)
-        .map(|(mem, e)| {
-            vec![
-                mem.id.clone(),
-                f(e.i[0]),
-                f(e.i[1]),
-                m(e.i[2]),
-                f(e.j[0]),
-                f(e.j[1]),
-                m(e.j[2]),
-            ]
-        })
-        .collect();
-    if format == OutputFormat::Csv {
-        let mut out = String::new();
-        out.push_str(&format!("member,axial_i ({lf}),shear_i ({lf}),moment_i ({lm}),axial_j ({lf}),shear_j ({lf}),moment_j ({lm})\n"));
-        for r in end_rows {
-            out.push_str(&r.join(","));
-            out.push('\n');
-        }
-        return out;
-    }
-    let mut out = format!(
-        "{}\nLoad case {case}: first-order solution, stiffness {}\n\n",
-        model.title,
-        crate::app::stiffness_words(model.analysis.stiffness)
-    );
-    out.push_str("Displacements (global axes; rotation counter-clockwise, rad)\n");
-    out.push_str(&table_of(
-        &[
-            "node",
-            &format!("ux ({ld})"),
-            &format!("uy ({ld})"),
-            "rz (rad)",
-        ],
-        disp_rows,
-    ));
-    out.push_str("\n\nReactions (forces the supports exert on the frame)\n");
-    out.push_str(&table_of(
-        &[
-            "node",
-            &format!("Rx ({lf})"),
-            &format!("Ry ({lf})"),
-            &format!("Mz ({lm})"),
-        ],
-        reac_rows,
-    ));
-    out.push_str(
-        "\n\nMember end actions (member-local axes, i→j; forces the nodes exert on the member, \
-         moments counter-clockwise)\n",
-    );
-    out.push_str(&table_of(
-        &[
-            "member".to_string(),
+    let x = |v: f64| num(u.from_si(v, Dimension::Length), 3);
+    let owned = |h: &[String]| h.to_vec();
+    let displacements = Table {
+        name: "displacements",
+        title: "Displacements (global axes; rotation counter-clockwise, rad)".into(),
+        header: owned(&[
+            "node".into(),
+            format!("ux ({ld})"),
+            format!("uy ({ld})"),
+            "rz (rad)".into(),
+        ]),
+        rows: model
+            .nodes
+            .iter()
+            .zip(&s.displacements)
+            .map(|(n, x)| vec![n.id.clone(), d(x[0]), d(x[1]), num(x[2], 6)])
+            .collect(),
+    };
+    let reactions = Table {
+        name: "reactions",
+        title: "Reactions (forces the supports exert on the frame)".into(),
+        header: owned(&[
+            "node".into(),
+            format!("Rx ({lf})"),
+            format!("Ry ({lf})"),
+            format!("Mz ({lm})"),
+        ]),
+        rows: supported(model)
+            .into_iter()
+            .map(|n| {
+                let r = s.reactions[n];
+                vec![model.nodes[n].id.clone(), f(r[0]), f(r[1]), m(r[2])]
+            })
+            .collect(),
+    };
+    let end_actions = Table {
+        name: "end_actions",
+        title: "Member end actions (member-local axes, i→j; forces the nodes exert on the \
+                member, moments counter-clockwise)"
+            .into(),
+        header: owned(&[
+            "member".into(),
             format!("N i ({lf})"),
             format!("V i ({lf})"),
             format!("M i ({lm})"),
             format!("N j ({lf})"),
             format!("V j ({lf})"),
             format!("M j ({lm})"),
-        ],
-        end_rows,
-    ));
-    let span_rows = (0..model.members.len())
-        .map(|k| {
-            let e = member_extremes(model, s, k, &loads[k]);
-            let x = |v: f64| num(u.from_si(v, Dimension::Length), 3);
-            vec![
-                model.members[k].id.clone(),
-                m(e.max.1),
-                x(e.max.0),
-                m(e.min.1),
-                x(e.min.0),
-            ]
-        })
-        .collect();
-    let ll = u.label(Dimension::Length);
-    out.push_str(
-        "\n\nExtreme internal moments along each member (positive with the local −y face in \
-         tension; x from end i)\n",
-    );
-    out.push_str(&table_of(
-        &[
-            "member".to_string(),
+        ]),
+        rows: model
+            .members
+            .iter()
+            .zip(&s.end_forces)
+            .map(|(mem, e)| {
+                vec![
+                    mem.id.clone(),
+                    f(e.i[0]),
+                    f(e.i[1]),
+                    m(e.i[2]),
+                    f(e.j[0]),
+                    f(e.j[1]),
+                    m(e.j[2]),
+                ]
+            })
+            .collect(),
+    };
+    let span_moments = Table {
+        name: "span_moments",
+        title: "Extreme internal moments along each member (positive with the local −y face \
+                in tension; x from end i)"
+            .into(),
+        header: owned(&[
+            "member".into(),
             format!("M max ({lm})"),
             format!("at x ({ll})"),
             format!("M min ({lm})"),
             format!("at x ({ll})"),
-        ],
-        span_rows,
-    ));
+        ]),
+        rows: (0..model.members.len())
+            .map(|k| {
+                let e = member_extremes(model, s, k, &loads[k]);
+                vec![
+                    model.members[k].id.clone(),
+                    m(e.max.1),
+                    x(e.max.0),
+                    m(e.min.1),
+                    x(e.min.0),
+                ]
+            })
+            .collect(),
+    };
+    [displacements, reactions, end_actions, span_moments]
+}
+
+/// The solution as text: the tables under their titles, the equilibrium residual and the
+/// caution.
+fn text(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> String {
+    let mut out = format!(
+        "{}\nLoad case {case}: first-order solution, stiffness {}\n",
+        model.title,
+        crate::app::stiffness_words(model.analysis.stiffness)
+    );
+    for t in tables(model, s, loads) {
+        out.push_str(&format!("\n{}\n{}\n", t.title, table_of(&t.header, t.rows)));
+    }
     out.push_str(&format!(
-        "\n\nEquilibrium residual: {:.2e} of the largest applied load\n\n{CAUTION}\n",
+        "\nEquilibrium residual: {:.2e} of the largest applied load\n\n{CAUTION}\n",
         s.residual.relative()
     ));
     out

@@ -124,12 +124,20 @@ pub(super) fn members(model: &Model, v: &View, ids: bool) -> String {
             c = style::MEMBER
         );
         if ids {
+            // Beside the member, never on its line: a column's id on the inner side, a
+            // beam's above it.
             let (mx, my) = v.at((a.x + b.x) / 2.0, (a.y + b.y) / 2.0);
+            let (dx, dy) = (x2 - x1, y2 - y1);
+            let (tx, ty, anchor) = if dy.abs() > dx.abs() && mx > v.width / 2.0 {
+                (mx - 7.0, my + 4.0, "end")
+            } else if dy.abs() > dx.abs() {
+                (mx + 7.0, my + 4.0, "start")
+            } else {
+                (mx, my - 7.0, "middle")
+            };
             let _ = write!(
                 out,
-                r#"<text x="{:.1}" y="{:.1}" font-size="11" fill="{}" text-anchor="middle" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
-                mx,
-                my - 5.0,
+                r#"<text x="{tx:.1}" y="{ty:.1}" font-size="11" fill="{}" text-anchor="{anchor}" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
                 style::MEMBER,
                 esc(&mem.id)
             );
@@ -296,6 +304,7 @@ pub fn loads(model: &Model, case: usize, width: f64) -> String {
     out.push_str(&members(model, &v, false));
     out.push_str(&supports(model, &v));
     let fl = u.label(Dimension::Force);
+    let mut placer = Placer::new(&v);
     for n in &lc.nodal {
         let node = &model.nodes[n.node];
         let (x, y) = v.at(node.x, node.y);
@@ -304,15 +313,19 @@ pub fn loads(model: &Model, case: usize, width: f64) -> String {
                 let sgn = f.signum();
                 let (tx, ty) = (x - sgn * dx * 40.0, y - sgn * dy * 40.0);
                 out.push_str(&arrow(tx, ty, x, y, style::LOAD));
-                let _ = write!(
-                    out,
-                    r#"<text x="{:.1}" y="{:.1}" font-size="10" fill="{}" text-anchor="middle">{} {}</text>"#,
-                    tx,
-                    ty - 4.0,
-                    style::LOAD,
+                let text = format!(
+                    "{} {}",
                     super::num(u.from_si(f.abs(), Dimension::Force), 1),
-                    esc(&fl)
+                    fl
                 );
+                if let Some((lx, ly, anchor)) = placer.place(tx, ty - 4.0, &text, 10.0, "middle") {
+                    let _ = write!(
+                        out,
+                        r#"<text x="{lx:.1}" y="{ly:.1}" font-size="10" fill="{}" text-anchor="{anchor}">{}</text>"#,
+                        style::LOAD,
+                        esc(&text)
+                    );
+                }
             }
         }
         if n.mz != 0.0 {
@@ -380,15 +393,20 @@ pub fn loads(model: &Model, case: usize, width: f64) -> String {
                     let (x1, y1) = v.at(tail.0, tail.1);
                     let (x2, y2) = v.at(tip.0, tip.1);
                     out.push_str(&arrow(x1, y1, x2, y2, style::LOAD));
-                    let _ = write!(
-                        out,
-                        r#"<text x="{:.1}" y="{:.1}" font-size="10" fill="{}">{} {}</text>"#,
-                        x1 + 4.0,
-                        y1,
-                        style::LOAD,
+                    let text = format!(
+                        "{} {}",
                         super::num(u.from_si(py.abs(), Dimension::Force), 1),
-                        esc(&fl)
+                        fl
                     );
+                    if let Some((lx, ly, anchor)) = placer.place(x1 + 4.0, y1, &text, 10.0, "start")
+                    {
+                        let _ = write!(
+                            out,
+                            r#"<text x="{lx:.1}" y="{ly:.1}" font-size="10" fill="{}" text-anchor="{anchor}">{}</text>"#,
+                            style::LOAD,
+                            esc(&text)
+                        );
+                    }
                 }
                 LocalLoad::Moment { a, m: mz } if mz != 0.0 => {
                     let p = along(model, m, a, 0.0);
@@ -407,23 +425,199 @@ pub fn loads(model: &Model, case: usize, width: f64) -> String {
             }
         }
         if total_line != 0.0 {
-            // Label the mean transverse intensity once per member.
+            // Label the member's distributed loads once, as the engineer typed them.
             let l = model.length(m);
             let q = total_line / l;
             let p = along(model, m, 0.5 * l, (34.0 / v.scale) * q.signum());
             let (x, y) = v.at(p.0, p.1);
-            let _ = write!(
-                out,
-                r#"<text x="{x:.1}" y="{:.1}" font-size="10" fill="{}" text-anchor="middle" paint-order="stroke" stroke="white" stroke-width="3">{} {}</text>"#,
-                y - 3.0,
-                style::LOAD,
-                super::num(u.from_si(q.abs(), Dimension::LineLoad), 2),
-                esc(&wl)
-            );
+            let typed = typed_line_loads(model, lc, m);
+            let text = if typed.is_empty() {
+                format!(
+                    "{} {}",
+                    super::num(u.from_si(q.abs(), Dimension::LineLoad), 2),
+                    wl
+                )
+            } else {
+                typed.join(" + ")
+            };
+            if let Some((lx, ly, anchor)) = placer.place(x, y - 3.0, &text, 10.0, "middle") {
+                let _ = write!(
+                    out,
+                    r#"<text x="{lx:.1}" y="{ly:.1}" font-size="10" fill="{}" text-anchor="{anchor}" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
+                    style::LOAD,
+                    esc(&text)
+                );
+            }
         }
     }
     out.push_str("</svg>");
     out
+}
+
+/// The distributed loads of load case `lc` on member `m` as typed: intensity in the
+/// model's units, direction, and for a sloped member loaded in a global direction the
+/// length it is spread over ("0.25 kip/ft down, on plan").
+fn typed_line_loads(model: &Model, lc: &crate::model::LoadCase, m: usize) -> Vec<String> {
+    use crate::model::{LoadDirection, Measure, MemberLoadKind};
+    let u = &model.units;
+    let (c, s) = model.cosines(m);
+    let sloped = c.abs() > 1e-6 && s.abs() > 1e-6;
+    lc.member
+        .iter()
+        .filter(|ml| ml.member == m)
+        .filter_map(|ml| match &ml.kind {
+            MemberLoadKind::Distributed {
+                w_a,
+                w_b,
+                direction,
+                measure,
+                ..
+            } => {
+                let w = |v: f64| super::num(u.from_si(v, Dimension::LineLoad), 2);
+                let value = if w_a == w_b {
+                    w(*w_a)
+                } else {
+                    format!("{}…{}", w(*w_a), w(*w_b))
+                };
+                let dir = match direction {
+                    LoadDirection::Gravity => " down",
+                    LoadDirection::GlobalX => " in X",
+                    LoadDirection::GlobalY => " in Y",
+                    LoadDirection::LocalY => " across",
+                    LoadDirection::LocalX => " along",
+                };
+                let global = !matches!(direction, LoadDirection::LocalX | LoadDirection::LocalY);
+                let over = match measure {
+                    Measure::Projected if sloped && global => {
+                        if matches!(direction, LoadDirection::GlobalX) {
+                            ", on elevation"
+                        } else {
+                            ", on plan"
+                        }
+                    }
+                    Measure::AlongMember if sloped && global => ", along the member",
+                    _ => "",
+                };
+                Some(format!(
+                    "{value} {}{dir}{over}",
+                    u.label(Dimension::LineLoad)
+                ))
+            }
+            _ => None,
+        })
+        .collect()
+}
+
+/// The largest fraction t ≤ 1 of the diagram scale `k` (m per N·m) that keeps every point
+/// of `curves` at least `pad` px inside the drawing: a point is its base on the member plus
+/// an offset proportional to k, so each point bounds t linearly.
+fn fill_fraction(model: &Model, v: &View, curves: &[Vec<Curve>], k: f64, pad: f64) -> f64 {
+    let mut t: f64 = 1.0;
+    for (m, list) in curves.iter().enumerate() {
+        for &(x, mo) in list.iter().flatten() {
+            let base = along(model, m, x, 0.0);
+            let tip = along(model, m, x, mo * k);
+            let (bx, by) = v.at(base.0, base.1);
+            let (px, py) = v.at(tip.0, tip.1);
+            for (b, o, hi) in [(bx, px - bx, v.width - pad), (by, py - by, v.height - pad)] {
+                if o > 0.0 && b + o > hi {
+                    t = t.min(((hi - b) / o).max(0.0));
+                } else if o < 0.0 && b + o < pad {
+                    t = t.min(((b - pad) / -o).max(0.0));
+                }
+            }
+        }
+    }
+    t
+}
+
+/// Where a value's label may go relative to its point, px, in order of preference: right
+/// and above, left and above, right and below, left and below, then further out.
+const LABEL_SPOTS: [(f64, f64, &str); 8] = [
+    (3.0, -3.0, "start"),
+    (-3.0, -3.0, "end"),
+    (3.0, 11.0, "start"),
+    (-3.0, 11.0, "end"),
+    (3.0, -15.0, "start"),
+    (-3.0, -15.0, "end"),
+    (3.0, 25.0, "start"),
+    (-3.0, 25.0, "end"),
+];
+
+/// A text's box in the drawing, px: an estimate from the character count (0.66 em per
+/// character, 1 em high above the baseline, 0.25 em below), with the white halo.
+#[derive(Debug, Clone, Copy, PartialEq)]
+struct Box2 {
+    x0: f64,
+    y0: f64,
+    x1: f64,
+    y1: f64,
+}
+
+impl Box2 {
+    /// The box of `text` at font size `size` with its baseline at `(x, y)`.
+    fn text(x: f64, y: f64, text: &str, size: f64, anchor: &str) -> Box2 {
+        let w = 0.66 * size * text.chars().count() as f64 + 3.0;
+        let x0 = match anchor {
+            "end" => x - w,
+            "middle" => x - w / 2.0,
+            _ => x,
+        };
+        Box2 {
+            x0,
+            y0: y - size - 1.5,
+            x1: x0 + w,
+            y1: y + 0.25 * size + 1.5,
+        }
+    }
+
+    fn overlaps(&self, o: &Box2) -> bool {
+        self.x0 < o.x1 && o.x0 < self.x1 && self.y0 < o.y1 && o.y0 < self.y1
+    }
+
+    fn inside(&self, width: f64, height: f64) -> bool {
+        self.x0 >= 0.0 && self.y0 >= 0.0 && self.x1 <= width && self.y1 <= height
+    }
+}
+
+/// Labels placed so far on one drawing: each new label goes to the first free place near
+/// its point, inside the drawing, or is dropped.
+struct Placer {
+    width: f64,
+    height: f64,
+    taken: Vec<Box2>,
+}
+
+impl Placer {
+    fn new(v: &View) -> Placer {
+        Placer {
+            width: v.width,
+            height: v.height,
+            taken: Vec::new(),
+        }
+    }
+
+    /// A free baseline point and anchor for `text` near `(x, y)`, preferring `anchor`
+    /// there; the place is then taken.
+    fn place(
+        &mut self,
+        x: f64,
+        y: f64,
+        text: &str,
+        size: f64,
+        anchor: &'static str,
+    ) -> Option<(f64, f64, &'static str)> {
+        for dy in [0.0, -12.0, 12.0, -24.0, 24.0] {
+            for a in [anchor, "end", "start", "middle"] {
+                let b = Box2::text(x, y + dy, text, size, a);
+                if b.inside(self.width, self.height) && !self.taken.iter().any(|t| t.overlaps(&b)) {
+                    self.taken.push(b);
+                    return Some((x, y + dy, a));
+                }
+            }
+        }
+        None
+    }
 }
 
 /// One curve of moments along a member: `(x, M)` pairs, N·m.
@@ -449,12 +643,14 @@ pub fn diagrams(
         .flatten()
         .map(|(_, m)| m.abs())
         .fold(0.0, f64::max);
-    // The largest moment is drawn at 12 % of the frame's size.
+    // The largest moment is drawn at 12 % of the frame's size, less where a fill would
+    // leave the drawing (an outer column's moments drawn outward).
     let k = if peak > 0.0 {
         0.12 * v.span() / peak
     } else {
         0.0
     };
+    let k = k * fill_fraction(model, &v, curves, k, 4.0);
     let mut out = open(&v, title);
     out.push_str(&members(model, &v, false));
     for (m, list) in curves.iter().enumerate() {
@@ -487,7 +683,14 @@ pub fn diagrams(
         }
     }
     let ml = u.label(Dimension::Moment);
-    for &(m, x, mo) in labels {
+    let title_text = format!("{} ({})", title, ml);
+    // The title's box is taken first; labels go largest value first, each to the first
+    // free place around its point, and a label with no free place is dropped (a lesser
+    // value where two coincide).
+    let mut taken = vec![Box2::text(8.0, 16.0, &title_text, 11.0, "start")];
+    let mut order: Vec<&Label> = labels.iter().collect();
+    order.sort_by(|a, b| b.2.abs().total_cmp(&a.2.abs()));
+    for &(m, x, mo) in order {
         let p = along(model, m, x, mo * k);
         let (px, py) = v.at(p.0, p.1);
         let colour = if mo >= 0.0 {
@@ -495,25 +698,31 @@ pub fn diagrams(
         } else {
             style::NEGATIVE
         };
-        // Labels near the right edge read leftwards so that they stay on the drawing.
-        let (tx, anchor) = if px > v.width - 60.0 {
-            (px - 3.0, "end")
-        } else {
-            (px + 3.0, "start")
+        let text = super::num(u.from_si(mo, Dimension::Moment), 1);
+        let spot = LABEL_SPOTS.iter().find_map(|&(dx, dy, anchor)| {
+            let b = Box2::text(px + dx, py + dy, &text, 10.0, anchor);
+            (b.inside(v.width, v.height) && !taken.iter().any(|t| t.overlaps(&b))).then_some((
+                px + dx,
+                py + dy,
+                anchor,
+                b,
+            ))
+        });
+        let Some((tx, ty, anchor, b)) = spot else {
+            continue;
         };
+        taken.push(b);
         let _ = write!(
             out,
-            r#"<circle cx="{px:.1}" cy="{py:.1}" r="2.2" fill="{colour}"/><text x="{tx:.1}" y="{:.1}" font-size="10" fill="{colour}" text-anchor="{anchor}" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
-            py - 3.0,
-            super::num(u.from_si(mo, Dimension::Moment), 1)
+            r#"<circle cx="{px:.1}" cy="{py:.1}" r="2.2" fill="{colour}"/><text x="{tx:.1}" y="{ty:.1}" font-size="10" fill="{colour}" text-anchor="{anchor}" paint-order="stroke" stroke="white" stroke-width="3">{}</text>"#,
+            text
         );
     }
     let _ = write!(
         out,
-        r#"<text x="8" y="16" font-size="11" fill="{}">{} ({})</text>"#,
+        r#"<text x="8" y="16" font-size="11" fill="{}">{}</text>"#,
         style::MEMBER,
-        esc(title),
-        esc(&ml)
+        esc(&title_text)
     );
     out.push_str("</svg>");
     out
