@@ -365,6 +365,7 @@ impl CheckRun {
             settings: self.settings.clone(),
             selection: self.selection.clone(),
             envelope: self.envelope.clone(),
+            detail: false,
         }
     }
 }
@@ -667,16 +668,21 @@ impl Rendered {
     }
 }
 
-/// Render a check run in `format` (`detail` adds the per-case tables to text and
-/// Markdown).
+/// Heading of the per-case detail, printed after the summary (issue 20).
+pub const DETAIL_HEADING: &str = "Per-case detail";
+
+/// Render a check run in `format` (`detail` gives the summary's tables every column and
+/// adds the per-case tables after the summary, in text and Markdown).
 pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
-    let s = run.summary();
+    let mut s = run.summary();
+    s.detail = detail;
     let rendered = match format {
         CheckFormat::Table => {
             let mut text = summary::text(&s);
             if detail {
                 let d = crate::report::check::detail_text(&run.model, &run.report);
-                text = format!("{d}\n{text}");
+                let rule = "=".repeat(DETAIL_HEADING.chars().count());
+                text = format!("{text}\n{DETAIL_HEADING}\n{rule}\n\n{d}{}\n", crate::CAUTION);
             }
             Rendered::text(text)
         }
@@ -684,7 +690,7 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
             let mut text = summary::markdown(&s);
             if detail {
                 text.push_str(&format!(
-                    "\n## Per-case detail\n\n```text\n{}```\n\n{}\n",
+                    "\n## {DETAIL_HEADING}\n\n```text\n{}```\n\n{}\n",
                     crate::report::check::detail_text(&run.model, &run.report),
                     crate::CAUTION
                 ));
