@@ -680,9 +680,11 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
         CheckFormat::Table => {
             let mut text = summary::text(&s);
             if detail {
+                let width = crate::report::text_width();
                 let d = crate::report::check::detail_text(&run.model, &run.report);
+                let d = crate::report::fit_lines(&format!("{d}{}", crate::CAUTION), width);
                 let rule = "=".repeat(DETAIL_HEADING.chars().count());
-                text = format!("{text}\n{DETAIL_HEADING}\n{rule}\n\n{d}{}\n", crate::CAUTION);
+                text = format!("{text}\n{DETAIL_HEADING}\n{rule}\n\n{d}");
             }
             Rendered::text(text)
         }

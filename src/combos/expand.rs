@@ -474,9 +474,11 @@ impl Row<'_, '_> {
             let base = format!("{vid}{suffix}");
             let alts = alternatives(self.table, &active, self.by_cat);
             let named = alts.len() > 1;
+            let order = active_categories(self.table, &active);
             for choice in &alts {
                 let id = if named {
-                    format!("{base}/{}", alternative_label(choice, self.by_cat, self.cases))
+                    let label = alternative_label(&order, choice, self.by_cat, self.cases);
+                    format!("{base}/{label}")
                 } else {
                     base.clone()
                 };
@@ -1008,15 +1010,8 @@ fn alternatives(
     active: &[(usize, f64)],
     by_cat: &BTreeMap<ActionCategory, CategoryCases>,
 ) -> Vec<BTreeMap<ActionCategory, Vec<Member>>> {
-    let mut cats: Vec<ActionCategory> = Vec::new();
-    for (a, _) in active {
-        let c = table.actions[*a].category;
-        if !cats.contains(&c) {
-            cats.push(c);
-        }
-    }
     let mut acc: Vec<BTreeMap<ActionCategory, Vec<Member>>> = vec![BTreeMap::new()];
-    for c in cats {
+    for c in active_categories(table, active) {
         for (_, members) in &by_cat[&c].groups {
             acc = acc
                 .iter()
@@ -1033,17 +1028,32 @@ fn alternatives(
     acc
 }
 
+/// The categories of the `active` actions, in the order of the terms.
+fn active_categories(table: &ComboTable, active: &[(usize, f64)]) -> Vec<ActionCategory> {
+    let mut cats: Vec<ActionCategory> = Vec::new();
+    for (a, _) in active {
+        let c = table.actions[*a].category;
+        if !cats.contains(&c) {
+            cats.push(c);
+        }
+    }
+    cats
+}
+
 /// The id suffix of one alternative: the load case chosen from each alternative group of
 /// more than one member, `-` in front of a reversed case, joined by `+` (`WL`, `-WL`,
-/// `WL+Su`). Load case ids are unique, so the suffixes of one combination's alternatives
-/// are too, and a suffix names the same load cases in every combination (issue 20).
+/// `WL+Su`), in the order of the terms. Load case ids are unique, so the suffixes of one
+/// combination's alternatives are too, and a suffix names the same load cases in every
+/// combination (issue 20).
 fn alternative_label(
+    order: &[ActionCategory],
     choice: &BTreeMap<ActionCategory, Vec<Member>>,
     by_cat: &BTreeMap<ActionCategory, CategoryCases>,
     cases: &[LoadCase],
 ) -> String {
     let mut names: Vec<String> = Vec::new();
-    for (cat, members) in choice {
+    for cat in order {
+        let members = choice.get(cat).map_or(&[][..], Vec::as_slice);
         for ((_, group), &(ci, sign)) in by_cat[cat].groups.iter().zip(members) {
             if group.len() > 1 {
                 let neg = if sign < 0.0 { "-" } else { "" };

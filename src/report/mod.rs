@@ -167,10 +167,11 @@ fn wrap_cell(cell: &str, width: usize) -> String {
         .join("\n")
 }
 
-/// Wrapping at spaces only (never at a hyphen inside an id such as `2.3.1-4b`), breaking a
-/// word only when it is longer than the line.
+/// Wrapping at spaces only (never at a hyphen or slash inside an id such as
+/// `2.3.1-4b/WL`), breaking a word only when it is longer than the line.
 fn wrap_options<'a>(width: usize) -> textwrap::Options<'a> {
     textwrap::Options::new(width.max(1))
+        .word_separator(textwrap::WordSeparator::AsciiSpace)
         .word_splitter(textwrap::WordSplitter::NoHyphenation)
         .break_words(true)
 }
@@ -181,6 +182,23 @@ pub fn wrap_text(text: &str, width: usize, indent: usize) -> String {
     let pad = " ".repeat(indent);
     let options = wrap_options(width.max(MIN_TEXT_WIDTH)).subsequent_indent(&pad);
     textwrap::wrap(text, options).join("\n")
+}
+
+/// `text` with every line wider than `width` wrapped, its continuation lines indented two
+/// spaces more than the line (for text whose tables already fit, such as the per-case
+/// detail).
+pub fn fit_lines(text: &str, width: usize) -> String {
+    let mut out = String::new();
+    for line in text.lines() {
+        if display_width(line) > width {
+            let indent = line.len() - line.trim_start_matches(' ').len();
+            out.push_str(&wrap_text(line, width, indent + 2));
+        } else {
+            out.push_str(line);
+        }
+        out.push('\n');
+    }
+    out
 }
 
 /// A number for a table: `digits` significant decimals, `-` for NaN, `∞` for infinity.

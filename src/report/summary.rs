@@ -342,7 +342,11 @@ const STORY_COLUMNS: [StoryColumn; 10] = {
             Some(&[Direct]),
         ),
         ("min α_cr", |e| peak(&e.alpha_cr, 2), Some(&[Ec3AlphaCr])),
-        ("max sway amp", |e| peak(&e.sway_amplifier, 3), None),
+        (
+            "max sway amp",
+            |e| peak(&e.sway_amplifier, 3),
+            Some(&[AiscB1B2, AciMagnifier, Ec3AlphaCr]),
+        ),
         ("verdict", story_verdict, None),
     ]
 };
