@@ -110,14 +110,23 @@ fn detail_prints_the_summary_first_then_the_detail_under_a_heading() {
         .find_map(|l| l.strip_prefix("title = \""))
         .and_then(|t| t.split('"').next())
         .expect("the example has a title");
-    assert_eq!(text.lines().next(), Some(title), "the model's title comes first");
+    assert_eq!(
+        text.lines().next(),
+        Some(title),
+        "the model's title comes first"
+    );
     let heading = text
         .find(plumbline::app::DETAIL_HEADING)
         .expect("the detail heading");
-    let closing = text.find("Cases that never govern").expect("the closing lines");
+    let closing = text
+        .find("Cases that never govern")
+        .expect("the closing lines");
     assert!(closing < heading, "summary before the detail");
     let words = text.split_whitespace().collect::<Vec<_>>().join(" ");
-    assert!(words.ends_with(plumbline::CAUTION), "the caution closes the output");
+    assert!(
+        words.ends_with(plumbline::CAUTION),
+        "the caution closes the output"
+    );
     let wide = too_wide(&text, 100);
     assert!(wide.is_empty(), "--detail wider than 100: {wide:?}");
 }
@@ -128,7 +137,9 @@ fn story_envelope_shows_only_the_chosen_methods_figures() {
     // 6.6.4 and EN 1993-1-1 5.2); --detail shows them all.
     let model = Path::new(ROOT).join("examples/office-3story.toml");
     let story_head = |text: &str| -> String {
-        let mut lines = text.lines().skip_while(|l| !l.starts_with("Story envelope"));
+        let mut lines = text
+            .lines()
+            .skip_while(|l| !l.starts_with("Story envelope"));
         lines.nth(1).unwrap_or_default().to_string()
     };
     let default = story_head(&stdout(&model, &[], Some(200)));
@@ -160,7 +171,10 @@ fn legend_explains_every_suffix_in_use() {
         &[],
         None,
     );
-    assert!(leaning.contains("/-W "), "a reversed alternative is named -W");
+    assert!(
+        leaning.contains("/-W "),
+        "a reversed alternative is named -W"
+    );
     assert!(leaning.contains("  /N+ "), "legend lacks /N+");
 }
 
@@ -174,7 +188,10 @@ fn a_table_too_wide_is_fitted_without_breaking_words_that_fit() {
     ]];
     let t = table_fitting(&header, rows, 40);
     assert!(too_wide(&t, 40).is_empty(), "{t}");
-    assert!(t.contains("2.3.1-4b~L/WL+Su"), "an id that fits stays whole:\n{t}");
+    assert!(
+        t.contains("2.3.1-4b~L/WL+Su"),
+        "an id that fits stays whole:\n{t}"
+    );
     assert!(!t.lines().any(|l| l.ends_with(' ')));
 }
 
@@ -182,11 +199,19 @@ fn a_table_too_wide_is_fitted_without_breaking_words_that_fit() {
 fn column_widths_narrow_the_widest_first() {
     // Room for 20: the 30-wide column gives way, down to its longest word (12), then the
     // 10-wide one; words are broken only below the longest words.
-    assert_eq!(column_widths(&[5, 10, 30], &[5, 4, 12], 100), vec![5, 10, 30]);
-    assert_eq!(column_widths(&[5, 10, 30], &[5, 4, 12], 27), vec![5, 10, 12]);
+    assert_eq!(
+        column_widths(&[5, 10, 30], &[5, 4, 12], 100),
+        vec![5, 10, 30]
+    );
+    assert_eq!(
+        column_widths(&[5, 10, 30], &[5, 4, 12], 27),
+        vec![5, 10, 12]
+    );
     assert_eq!(column_widths(&[5, 10, 30], &[5, 4, 12], 21), vec![5, 4, 12]);
     assert_eq!(
-        column_widths(&[5, 10, 30], &[5, 4, 12], 12).iter().sum::<usize>(),
+        column_widths(&[5, 10, 30], &[5, 4, 12], 12)
+            .iter()
+            .sum::<usize>(),
         12
     );
 }

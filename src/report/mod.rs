@@ -80,12 +80,60 @@ pub fn table_of<S: AsRef<str>>(header: &[S], rows: Vec<Vec<String>>) -> String {
 /// A plain table of our own style, no line wider than `width` columns (when the columns
 /// can be that narrow). A table too wide is fitted by [`column_widths`]: the widest columns
 /// give way first, words are broken only when the columns cannot fit otherwise, and a
-/// wrapped row continues on the next lines with the other cells blank. No line ends in
-/// spaces.
+/// wrapped row continues on the next lines with the other cells blank. A table whose
+/// columns cannot fit side by side even at their longest words is printed in parts
+/// ([`column_panels`]), each repeating the first column. No line ends in spaces.
 pub fn table_fitting<S: AsRef<str>>(header: &[S], rows: Vec<Vec<String>>, width: usize) -> String {
-    let mut cells: Vec<Vec<String>> =
-        vec![header.iter().map(|s| s.as_ref().to_string()).collect()];
+    let mut cells: Vec<Vec<String>> = vec![header.iter().map(|s| s.as_ref().to_string()).collect()];
     cells.extend(rows);
+    let columns = cells.iter().map(Vec::len).max().unwrap_or(0);
+    let words: Vec<usize> = (0..columns)
+        .map(|c| column_extent(&cells, c, longest_word))
+        .collect();
+    column_panels(&words, width)
+        .iter()
+        .map(|panel| {
+            let part: Vec<Vec<String>> = cells
+                .iter()
+                .map(|r| {
+                    panel
+                        .iter()
+                        .map(|&c| r.get(c).cloned().unwrap_or_default())
+                        .collect()
+                })
+                .collect();
+            fitted_table(part, width)
+        })
+        .collect::<Vec<_>>()
+        .join("\n\n")
+}
+
+/// Width of the spaces around `columns` columns: one either side of each, and one between.
+fn frame_width(columns: usize) -> usize {
+    3 * columns.saturating_sub(1) + 2
+}
+
+/// The columns of a table in parts that each fit `width` at the columns' longest words
+/// (`words`); every part after the first starts with column 0, the row's key. One part when
+/// the whole table fits.
+pub fn column_panels(words: &[usize], width: usize) -> Vec<Vec<usize>> {
+    let span =
+        |cols: &[usize]| cols.iter().map(|&c| words[c]).sum::<usize>() + frame_width(cols.len());
+    let mut panels = Vec::new();
+    let mut current: Vec<usize> = (0..words.len().min(1)).collect();
+    for c in 1..words.len() {
+        current.push(c);
+        if current.len() > 2 && span(&current) > width {
+            current.pop();
+            panels.push(std::mem::replace(&mut current, vec![0, c]));
+        }
+    }
+    panels.push(current);
+    panels
+}
+
+/// One table (header row first) fitted to `width` by [`column_widths`] and rendered.
+fn fitted_table(mut cells: Vec<Vec<String>>, width: usize) -> String {
     let columns = cells.iter().map(Vec::len).max().unwrap_or(0);
     let natural: Vec<usize> = (0..columns)
         .map(|c| column_extent(&cells, c, |t| display_width(t)))
@@ -93,9 +141,7 @@ pub fn table_fitting<S: AsRef<str>>(header: &[S], rows: Vec<Vec<String>>, width:
     let words: Vec<usize> = (0..columns)
         .map(|c| column_extent(&cells, c, longest_word))
         .collect();
-    // Each column takes its width plus one space either side, columns one space apart.
-    let frame = 3 * columns.saturating_sub(1) + 2;
-    let fitted = column_widths(&natural, &words, width.saturating_sub(frame));
+    let fitted = column_widths(&natural, &words, width.saturating_sub(frame_width(columns)));
     if fitted != natural {
         for row in &mut cells {
             for (c, cell) in row.iter_mut().enumerate() {

@@ -653,9 +653,12 @@ pub fn id_legend_lines(s: &Summary) -> Vec<String> {
     if lines.is_empty() {
         return lines;
     }
-    std::iter::once("Case ids: the table's combination id (and variant letter), then".to_string())
-        .chain(lines.into_iter().map(|l| format!("  {l}")))
-        .collect()
+    std::iter::once(
+        "Reading the case ids: the combination id of the table (and variant letter), then"
+            .to_string(),
+    )
+    .chain(lines.into_iter().map(|l| format!("  {l}")))
+    .collect()
 }
 
 /// Closing lines: cases that never govern, unstable cases, largest residual.
