@@ -241,7 +241,7 @@ pub struct CheckArgs {
     pub approximate: bool,
 }
 
-/// Exit status of the program (documented in the README, "Exit status").
+/// Exit status of the program (documented in docs/commands.md, "Exit status").
 pub mod exit {
     /// The command ran and every factored case is stable.
     pub const OK: u8 = 0;

@@ -124,7 +124,7 @@ pub struct JsonUnits {
     pub displacement: String,
 }
 
-/// The JSON document of `check` (keys documented in the README).
+/// The JSON document of `check` (keys documented in docs/json-output.md).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct CheckDoc {
     pub schema_version: u32,
@@ -144,7 +144,7 @@ pub struct CheckDoc {
     pub envelope: Envelope,
     /// The largest design moment of each member over the stable cases.
     pub governing: Vec<GoverningMoment>,
-    /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see the README).
+    /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see docs/json-output.md).
     pub report: serde_json::Value,
     pub caution: String,
 }
