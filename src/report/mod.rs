@@ -136,7 +136,7 @@ pub fn column_panels(words: &[usize], width: usize) -> Vec<Vec<usize>> {
 fn fitted_table(mut cells: Vec<Vec<String>>, width: usize) -> String {
     let columns = cells.iter().map(Vec::len).max().unwrap_or(0);
     let natural: Vec<usize> = (0..columns)
-        .map(|c| column_extent(&cells, c, |t| display_width(t)))
+        .map(|c| column_extent(&cells, c, display_width))
         .collect();
     let words: Vec<usize> = (0..columns)
         .map(|c| column_extent(&cells, c, longest_word))
