@@ -14,9 +14,11 @@ const BIN: &str = env!("CARGO_BIN_EXE_plumbline");
 const ROOT: &str = env!("CARGO_MANIFEST_DIR");
 const PORTAL: &str = "examples/workshop-portal.toml";
 
+/// Run the program, wide enough that no table row wraps (the assertions read whole rows).
 fn run(args: &[&str]) -> Output {
     Command::new(BIN)
         .args(args)
+        .env("COLUMNS", "1000")
         .current_dir(ROOT)
         .output()
         .expect("the plumbline binary runs")
