@@ -367,7 +367,7 @@ pub fn story_table(s: &Summary) -> Table {
         .collect();
     Table {
         name: "stories",
-        title: "Story envelope over the stable cases: largest drift ratio and amplifiers, smallest α_cr (case)".into(),
+        title: "Story envelope over the stable cases: largest drift ratio and the figures of the method, with the case".into(),
         header: shown.iter().map(|(h, _, _)| h.to_string()).collect(),
         rows,
     }
