@@ -243,6 +243,23 @@ pub fn resolve_table(
     }
 }
 
+/// A model with no load case has nothing to combine or check: refused, naming the file.
+fn require_load_cases(model: &Model, model_path: &Path) -> Result<(), AppError> {
+    if !model.load_cases.is_empty() {
+        return Ok(());
+    }
+    Err(AppError::from(FileError {
+        file: model_path.display().to_string(),
+        line: 0,
+        column: 0,
+        field: "case".into(),
+        message: "the model has no load cases: nothing to combine or check".into(),
+        help: Some("add at least one [[case]] with its category and loads".into()),
+        span: None,
+        source_text: None,
+    }))
+}
+
 /// The table a command uses and the settings the model and `--set` give it: parameters with
 /// their locations, load-level conversions, and the levels of the model's own table for
 /// load cases that state none.
@@ -253,18 +270,7 @@ fn table_and_settings(
     sets: &[String],
 ) -> Result<(ComboTable, Settings), AppError> {
     let sets = parse_sets(sets)?;
-    if model.load_cases.is_empty() {
-        return Err(AppError::from(FileError {
-            file: model_path.display().to_string(),
-            line: 0,
-            column: 0,
-            field: "case".into(),
-            message: "the model has no load cases: nothing to combine or check".into(),
-            help: Some("add at least one [[case]] with its category and loads".into()),
-            span: None,
-            source_text: None,
-        }));
-    }
+    require_load_cases(model, model_path)?;
     let table = resolve_table(model, model_path, combos)?;
     let own = match combos {
         Some(_) => own_table_for_levels(model, model_path)?,
@@ -336,7 +342,8 @@ pub fn cases(
 ) -> Result<String, AppError> {
     let model = load_model(model_path)?;
     let (table, combo_settings) = table_and_settings(&model, model_path, combos, sets)?;
-    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(&model, model_path, e))?;
+    let arranged =
+        crate::arrange::arrange_model(&model).map_err(|e| analysis(&model, model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     crate::arrange::within_case_limit(&expansion).map_err(|e| analysis(&model, model_path, e))?;
     Ok(render_expansion(
@@ -375,7 +382,7 @@ pub struct CheckArgs {
     pub service_stiffness: Option<String>,
 }
 
-/// Exit status of the program (documented in the README, "Exit status").
+/// Exit status of the program (documented in docs/commands.md, "Exit status").
 pub mod exit {
     /// The command ran and every factored case is stable.
     pub const OK: u8 = 0;
@@ -515,6 +522,7 @@ impl CheckRun {
             selection: self.selection.clone(),
             envelope: self.envelope.clone(),
             service: self.service.as_ref().map(|s| &s.report),
+            detail: false,
         }
     }
 
@@ -737,9 +745,10 @@ pub fn run_check(
         args.notional.as_deref(),
     )?;
     let cli_params = parse_sets(&args.sets)?;
+    require_load_cases(&model, model_path)?;
     let table = resolve_table(&model, model_path, args.combos.as_deref())?;
     let own = match &args.combos {
-        Some(_) => own_table(&model, model_path)?,
+        Some(_) => own_table_for_levels(&model, model_path)?,
         None => Some(table.clone()),
     };
     let service_only = table.basis == crate::combos::Basis::Serviceability;
@@ -767,7 +776,8 @@ pub fn run_check(
         other(&table).as_ref(),
     );
     // Arranged live load: pieces appended to the model, arrangements as alternatives.
-    let arranged = crate::arrange::arrange_model(&model).map_err(|e| analysis(&model, model_path, e))?;
+    let arranged =
+        crate::arrange::arrange_model(&model).map_err(|e| analysis(&model, model_path, e))?;
     let expansion = arranged.apply(expand_with(&table, &model.load_cases, &combo_settings)?);
     let service = match &service_table {
         Some(st) => {
@@ -1117,16 +1127,23 @@ impl Rendered {
     }
 }
 
-/// Render a check run in `format` (`detail` adds the per-case tables to text and
-/// Markdown).
+/// Heading of the per-case detail, printed after the summary (issue 20).
+pub const DETAIL_HEADING: &str = "Per-case detail";
+
+/// Render a check run in `format` (`detail` gives the summary's tables every column and
+/// adds the per-case tables after the summary, in text and Markdown).
 pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
-    let s = run.summary();
+    let mut s = run.summary();
+    s.detail = detail;
     let rendered = match format {
         CheckFormat::Table => {
             let mut text = summary::text(&s);
             if detail {
+                let width = crate::report::text_width();
                 let d = crate::report::check::detail_text(&run.model, &run.report);
-                text = format!("{d}\n{text}");
+                let d = crate::report::fit_lines(&format!("{d}{}", crate::CAUTION), width);
+                let rule = "=".repeat(DETAIL_HEADING.chars().count());
+                text = format!("{text}\n{DETAIL_HEADING}\n{rule}\n\n{d}");
             }
             Rendered::text(text)
         }
@@ -1134,7 +1151,7 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
             let mut text = summary::markdown(&s);
             if detail {
                 text.push_str(&format!(
-                    "\n## Per-case detail\n\n```text\n{}```\n\n{}\n",
+                    "\n## {DETAIL_HEADING}\n\n```text\n{}```\n\n{}\n",
                     crate::report::check::detail_text(&run.model, &run.report),
                     crate::CAUTION
                 ));

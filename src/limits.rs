@@ -2,7 +2,7 @@
 //! for minutes or exhaust memory before answering. Each limit is refused with a message
 //! that names it. The figures are generous for building frames (a 20-bay, 100-story frame
 //! has 4,100 members) and keep a run within seconds: the check of 4,100 members takes about
-//! 3 s (see the README's performance notes).
+//! 3 s (see docs/limitations.md).
 
 /// Largest model file or combination table read, in bytes (16 MiB).
 pub const MAX_FILE_BYTES: usize = 16 << 20;

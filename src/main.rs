@@ -416,6 +416,17 @@ fn run(cli: Cli) -> Result<Done, AppError> {
     })
 }
 
+/// The width text output is fitted to: the `COLUMNS` variable, else the terminal's width,
+/// else [`plumbline::report::DEFAULT_TEXT_WIDTH`] (output that is not a terminal).
+fn output_width() -> usize {
+    std::env::var("COLUMNS")
+        .ok()
+        .and_then(|v| v.trim().parse::<usize>().ok())
+        .filter(|&w| w > 0)
+        .or_else(|| terminal_size::terminal_size().map(|(w, _)| usize::from(w.0)))
+        .unwrap_or(plumbline::report::DEFAULT_TEXT_WIDTH)
+}
+
 fn main() -> ExitCode {
     // Wrap error messages at spaces only, so that an id such as `2.3.1-2a` is never split.
     let _ = miette::set_hook(Box::new(|_| {
@@ -427,6 +438,7 @@ fn main() -> ExitCode {
         )
     }));
     let cli = Cli::parse();
+    plumbline::report::set_text_width(output_width());
     let result = run(cli).and_then(|done| {
         app::emit(&done.rendered, done.output.as_deref()).map(|w| (w, done.unstable))
     });

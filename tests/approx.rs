@@ -312,7 +312,7 @@ fn a_wrong_unit_on_one_load_is_flagged() {
     assert_eq!(flags_of(&n_mm_frame("10", "20")), vec![vec![], vec![]]);
 
     // Live load on B2.1 written as 10000, meant as 10000 N/m: in the N-mm preset a bare
-    // number is N/mm, so the load is 1000 times too large (units preset table, README).
+    // number is N/mm, so the load is 1000 times too large (units preset table, docs/model-guide.md).
     // 1.2D + 1.6L on B2.1: 1.2·20 + 1.6·10000 = 16024 N/mm against the median beam
     // 1.2·20 + 1.6·10 = 40 N/mm: 400.6 times, beyond the threshold of 10.
     let flags = flags_of(&n_mm_frame("10000", "20"));

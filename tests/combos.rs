@@ -743,10 +743,10 @@ terms = [{ D = 1.0 }, { W = 0.5 }, { E = 1.0 }]
         &e,
         &cases,
         &[
-            ("T-1/1", "D*1.0 W-left*0.5 Wi*0.5 E-x*1.0"),
-            ("T-1/2", "D*1.0 W-left*0.5 Wi*0.5 E-y*1.0"),
-            ("T-1/3", "D*1.0 W-right*0.5 Wi*0.5 E-x*1.0"),
-            ("T-1/4", "D*1.0 W-right*0.5 Wi*0.5 E-y*1.0"),
+            ("T-1/W-left+E-x", "D*1.0 W-left*0.5 Wi*0.5 E-x*1.0"),
+            ("T-1/W-left+E-y", "D*1.0 W-left*0.5 Wi*0.5 E-y*1.0"),
+            ("T-1/W-right+E-x", "D*1.0 W-right*0.5 Wi*0.5 E-x*1.0"),
+            ("T-1/W-right+E-y", "D*1.0 W-right*0.5 Wi*0.5 E-y*1.0"),
         ],
     );
     assert_eq!(e.cases[1].expression, "1.0D + 0.5W(W-left) + 1.0E(E-y)");
@@ -769,15 +769,15 @@ fn wind_directions_double_the_wind_combinations() {
         &cases,
         &[
             ("2.3.1-1", "D*1.4"),
-            ("2.3.1-3d/1", "D*1.2 S*1.6 W-left*0.5"),
-            ("2.3.1-3d/2", "D*1.2 S*1.6 W-right*0.5"),
+            ("2.3.1-3d/W-left", "D*1.2 S*1.6 W-left*0.5"),
+            ("2.3.1-3d/W-right", "D*1.2 S*1.6 W-right*0.5"),
             ("2.3.1-3d~W", "D*1.2 S*1.6"),
-            ("2.3.1-4b/1", "D*1.2 W-left*1.0 S*0.5"),
-            ("2.3.1-4b/2", "D*1.2 W-right*1.0 S*0.5"),
-            ("2.3.1-4b~S/1", "D*1.2 W-left*1.0"),
-            ("2.3.1-4b~S/2", "D*1.2 W-right*1.0"),
-            ("2.3.1-5/1", "D*0.9 W-left*1.0"),
-            ("2.3.1-5/2", "D*0.9 W-right*1.0"),
+            ("2.3.1-4b/W-left", "D*1.2 W-left*1.0 S*0.5"),
+            ("2.3.1-4b/W-right", "D*1.2 W-right*1.0 S*0.5"),
+            ("2.3.1-4b~S/W-left", "D*1.2 W-left*1.0"),
+            ("2.3.1-4b~S/W-right", "D*1.2 W-right*1.0"),
+            ("2.3.1-5/W-left", "D*0.9 W-left*1.0"),
+            ("2.3.1-5/W-right", "D*0.9 W-right*1.0"),
         ],
     );
     assert_eq!(e.cases[4].expression, "1.2D + 1.0W(W-left) + 0.5S");
@@ -1280,11 +1280,11 @@ fn a_stated_conversion_gives_the_right_factors() {
         &e,
         &model.load_cases,
         &[
-            ("6.10-1c/1", "D*1.35 WL*0.9375"),
-            ("6.10-1c/2", "D*1.35 WR*0.9375"),
+            ("6.10-1c/WL", "D*1.35 WL*0.9375"),
+            ("6.10-1c/WR", "D*1.35 WR*0.9375"),
             ("6.10-1c~W", "D*1.35"),
-            ("6.10-1g/1", "D*1.0 WL*0.9375"),
-            ("6.10-1g/2", "D*1.0 WR*0.9375"),
+            ("6.10-1g/WL", "D*1.0 WL*0.9375"),
+            ("6.10-1g/WR", "D*1.0 WR*0.9375"),
             ("6.10-1g~W", "D*1.0"),
         ],
     );
@@ -1294,7 +1294,7 @@ fn a_stated_conversion_gives_the_right_factors() {
     assert!(
         own.cases
             .iter()
-            .any(|c| c.id == "2.3.1-5/1" && (c.factor_of(1) - 1.0).abs() < 1e-12)
+            .any(|c| c.id == "2.3.1-5/WL" && (c.factor_of(1) - 1.0).abs() < 1e-12)
     );
 }
 
@@ -1373,11 +1373,11 @@ fn wind_from_one_side_only_is_a_located_warning_and_reverse_fixes_it() {
     assert_eq!(
         five,
         [
-            ("2.3.1-5/1".to_string(), 1.0),
-            ("2.3.1-5/2".to_string(), -1.0)
+            ("2.3.1-5/WL".to_string(), 1.0),
+            ("2.3.1-5/-WL".to_string(), -1.0)
         ]
     );
-    let rev = e.cases.iter().find(|c| c.id == "2.3.1-5/2").unwrap();
+    let rev = e.cases.iter().find(|c| c.id == "2.3.1-5/-WL").unwrap();
     assert_eq!(rev.expression, "0.9D + 1.0W(−WL)");
     assert!(model.load_cases[1].reverse);
 }

@@ -28,13 +28,14 @@ fn every_example_parses() {
 
 #[test]
 fn readme_clinic_example_parses_with_consistent_sections() {
-    // The README's complete model must stay a valid model file.
-    let readme = include_str!("../README.md");
+    // The guided tour's complete model (docs/model-guide.md) must stay a valid model file.
+    let readme = include_str!("../docs/model-guide.md");
     let start = readme
         .find("title = \"Two-story clinic")
         .expect("clinic example");
     let end = start + readme[start..].find("```").expect("end of the example");
-    let m = parse_model(&readme[start..end], "README.md").unwrap_or_else(|e| panic!("{e}"));
+    let m =
+        parse_model(&readme[start..end], "docs/model-guide.md").unwrap_or_else(|e| panic!("{e}"));
     assert_eq!(m.members.len(), 6);
     // Each section is one shape (illustrative values, from memory): a 250 mm wide-flange
     // column with A = 86.8 cm², I = 10450 cm⁴; a 400 mm I-beam with A = 84.5 cm²,

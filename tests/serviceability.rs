@@ -485,14 +485,21 @@ fn solve_states_its_stiffness_and_uses_gross_by_default() {
     let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/office-3story.toml");
     let fmt = plumbline::report::OutputFormat::Json;
     let doc = |s: &str| -> serde_json::Value {
-        serde_json::from_str(&plumbline::app::solve_with(&path, "WL", s, fmt).unwrap()).unwrap()
+        serde_json::from_str(
+            &plumbline::app::solve_with(&path, "WL", s, fmt)
+                .unwrap()
+                .joined(),
+        )
+        .unwrap()
     };
     let (g, r) = (doc("gross"), doc("aisc-direct"));
     assert_eq!(g["stiffness"], "gross");
     assert_eq!(r["stiffness"], "aisc-direct");
     let ux = |d: &serde_json::Value| d["displacements"][1]["ux"].as_f64().unwrap();
     assert!((ux(&r) - ux(&g) / 0.8).abs() <= 1e-9 * ux(&g).abs());
-    let text = plumbline::app::solve(&path, "WL", plumbline::report::OutputFormat::Table).unwrap();
+    let text = plumbline::app::solve(&path, "WL", plumbline::report::OutputFormat::Table)
+        .unwrap()
+        .joined();
     assert!(text.lines().nth(1).unwrap().contains("stiffness gross"));
 }
 
@@ -504,7 +511,7 @@ fn the_html_report_draws_the_drift_profile_and_the_deflected_shape() {
     let path = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/office-3story.toml");
     let html = plumbline::app::report(&path, &Default::default(), &mut |_, _| {}).unwrap();
     assert_eq!(html.matches("class=\"drawing drift-profile\"").count(), 1);
-    assert!(html.contains("<polyline class=\"drift\" data-case=\"C-2/2\""));
+    assert!(html.contains("<polyline class=\"drift\" data-case=\"C-2/WR\""));
     assert_eq!(
         html.matches("<line class=\"limit\"").count(),
         3,
@@ -515,6 +522,6 @@ fn the_html_report_draws_the_drift_profile_and_the_deflected_shape() {
         15,
         "every member once"
     );
-    assert!(html.contains("Deflected shape of the governing service case C-2/2"));
+    assert!(html.contains("Deflected shape of the governing service case C-2/WR"));
     assert!(html.contains(plumbline::CAUTION));
 }

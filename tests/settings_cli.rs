@@ -5,7 +5,7 @@
 //! notional load 0.002·Yi, §C2.3(c) additional 0.001·Yi with τb = 1.0 (from memory; the
 //! reference notes §9 carry them). EN 1993-1-1:2005 §5.2 makes no stiffness reduction and
 //! §5.3.2 gives the sway imperfection (from memory). Exit codes are the project's contract
-//! (README "Exit status", no external source).
+//! (docs/commands.md "Exit status", no external source).
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
@@ -14,9 +14,11 @@ const BIN: &str = env!("CARGO_BIN_EXE_plumbline");
 const ROOT: &str = env!("CARGO_MANIFEST_DIR");
 const PORTAL: &str = "examples/workshop-portal.toml";
 
+/// Run the program, wide enough that no table row wraps (the assertions read whole rows).
 fn run(args: &[&str]) -> Output {
     Command::new(BIN)
         .args(args)
+        .env("COLUMNS", "1000")
         .current_dir(ROOT)
         .output()
         .expect("the plumbline binary runs")

@@ -17,8 +17,9 @@
 //!    skipped and reported; other missing terms simply drop out.
 //! 4. **Alternatives**: load cases of one category add up; cases sharing an
 //!    `alternative_group` are alternatives, one factored case per alternative, cross
-//!    product over groups (`/1`, `/2`… appended to the id when there is more than one). A
-//!    case with `reverse` is its own alternative with every load negated.
+//!    product over groups. When there is more than one, the id names the load case drawn from
+//!    each group of two or more (`/WL`, `/WL+Su`; `/-WL` for a reversed case). A case with
+//!    `reverse` is its own alternative with every load negated.
 //! 5. **Bounded work**: the number of cases a combination can give for the model is counted
 //!    before anything is generated; beyond [`MAX_FACTORED_CASES`] it is an error naming the
 //!    combination.
@@ -46,8 +47,8 @@ pub const MAX_FACTORED_CASES: usize = 10_000;
 /// A factored load case: factors on the model's load cases.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct FactoredCase {
-    /// Combination id, variant letter, left-out actions and alternative number, e.g.
-    /// `2.3.1-4c~L/2`.
+    /// Combination id, variant letter, left-out actions and the load cases of the
+    /// alternative, e.g. `2.3.1-4c~L/W-right`.
     pub id: String,
     /// Readable form, e.g. `1.2D + 1.0W(W-left) + 1.0L + 0.5S`.
     pub expression: String,
@@ -482,10 +483,12 @@ impl Row<'_, '_> {
                 .collect();
             let base = format!("{vid}{suffix}");
             let alts = alternatives(self.table, &active, self.by_cat);
-            let numbered = alts.len() > 1;
-            for (ai, choice) in alts.iter().enumerate() {
-                let id = if numbered {
-                    format!("{base}/{}", ai + 1)
+            let named = alts.len() > 1;
+            let order = active_categories(self.table, &active);
+            for choice in &alts {
+                let id = if named {
+                    let label = alternative_label(&order, choice, self.by_cat, self.cases);
+                    format!("{base}/{label}")
                 } else {
                     base.clone()
                 };
@@ -1052,15 +1055,8 @@ fn alternatives(
     active: &[(usize, f64)],
     by_cat: &BTreeMap<ActionCategory, CategoryCases>,
 ) -> Vec<BTreeMap<ActionCategory, Vec<Member>>> {
-    let mut cats: Vec<ActionCategory> = Vec::new();
-    for (a, _) in active {
-        let c = table.actions[*a].category;
-        if !cats.contains(&c) {
-            cats.push(c);
-        }
-    }
     let mut acc: Vec<BTreeMap<ActionCategory, Vec<Member>>> = vec![BTreeMap::new()];
-    for c in cats {
+    for c in active_categories(table, active) {
         for (_, members) in &by_cat[&c].groups {
             acc = acc
                 .iter()
@@ -1075,6 +1071,42 @@ fn alternatives(
         }
     }
     acc
+}
+
+/// The categories of the `active` actions, in the order of the terms.
+fn active_categories(table: &ComboTable, active: &[(usize, f64)]) -> Vec<ActionCategory> {
+    let mut cats: Vec<ActionCategory> = Vec::new();
+    for (a, _) in active {
+        let c = table.actions[*a].category;
+        if !cats.contains(&c) {
+            cats.push(c);
+        }
+    }
+    cats
+}
+
+/// The id suffix of one alternative: the load case chosen from each alternative group of
+/// more than one member, `-` in front of a reversed case, joined by `+` (`WL`, `-WL`,
+/// `WL+Su`), in the order of the terms. Load case ids are unique, so the suffixes of one
+/// combination's alternatives are too, and a suffix names the same load cases in every
+/// combination (issue 20).
+fn alternative_label(
+    order: &[ActionCategory],
+    choice: &BTreeMap<ActionCategory, Vec<Member>>,
+    by_cat: &BTreeMap<ActionCategory, CategoryCases>,
+    cases: &[LoadCase],
+) -> String {
+    let mut names: Vec<String> = Vec::new();
+    for cat in order {
+        let members = choice.get(cat).map_or(&[][..], Vec::as_slice);
+        for ((_, group), &(ci, sign)) in by_cat[cat].groups.iter().zip(members) {
+            if group.len() > 1 {
+                let neg = if sign < 0.0 { "-" } else { "" };
+                names.push(format!("{neg}{}", cases[ci].id));
+            }
+        }
+    }
+    names.join("+")
 }
 
 /// A factor as the standards print it: at most four decimals, at least one (`1.0`, `1.35`).

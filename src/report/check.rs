@@ -2,7 +2,7 @@
 //! and the per-member moments (no-sway part, sway part, amplifiers, design value).
 
 use super::summary::Table;
-use super::{num, opt, table_of};
+use super::{num, opt, table_fitting, table_of, text_width};
 use crate::check::story::StiffnessSource;
 use crate::check::{CaseCheck, CheckReport, MemberCheck, StoryFigures};
 use crate::model::{Model, SecondOrderMethod};
@@ -187,7 +187,11 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
         out.push_str("  UNSTABLE: the loads exceed a critical load; no design values are given\n");
     }
     let rows = c.stories.iter().map(|s| story_row(model, s, 1)).collect();
-    out.push_str(&indent(&table_of(&story_header(model), rows)));
+    out.push_str(&indent(&table_fitting(
+        &story_header(model),
+        rows,
+        text_width().saturating_sub(INDENT),
+    )));
     out.push('\n');
     let rows = c
         .members
@@ -200,7 +204,11 @@ pub fn case_text(model: &Model, c: &CaseCheck) -> String {
         .collect();
     let mut header = member_header(model);
     header.push("notes".into());
-    out.push_str(&indent(&table_of(&header, rows)));
+    out.push_str(&indent(&table_fitting(
+        &header,
+        rows,
+        text_width().saturating_sub(INDENT),
+    )));
     out.push('\n');
     if !model.supports.is_empty() {
         out.push_str("  support reactions: design (second-order analysis) and first-order\n");
@@ -285,8 +293,20 @@ fn story_row(model: &Model, s: &StoryFigures, decimals: usize) -> Vec<String> {
     ]
 }
 
+/// Indentation of the tables of one case.
+const INDENT: usize = 2;
+
 fn indent(s: &str) -> String {
-    s.lines().map(|l| format!("  {l}\n")).collect()
+    let pad = " ".repeat(INDENT);
+    s.lines()
+        .map(|l| {
+            if l.is_empty() {
+                "\n".to_string()
+            } else {
+                format!("{pad}{l}\n")
+            }
+        })
+        .collect()
 }
 
 /// Column heads of the per-member results, in the model's units.

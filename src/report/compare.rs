@@ -244,28 +244,10 @@ fn model_of<'a>(run: &CompareView<'a>) -> &'a Model {
     run.model
 }
 
-/// Text lines of at most this many characters (the default terminal width).
-const WIDTH: usize = 120;
-
-/// `text` broken at spaces into lines of at most [`WIDTH`] characters, continuation lines
+/// `text` wrapped to the terminal's width ([`super::text_width`]), continuation lines
 /// indented by two spaces.
 fn wrap(text: &str) -> String {
-    let mut out = String::new();
-    let mut line = String::new();
-    for word in text.split(' ') {
-        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > WIDTH {
-            out.push_str(line.trim_end());
-            out.push('\n');
-            line = "  ".into();
-        }
-        if !line.trim().is_empty() {
-            line.push(' ');
-        }
-        line.push_str(word);
-    }
-    out.push_str(line.trim_end());
-    out.push('\n');
-    out
+    super::wrap_text(text, super::text_width(), 2) + "\n"
 }
 
 /// The text report.

@@ -243,26 +243,6 @@ pub fn heading_lines(r: &ServiceReport) -> Vec<String> {
     ]
 }
 
-/// `text` broken into lines of at most `width` characters at spaces (a longer word stays
-/// whole on its own line).
-pub fn wrap(text: &str, width: usize) -> Vec<String> {
-    let mut out: Vec<String> = Vec::new();
-    let mut line = String::new();
-    for word in text.split_whitespace() {
-        if !line.is_empty() && line.chars().count() + 1 + word.chars().count() > width {
-            out.push(std::mem::take(&mut line));
-        }
-        if !line.is_empty() {
-            line.push(' ');
-        }
-        line.push_str(word);
-    }
-    if !line.is_empty() {
-        out.push(line);
-    }
-    out
-}
-
 /// What the strength half's drifts are when the run also has a serviceability half.
 pub const STRENGTH_DRIFT_NOTE: &str = "Drifts in the strength tables are under factored loads, with the analysis stiffness and notional loads: strength figures. The serviceability drifts are those of the Serviceability section.";
 

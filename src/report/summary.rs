@@ -7,13 +7,13 @@
 
 use serde::{Deserialize, Serialize};
 
-use super::{CAUTION, num, table_of};
+use super::{CAUTION, num, table_of, wrap_text};
 use crate::check::CheckReport;
 use crate::envelope::{
     AxialExtreme, DesignMoment, Envelope, GoverningMoment, Location, MemberEnvelope, Peak, Sign,
     StoryEnvelope, governing,
 };
-use crate::model::Model;
+use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
 
 /// Version of the JSON document of `check`; raised when a key changes meaning.
@@ -95,12 +95,21 @@ pub struct Summary<'a> {
     pub envelope: Envelope,
     /// The serviceability half of the run, when it has one.
     pub service: Option<&'a crate::service::ServiceReport>,
+    /// `--detail`: every table with all its columns (the default page keeps the figures of
+    /// the chosen method and leaves the secondary columns out, to fit the width).
+    pub detail: bool,
 }
 
 impl Summary<'_> {
     /// Whether the run has strength cases (a run of a serviceability table alone has not).
     pub fn has_strength(&self) -> bool {
         !(self.report.cases.is_empty() && self.service.is_some())
+    }
+
+    /// Whether the chosen method defines Pr, the required axial strength (AISC 360-16
+    /// App. 8 (A-8-2); the other methods have none, so the page shows only N).
+    pub fn method_defines_pr(&self) -> bool {
+        self.report.method == SecondOrderMethod::AiscB1B2
     }
 
     /// "title; standard; edition" of the combination table.
@@ -122,7 +131,7 @@ pub struct JsonUnits {
     pub displacement: String,
 }
 
-/// The JSON document of `check` (keys documented in the README).
+/// The JSON document of `check` (keys documented in docs/json-output.md).
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct CheckDoc {
     pub schema_version: u32,
@@ -142,7 +151,7 @@ pub struct CheckDoc {
     pub envelope: Envelope,
     /// The largest design moment of each member over the stable cases.
     pub governing: Vec<GoverningMoment>,
-    /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see the README).
+    /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see docs/json-output.md).
     pub report: serde_json::Value,
     /// The serviceability half of the run (see the README), when it has one.
     #[serde(default, skip_serializing_if = "Option::is_none")]
@@ -310,48 +319,67 @@ pub fn story_verdict(e: &StoryEnvelope) -> String {
     }
 }
 
-/// The story envelope table (text and Markdown).
-pub fn story_table(s: &Summary) -> Table {
-    let rows = s
-        .envelope
-        .stories
-        .iter()
-        .map(|e| {
-            vec![
-                e.story.to_string(),
-                drift_peak(&e.drift_ratio),
-                drift_peak(&e.drift_ratio_second_order),
-                peak(&e.b2, 3),
-                peak(&e.q_index, 3),
-                peak(&e.delta_s, 3),
+/// One column of the story envelope: its head, its cell, and the methods whose figure it
+/// is (`None`: every method's).
+type StoryColumn = (
+    &'static str,
+    fn(&StoryEnvelope) -> String,
+    Option<&'static [SecondOrderMethod]>,
+);
+
+/// The columns of the story envelope, in order.
+const STORY_COLUMNS: [StoryColumn; 10] = {
+    use SecondOrderMethod::*;
+    [
+        ("story", |e| e.story.to_string(), None),
+        ("max drift/h", |e| drift_peak(&e.drift_ratio), None),
+        (
+            "max 2nd-order drift/h",
+            |e| drift_peak(&e.drift_ratio_second_order),
+            Some(&[Direct]),
+        ),
+        ("max B2", |e| peak(&e.b2, 3), Some(&[AiscB1B2])),
+        ("max Q", |e| peak(&e.q_index, 3), Some(&[AciMagnifier])),
+        ("max δs", |e| peak(&e.delta_s, 3), Some(&[AciMagnifier])),
+        (
+            "max Δ2/Δ1",
+            |e| {
                 if e.drift_amplification.is_none() && e.negligible_drift_cases > 0 {
                     "negligible".into()
                 } else {
                     peak(&e.drift_amplification, 3)
-                },
-                peak(&e.alpha_cr, 2),
-                peak(&e.sway_amplifier, 3),
-                story_verdict(e),
-            ]
-        })
+                }
+            },
+            Some(&[Direct]),
+        ),
+        ("min α_cr", |e| peak(&e.alpha_cr, 2), Some(&[Ec3AlphaCr])),
+        (
+            "max sway amp",
+            |e| peak(&e.sway_amplifier, 3),
+            Some(&[AiscB1B2, AciMagnifier, Ec3AlphaCr]),
+        ),
+        ("verdict", story_verdict, None),
+    ]
+};
+
+/// The story envelope table (text and Markdown): the chosen method's figures, or with
+/// `detail` every method's (issue 20).
+pub fn story_table(s: &Summary) -> Table {
+    let method = s.report.method;
+    let shown: Vec<&StoryColumn> = STORY_COLUMNS
+        .iter()
+        .filter(|(_, _, only)| s.detail || only.is_none_or(|m| m.contains(&method)))
+        .collect();
+    let rows = s
+        .envelope
+        .stories
+        .iter()
+        .map(|e| shown.iter().map(|(_, cell, _)| cell(e)).collect())
         .collect();
     Table {
         name: "stories",
-        title: "Story envelope over the stable cases: largest drift ratio and amplifiers, smallest α_cr (case)".into(),
-        header: [
-            "story",
-            "max drift/h",
-            "max 2nd-order drift/h",
-            "max B2",
-            "max Q",
-            "max δs",
-            "max Δ2/Δ1",
-            "min α_cr",
-            "max sway amp",
-            "verdict",
-        ]
-        .map(String::from)
-        .to_vec(),
+        title: "Story envelope over the stable cases: largest drift ratio and the figures of the method, with the case".into(),
+        header: shown.iter().map(|(h, _, _)| h.to_string()).collect(),
         rows,
     }
 }
@@ -377,8 +405,41 @@ fn is_governing(m: &MemberEnvelope, location: Location, sign: Sign) -> bool {
 }
 
 /// The member envelope, one row per member, section and sign. `tidy` gives the CSV form
-/// (plain values, the expression and both amplifiers in their own columns).
+/// (plain values, the expression and both amplifiers in their own columns). The page
+/// without `detail` leaves out the no-sway and sway parts (Mns, Ms, larger part), and Pr
+/// where the method defines none.
 pub fn member_table(s: &Summary, tidy: bool) -> Table {
+    let mut t = member_table_full(s, tidy);
+    if !tidy {
+        let mut drop = Vec::new();
+        if !s.detail {
+            drop.extend(["Mns", "Ms", "larger part"]);
+        }
+        if !s.method_defines_pr() {
+            drop.push("Pr");
+        }
+        drop_columns(&mut t, &drop);
+    }
+    t
+}
+
+/// `t` without the columns whose head, up to a unit in brackets, is one of `heads`.
+fn drop_columns(t: &mut Table, heads: &[&str]) {
+    let keep: Vec<bool> = t
+        .header
+        .iter()
+        .map(|h| !heads.contains(&h.split(" (").next().unwrap_or(h).trim()))
+        .collect();
+    let filter = |row: &mut Vec<String>| {
+        let mut k = keep.iter();
+        row.retain(|_| *k.next().unwrap_or(&true));
+    };
+    filter(&mut t.header);
+    t.rows.iter_mut().for_each(filter);
+}
+
+/// [`member_table`] with every column.
+fn member_table_full(s: &Summary, tidy: bool) -> Table {
     let f = Fmt { model: s.model };
     let d = if tidy { 3 } else { 1 };
     let (lm, lf, lu) = (
@@ -505,14 +566,18 @@ pub fn column_table(s: &Summary, tidy: bool) -> Table {
     if tidy {
         header.push("expression".into());
     }
-    Table {
+    let mut t = Table {
         name: "columns",
         title:
             "Columns: largest compression and largest tension with the concurrent design moments"
                 .into(),
         header,
         rows,
+    };
+    if !tidy && !s.method_defines_pr() {
+        drop_columns(&mut t, &["Pr"]);
     }
+    t
 }
 
 /// The cases named in the envelope, with their expressions.
@@ -546,6 +611,65 @@ pub fn case_table(s: &Summary) -> Table {
         header: vec!["case".into(), "expression".into(), "basis".into()],
         rows,
     }
+}
+
+/// What the suffixes of factored case ids mean (issue 20): one line for each kind of
+/// suffix that occurs in `ids`, in the order the suffixes are appended. A suffix means the
+/// same thing in every id.
+pub fn id_legend<'a>(ids: impl IntoIterator<Item = &'a str>) -> Vec<String> {
+    let (mut left_out, mut alternative, mut arranged, mut notional) = (false, false, false, false);
+    for id in ids {
+        left_out |= id.contains('~');
+        for part in id.split('/').skip(1) {
+            match part {
+                "N+" | "N-" => notional = true,
+                p if p.contains(':') => arranged = true,
+                _ => alternative = true,
+            }
+        }
+    }
+    let mut out = Vec::new();
+    if left_out {
+        out.push(
+            "~S    the combination with the accompanying action S left out (the standard asks \
+             for the case where it is absent)"
+                .to_string(),
+        );
+    }
+    if alternative {
+        out.push(
+            "/WL   the alternative that draws on load case WL of its alternative group; WL+Su \
+             one case from each of two groups; -WL the case WL reversed"
+                .to_string(),
+        );
+    }
+    if arranged {
+        out.push(
+            "/L:p  live-load arrangement p of load case L: full, alt-a/alt-b alternate spans,              adj-J the two spans either side of joint J"
+                .to_string(),
+        );
+    }
+    if notional {
+        out.push(
+            "/N+   a gravity-only case with notional loads toward +X (/N- toward −X)".to_string(),
+        );
+    }
+    out
+}
+
+/// The legend of case ids for this run's cases, under a heading; empty when no id has a
+/// suffix.
+pub fn id_legend_lines(s: &Summary) -> Vec<String> {
+    let lines = id_legend(s.report.cases.iter().map(|c| c.id.as_str()));
+    if lines.is_empty() {
+        return lines;
+    }
+    std::iter::once(
+        "Reading the case ids: the combination id of the table (and variant letter), then"
+            .to_string(),
+    )
+    .chain(lines.into_iter().map(|l| format!("  {l}")))
+    .collect()
 }
 
 /// Closing lines: cases that never govern, unstable cases, largest residual.
@@ -623,35 +747,61 @@ fn page_tables(s: &Summary) -> Vec<Table> {
 }
 
 fn text_table(t: &Table) -> String {
-    format!("{}\n{}\n\n", t.title, table_of(&t.header, t.rows.clone()))
+    let width = super::text_width();
+    format!(
+        "{}\n{}\n\n",
+        wrap_text(&t.title, width, 2),
+        table_of(&t.header, t.rows.clone())
+    )
 }
 
-/// The one-page summary as text.
+/// The one-page summary as text, every line fitted to [`super::text_width`]: tables by
+/// [`table_of`], prose and lists wrapped with their continuation lines indented.
 pub fn text(s: &Summary) -> String {
-    let mut out = format!("{}\n{}\n", s.model.title, s.selection.heading());
+    let width = super::text_width();
+    let line = |out: &mut String, text: &str, indent: usize| {
+        out.push_str(&wrap_text(text, width, indent));
+        out.push('\n');
+    };
+    let mut out = String::new();
+    line(&mut out, &s.model.title, 2);
+    line(&mut out, &s.selection.heading(), 2);
     for r in &s.selection.remarks {
-        out.push_str(&format!("  {r}\n"));
+        line(&mut out, &format!("  {r}"), 4);
     }
     out.push('\n');
     for t in page_tables(s) {
+        let governing_cases = t.name == "governing-cases";
         out.push_str(&text_table(&t));
+        if governing_cases {
+            let legend = id_legend_lines(s);
+            for (k, l) in legend.iter().enumerate() {
+                line(&mut out, l, if k == 0 { 2 } else { 8 });
+            }
+            if !legend.is_empty() {
+                out.push('\n');
+            }
+        }
     }
     if s.has_strength() {
         for l in closing_lines(s) {
-            out.push_str(&l);
-            out.push('\n');
+            line(&mut out, &l, 2);
         }
     }
     for w in &s.report.warnings {
-        out.push_str(&format!("Warning: {w}\n"));
+        line(&mut out, &format!("Warning: {w}"), 2);
     }
     if let Some(r) = s.service {
         out.push_str(&service_text(s.model, r));
     }
-    if s.has_strength() {
-        out.push_str(&format!("{SIGN_NOTE}\n{}\n", drift_note(s)));
+    let notes = if s.has_strength() {
+        vec![SIGN_NOTE, drift_note(s), CAUTION]
+    } else {
+        vec![CAUTION]
+    };
+    for note in notes {
+        line(&mut out, note, 0);
     }
-    out.push_str(&format!("{CAUTION}\n"));
     out
 }
 
@@ -667,15 +817,16 @@ fn drift_note(s: &Summary) -> &'static str {
 /// The "Serviceability" section as text.
 fn service_text(model: &Model, r: &crate::service::ServiceReport) -> String {
     use super::service;
-    const WIDTH: usize = 120;
+    let width = super::text_width();
     let mut out = String::from("\nServiceability\n");
     let lines = service::heading_lines(r)
         .into_iter()
         .chain(std::iter::once(String::new()))
         .collect::<Vec<_>>();
     for l in lines {
-        for w in service::wrap(&l, WIDTH) {
-            out.push_str(&format!("{w}\n"));
+        if !l.is_empty() {
+            out.push_str(&wrap_text(&l, width, 2));
+            out.push('\n');
         }
         if l.is_empty() {
             out.push('\n');
@@ -686,8 +837,9 @@ fn service_text(model: &Model, r: &crate::service::ServiceReport) -> String {
     }
     let closing = std::iter::once(service::verdict_line(r)).chain(r.notes.iter().cloned());
     for l in closing {
-        for w in service::wrap(&l, WIDTH) {
-            out.push_str(&format!("{w}\n"));
+        if !l.is_empty() {
+            out.push_str(&wrap_text(&l, width, 2));
+            out.push('\n');
         }
     }
     out
@@ -762,6 +914,12 @@ pub fn markdown(s: &Summary) -> String {
     }
     for t in page_tables(s) {
         out.push_str(&md_table(&t));
+        if t.name == "governing-cases" {
+            for l in id_legend_lines(s) {
+                out.push_str(&format!("{}  \n", md_cell(l.trim())));
+            }
+            out.push('\n');
+        }
     }
     if s.has_strength() {
         for l in closing_lines(s) {
