@@ -193,8 +193,11 @@ struct CompletionsCli {
 
 /// What a command produced: its output and where it goes.
 struct Done {
-    rendered: Rendered,
+    /// What to write; `None` when the command wrote its output itself (`written`).
+    rendered: Option<Rendered>,
     output: Option<PathBuf>,
+    /// Paths already written (`check`, which streams its report).
+    written: Vec<PathBuf>,
     /// `check` found an unstable case (exit status 3).
     unstable: bool,
 }
@@ -251,8 +254,9 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         app::check_output_path(output, &inputs)?;
     }
     let text = |t: String, output| Done {
-        rendered: Rendered::text(t),
+        rendered: Some(Rendered::text(t)),
         output,
+        written: Vec::new(),
         unstable: false,
     };
     Ok(match cli.command {
@@ -265,11 +269,13 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         Command::Check(a) => {
             let (model, mut args) = a.run.args(a.format, a.detail);
             args.approximate = a.approximate;
-            let (rendered, unstable) =
-                app::check_output_status(&model, &args, &mut progress_bar())?;
+            let output = a.out.output;
+            let (written, unstable) =
+                app::check_and_emit(&model, &args, output.as_deref(), &mut progress_bar())?;
             Done {
-                rendered,
-                output: a.out.output,
+                rendered: None,
+                output,
+                written,
                 unstable,
             }
         }
@@ -305,8 +311,9 @@ fn run(cli: Cli) -> Result<Done, AppError> {
 
 fn main() -> ExitCode {
     let cli = Cli::parse();
-    let result = run(cli).and_then(|done| {
-        app::emit(&done.rendered, done.output.as_deref()).map(|w| (w, done.unstable))
+    let result = run(cli).and_then(|done| match &done.rendered {
+        Some(r) => app::emit(r, done.output.as_deref()).map(|w| (w, done.unstable)),
+        None => Ok((done.written, done.unstable)),
     });
     ExitCode::from(match result {
         Ok((written, unstable)) => {

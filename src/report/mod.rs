@@ -7,6 +7,7 @@ pub mod approx;
 pub mod check;
 pub mod diagram;
 pub mod html;
+pub mod json;
 pub mod solve;
 pub mod starter;
 pub mod summary;
