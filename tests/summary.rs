@@ -297,7 +297,7 @@ fn streamed_files_equal_the_rendered_text() {
         let file = dir.join("check.json");
         std::fs::create_dir_all(&dir).unwrap();
         let written = emit_check(&run, CheckFormat::Json, false, Some(&file)).unwrap();
-        assert_eq!(written, [file.clone()]);
+        assert_eq!(written, std::slice::from_ref(&file));
         let streamed = std::fs::read_to_string(&file).unwrap();
         assert_eq!(
             streamed,
