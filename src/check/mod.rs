@@ -258,7 +258,7 @@ fn first_non_finite(c: &CaseCheck) -> Option<String> {
 /// A stage of [`check`], for the time breakdown of [`StageTimes`].
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Stage {
-    /// Stories, the no-sway/sway split of every load case and the story flexibility.
+    /// Stories and the no-sway/sway split of every load case.
     Split,
     /// The segmented model for the second-order analyses, its elastic stiffness factored.
     SecondOrderModel,
@@ -289,7 +289,7 @@ impl Stage {
     /// A short name for the benchmark's table.
     pub fn name(self) -> &'static str {
         match self {
-            Stage::Split => "stories + split + flexibility",
+            Stage::Split => "stories + split",
             Stage::SecondOrderModel => "second-order model",
             Stage::Combine => "combine parts, loads",
             Stage::Buckling => "buckling (alpha_cr)",
@@ -356,15 +356,15 @@ pub fn check_timed(
     if cases.is_empty() {
         return Err(CheckError::NoCases);
     }
-    let (stories, split, parts, flexibility) = times.time(Stage::Split, || {
+    let (stories, split, parts) = times.time(Stage::Split, || {
         let stories = stories(model)?;
         let split = SwaySplit::new(model, &stories)?;
         let parts: Vec<SwayParts> = (0..model.load_cases.len())
             .map(|k| split.split_case(model, k))
             .collect::<Result<_, _>>()?;
-        let flexibility = story::StoryFlexibility::new(&stories, &split);
-        Ok::<_, CheckError>((stories, split, parts, flexibility))
+        Ok::<_, CheckError>((stories, split, parts))
     })?;
+    let flexibility = story::StoryFlexibility::new(&stories, &split);
     let stiffness = member_stiffness(model);
     let second = times.time(Stage::SecondOrderModel, || {
         SecondOrderModel::new(model, &stiffness, model.analysis.segments)
@@ -436,7 +436,7 @@ struct Context<'a> {
     stories: &'a [Story],
     split: &'a SwaySplit,
     /// Story drifts under unit level forces, for every story stiffness H/Δ.
-    flexibility: &'a story::StoryFlexibility,
+    flexibility: &'a story::StoryFlexibility<'a>,
     second: &'a SecondOrderModel,
     stiffness: &'a [crate::solve::mesh::MemberStiffness],
 }
