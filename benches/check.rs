@@ -15,6 +15,13 @@
 //! * `cargo bench --bench check -- frame BAYS STORIES [CASES]` — one run of one frame
 //!   (optionally only the first CASES factored cases), one line of figures.
 //! * `cargo bench --bench check -- dense` — the dense baseline only.
+//! * `cargo bench --bench check -- stages [BAYS STORIES]` — where the time goes: the time
+//!   of each stage of `check` (summed over the threads), then of writing the summary and
+//!   the JSON document, on one frame (default 20 × 100).
+//! * `cargo bench --bench check -- goal [BAYS STORIES]` — the figures of issue 21 for one
+//!   frame (default 20 × 100): the whole command as `plumbline check MODEL -o FILE` runs it
+//!   (reading, checking, writing the file) for the summary, JSON and CSV, 5 runs each in
+//!   a child process, beside the stored figures of the code before issue 21.
 //! * `cargo bench --bench check -- buckling [BAYS STORIES [lean]]` — the buckling analysis
 //!   alone, per factored case: the raw lowest mode (`critical_factor`) against the sorted
 //!   modes with factors on the safe side (`buckling`), on the standard frames (their lowest
@@ -27,10 +34,12 @@
 use std::process::Command;
 use std::time::Instant;
 
-use plumbline::check::check;
+use plumbline::app::{CheckArgs, check_and_emit};
+use plumbline::check::{StageTimes, check, check_timed};
 use plumbline::combos::{FactoredCase, expand, load_table};
 use plumbline::input::parse_model;
 use plumbline::model::Model;
+use plumbline::report::CheckFormat;
 use plumbline::solve::first_order::FirstOrder;
 use plumbline::solve::linear::MeshLoads;
 use plumbline::solve::mesh::member_stiffness;
@@ -401,9 +410,196 @@ fn dense_baseline(sizes: &[(usize, usize)]) {
     }
 }
 
+/// The whole `check` command of the 20 × 100 frame before issue 21 (commit 8ff568c, its
+/// release binary run with `/usr/bin/time` on the same shared 2-core machine, load average
+/// about 7): output, median wall time of 3 (s), CPU time (user + system, s), peak resident
+/// memory (MB) and the size of what was written (MB).
+const GOAL_BEFORE: [(&str, &str, &str, &str, &str); 3] = [
+    ("summary", "3.0", "2.1", "159", "2.6"),
+    ("json", "5.3", "3.5", "566", "110"),
+    ("csv", "4.1", "2.5", "194", "7.0"),
+];
+
+/// Write a bench frame's model file into the temporary directory; its path.
+fn model_file(bays: usize, stories: usize) -> std::path::PathBuf {
+    let dir = std::env::temp_dir().join(format!("plumbline-bench-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).expect("temporary directory");
+    let path = dir.join(format!("frame-{bays}x{stories}.toml"));
+    let text = model_text(bays, stories) + "[analysis]\nmethod = \"aisc-b1b2\"\n";
+    std::fs::write(&path, text).expect("model file written");
+    path
+}
+
+/// The `check` arguments of the bench: the model's own table and method, `format`.
+fn check_args(format: CheckFormat) -> CheckArgs {
+    CheckArgs {
+        combos: Some("asce7-16-strength".into()),
+        sets: Vec::new(),
+        method: None,
+        stiffness: None,
+        notional: None,
+        case: None,
+        format,
+        detail: false,
+        approximate: false,
+    }
+}
+
+/// Size of a file, or of the files of a directory, MB.
+fn output_mb(path: &std::path::Path) -> f64 {
+    let size = |p: &std::path::Path| std::fs::metadata(p).map_or(0, |m| m.len());
+    let bytes = if path.is_dir() {
+        std::fs::read_dir(path)
+            .map(|d| d.flatten().map(|e| size(&e.path())).sum())
+            .unwrap_or(0)
+    } else {
+        size(path)
+    };
+    bytes as f64 / 1e6
+}
+
+/// One child run of the whole command: prints `wall_ms cpu_ms peak_mb output_mb`.
+fn run_command(bays: usize, stories: usize, format: CheckFormat) {
+    let model = model_file(bays, stories);
+    let out = model.with_extension(format!("out.{format}"));
+    let (t, cpu0) = (Instant::now(), cpu_ms());
+    let result = check_and_emit(&model, &check_args(format), Some(&out), &mut |_, _| {});
+    let ms = t.elapsed().as_secs_f64() * 1e3;
+    let cpu = cpu_ms() - cpu0;
+    if let Err(e) = result {
+        println!("ERR {e}");
+        return;
+    }
+    println!("{ms:.1} {cpu:.0} {:.1} {:.2}", peak_mb(), output_mb(&out));
+    let _ = std::fs::remove_dir_all(model.parent().expect("in a directory"));
+}
+
+/// The goal table of issue 21 for one frame: before (stored) and now (measured).
+fn goal_table(bays: usize, stories: usize) {
+    let exe = std::env::current_exe().expect("own path");
+    println!("issue 21 goal table: {bays} x {stories} frame, the whole command (read, check,");
+    println!("write the file), ASCE/SEI 7-16 strength table, AISC App. 8; 5 runs each in its");
+    println!("own process: median wall and CPU (user + system), largest peak resident memory");
+    println!("output      code     wall (s)   cpu (s)   peak (MB)   file (MB)   runs (s)");
+    for (format, name) in [
+        (CheckFormat::Table, "summary"),
+        (CheckFormat::Json, "json"),
+        (CheckFormat::Csv, "csv"),
+    ] {
+        if let Some(b) = GOAL_BEFORE.iter().find(|b| b.0 == name)
+            && bays == 20
+            && stories == 100
+        {
+            println!(
+                "{name:<10}  before {:>10} {:>9} {:>11} {:>11}   (stored, commit 8ff568c)",
+                b.1, b.2, b.3, b.4
+            );
+        }
+        let mut runs: Vec<[f64; 4]> = Vec::new();
+        for _ in 0..5 {
+            let out = Command::new(&exe)
+                .args(["command", &bays.to_string(), &stories.to_string()])
+                .arg(format.to_string())
+                .output()
+                .expect("child runs");
+            let text = String::from_utf8_lossy(&out.stdout);
+            let v: Vec<f64> = text
+                .split_whitespace()
+                .filter_map(|w| w.parse().ok())
+                .collect();
+            if v.len() == 4 {
+                runs.push([v[0], v[1], v[2], v[3]]);
+            } else {
+                println!("{name:<10}  failed: {text}");
+                break;
+            }
+        }
+        if runs.is_empty() {
+            continue;
+        }
+        let median = |k: usize| {
+            let mut v: Vec<f64> = runs.iter().map(|r| r[k]).collect();
+            v.sort_by(f64::total_cmp);
+            v[v.len() / 2]
+        };
+        let peak = runs.iter().map(|r| r[2]).fold(0.0, f64::max);
+        println!(
+            "{name:<10}  now    {:>10.2} {:>9.2} {:>11.0} {:>11.1}   {:?}",
+            median(0) / 1e3,
+            median(1) / 1e3,
+            peak,
+            median(3),
+            runs.iter()
+                .map(|r| (r[0] / 10.0).round() / 100.0)
+                .collect::<Vec<_>>()
+        );
+    }
+}
+
+/// Where the time of one frame's check goes: each stage of `check` (summed over the
+/// threads), then the summary text and the JSON document written to memory.
+fn stages(bays: usize, stories: usize) {
+    let model_path = model_file(bays, stories);
+    let (model, cases) = frame(bays, stories).expect("within the limits");
+    let times = StageTimes::default();
+    let (t, cpu0) = (Instant::now(), cpu_ms());
+    let report = check_timed(&model, &cases, &mut |_, _| {}, &times).expect("checks");
+    let wall = t.elapsed().as_secs_f64();
+    let cpu = (cpu_ms() - cpu0) / 1e3;
+    println!(
+        "where the time goes: {bays} x {stories} frame, {} members, {} factored cases ({} \
+         checked)",
+        model.members.len(),
+        cases.len(),
+        report.cases.len()
+    );
+    println!("check: wall {wall:.3} s, cpu {cpu:.3} s; per stage, summed over the threads:");
+    for (stage, s) in times.seconds() {
+        println!("  {:<32} {:>8.3} s", stage.name(), s);
+    }
+    drop(report);
+    let run =
+        plumbline::app::run_check(&model_path, &check_args(CheckFormat::Json), &mut |_, _| {})
+            .expect("checks");
+    let t = Instant::now();
+    let text = plumbline::app::render_check(&run, CheckFormat::Table, false);
+    println!(
+        "  {:<32} {:>8.3} s ({:.1} MB)",
+        "summary text",
+        t.elapsed().as_secs_f64(),
+        text.joined().len() as f64 / 1e6
+    );
+    let t = Instant::now();
+    let mut sink = std::io::sink();
+    plumbline::report::summary::write_json(&run.summary(), None, &mut sink).expect("writes");
+    println!(
+        "  {:<32} {:>8.3} s (streamed to a sink)",
+        "JSON document",
+        t.elapsed().as_secs_f64()
+    );
+    let _ = std::fs::remove_dir_all(model_path.parent().expect("in a directory"));
+}
+
 fn main() {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let num = |k: usize| args.get(k).and_then(|s| s.parse::<usize>().ok());
+    if let Some(at) = args.iter().position(|a| a == "command") {
+        let (b, s) = (num(at + 1).expect("BAYS"), num(at + 2).expect("STORIES"));
+        let format = args
+            .get(at + 3)
+            .and_then(|f| f.parse().ok())
+            .unwrap_or(CheckFormat::Table);
+        run_command(b, s, format);
+        return;
+    }
+    if let Some(at) = args.iter().position(|a| a == "goal") {
+        goal_table(num(at + 1).unwrap_or(20), num(at + 2).unwrap_or(100));
+        return;
+    }
+    if let Some(at) = args.iter().position(|a| a == "stages") {
+        stages(num(at + 1).unwrap_or(20), num(at + 2).unwrap_or(100));
+        return;
+    }
     if let Some(at) = args.iter().position(|a| a == "frame") {
         let (b, s) = (num(at + 1).expect("BAYS"), num(at + 2).expect("STORIES"));
         run_frame(b, s, num(at + 3));

@@ -1158,7 +1158,10 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
             }
             Rendered::text(text)
         }
-        CheckFormat::Json => Rendered::text(summary::json(&s)),
+        CheckFormat::Json => {
+            let approximate = run.approximate.as_ref().map(crate::report::approx::to_json);
+            return Rendered::text(summary::json(&s, approximate.as_ref()));
+        }
         CheckFormat::Csv => Rendered {
             files: summary::csv_files(&s),
         },
@@ -1189,16 +1192,8 @@ fn with_approximate(
                 approx::render_text(model, a)
             ));
         }
-        (CheckFormat::Json, [(_, text)]) => {
-            if let Ok(serde_json::Value::Object(mut doc)) =
-                serde_json::from_str::<serde_json::Value>(text)
-            {
-                doc.insert("approximate".into(), approx::to_json(a));
-                if let Ok(t) = serde_json::to_string_pretty(&doc) {
-                    *text = t + "\n";
-                }
-            }
-        }
+        // The JSON writer adds its `approximate` section itself.
+        (CheckFormat::Json, _) => {}
         _ => rendered.files.push((
             "approximate.csv".into(),
             summary::csv_text(&approx::table(model, a)),
@@ -1236,6 +1231,70 @@ pub fn check_output_status(
 /// [`check_output`] as one text, without progress.
 pub fn check(model_path: &Path, args: &CheckArgs) -> Result<String, AppError> {
     Ok(check_output(model_path, args, &mut |_, _| {})?.joined())
+}
+
+/// Run `check` and write its report to `output` (or print it): [`emit_check`]. Returns the
+/// paths written and whether some factored case is unstable (for the exit status).
+pub fn check_and_emit(
+    model_path: &Path,
+    args: &CheckArgs,
+    output: Option<&Path>,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<(Vec<PathBuf>, bool), AppError> {
+    let run = run_check(model_path, args, progress)?;
+    let unstable = run.report.cases.iter().any(|c| !c.stable);
+    let written = emit_check(
+        &run,
+        args.format,
+        args.detail || args.case.is_some(),
+        output,
+    )?;
+    Ok((written, unstable))
+}
+
+/// Write a check run's report in `format` to `output` (a file; for CSV a directory of
+/// files), or print it. JSON and CSV are streamed: formatted straight into their file (or
+/// standard output), never held whole in memory, and still written whole or not at all
+/// ([`write_output_with`]). Returns the paths written.
+pub fn emit_check(
+    run: &CheckRun,
+    format: CheckFormat,
+    detail: bool,
+    output: Option<&Path>,
+) -> Result<Vec<PathBuf>, AppError> {
+    let approximate = || run.approximate.as_ref().map(crate::report::approx::to_json);
+    match (format, output) {
+        (CheckFormat::Json, Some(path)) => {
+            let a = approximate();
+            write_output_with(path, |w| summary::write_json(&run.summary(), a.as_ref(), w))?;
+            Ok(vec![path.to_path_buf()])
+        }
+        (CheckFormat::Json, None) => {
+            let a = approximate();
+            stdout_with(|w| summary::write_json(&run.summary(), a.as_ref(), w))?;
+            Ok(Vec::new())
+        }
+        (CheckFormat::Csv, Some(dir)) => {
+            std::fs::create_dir_all(dir).map_err(|source| AppError::Write {
+                path: dir.display().to_string(),
+                source,
+            })?;
+            let s = run.summary();
+            let mut tables = summary::csv_tables(&s);
+            if let Some(a) = &run.approximate {
+                tables.push(crate::report::approx::table(&run.model, a));
+            }
+            let mut written = Vec::new();
+            // One table at a time, each dropped once written.
+            for t in tables {
+                let p = dir.join(format!("{}.csv", t.name));
+                write_output_with(&p, |w| summary::write_csv(&t, w))?;
+                written.push(p);
+            }
+            Ok(written)
+        }
+        _ => emit(&render_check(run, format, detail), output),
+    }
 }
 
 /// Write `rendered` to `output` (a file, or for several files a directory created if
@@ -1314,6 +1373,18 @@ pub fn new_model(file: &Path, args: &NewArgs) -> Result<String, AppError> {
 /// (named after the process, so that two runs do not share it), flushed to disk, then
 /// renamed over it.
 pub fn write_output(path: &Path, text: &str) -> Result<(), AppError> {
+    write_output_with(path, |w| {
+        use std::io::Write;
+        w.write_all(text.as_bytes())
+    })
+}
+
+/// Write to `path` whole or not at all, as [`write_output`] does, with `write` producing
+/// the content straight into the temporary file.
+pub fn write_output_with(
+    path: &Path,
+    write: impl FnOnce(&mut std::fs::File) -> std::io::Result<()>,
+) -> Result<(), AppError> {
     let err = |source| AppError::Write {
         path: path.display().to_string(),
         source,
@@ -1324,8 +1395,7 @@ pub fn write_output(path: &Path, text: &str) -> Result<(), AppError> {
         .unwrap_or_default();
     let tmp = path.with_file_name(format!(".{name}.{}.partial", std::process::id()));
     let written = std::fs::File::create(&tmp).and_then(|mut f| {
-        use std::io::Write;
-        f.write_all(text.as_bytes())?;
+        write(&mut f)?;
         f.sync_all()
     });
     if let Err(e) = written {
@@ -1341,9 +1411,20 @@ pub fn write_output(path: &Path, text: &str) -> Result<(), AppError> {
 /// Print `text` on standard output. A reader that stops early (`plumbline check … | head`)
 /// is not an error.
 pub fn write_stdout(text: &str) -> Result<(), AppError> {
+    stdout_with(|out| {
+        use std::io::Write;
+        out.write_all(text.as_bytes())
+    })
+}
+
+/// Print on standard output what `write` produces. A reader that stops early is not an
+/// error.
+pub fn stdout_with(
+    write: impl FnOnce(&mut std::io::StdoutLock<'static>) -> std::io::Result<()>,
+) -> Result<(), AppError> {
     use std::io::Write;
     let mut out = std::io::stdout().lock();
-    match out.write_all(text.as_bytes()).and_then(|()| out.flush()) {
+    match write(&mut out).and_then(|()| out.flush()) {
         Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(AppError::Write {
             path: "standard output".into(),
             source: e,

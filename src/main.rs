@@ -264,8 +264,11 @@ struct CompletionsCli {
 
 /// What a command produced: its output and where it goes.
 struct Done {
-    rendered: Rendered,
+    /// What to write; `None` when the command wrote its output itself (`written`).
+    rendered: Option<Rendered>,
     output: Option<PathBuf>,
+    /// Paths already written (`check`, which streams its report).
+    written: Vec<PathBuf>,
     /// `check` found an unstable case (exit status 3).
     unstable: bool,
 }
@@ -344,14 +347,16 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         app::check_output_path(output, &inputs)?;
     }
     let text = |t: String, output| Done {
-        rendered: Rendered::text(t),
+        rendered: Some(Rendered::text(t)),
         output,
+        written: Vec::new(),
         unstable: false,
     };
     Ok(match cli.command {
         Command::Solve(a) => Done {
-            rendered: app::solve_with(&a.model, &a.case, &a.stiffness, a.format)?,
+            rendered: Some(app::solve_with(&a.model, &a.case, &a.stiffness, a.format)?),
             output: a.out.output,
+            written: Vec::new(),
             unstable: false,
         },
         Command::Cases(a) => text(
@@ -362,11 +367,13 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         Command::Check(a) => {
             let (model, mut args) = a.run.args(a.format, a.detail);
             args.approximate = a.approximate;
-            let (rendered, unstable) =
-                app::check_output_status(&model, &args, &mut progress_bar())?;
+            let output = a.out.output;
+            let (written, unstable) =
+                app::check_and_emit(&model, &args, output.as_deref(), &mut progress_bar())?;
             Done {
-                rendered,
-                output: a.out.output,
+                rendered: None,
+                output,
+                written,
                 unstable,
             }
         }
@@ -392,10 +399,11 @@ fn run(cli: Cli) -> Result<Done, AppError> {
                 .collect::<Result<Vec<_>, _>>()?;
             let run = app::run_compare(&a.model, &specs, &mut progress_bar())?;
             Done {
-                rendered: Rendered {
+                rendered: Some(Rendered {
                     files: plumbline::report::compare::render(&run.view(), a.format),
-                },
+                }),
                 output: a.out.output,
+                written: Vec::new(),
                 unstable: false,
             }
         }
@@ -439,8 +447,9 @@ fn main() -> ExitCode {
     }));
     let cli = Cli::parse();
     plumbline::report::set_text_width(output_width());
-    let result = run(cli).and_then(|done| {
-        app::emit(&done.rendered, done.output.as_deref()).map(|w| (w, done.unstable))
+    let result = run(cli).and_then(|done| match &done.rendered {
+        Some(r) => app::emit(r, done.output.as_deref()).map(|w| (w, done.unstable)),
+        None => Ok((done.written, done.unstable)),
     });
     ExitCode::from(match result {
         Ok((written, unstable)) => {

@@ -6,7 +6,7 @@
 
 use std::path::{Path, PathBuf};
 
-use plumbline::app::{CheckArgs, render_check, run_check};
+use plumbline::app::{CheckArgs, emit_check, render_check, run_check};
 use plumbline::envelope::{Location, MemberEnvelope};
 use plumbline::report::CheckFormat;
 use plumbline::report::summary::CheckDoc;
@@ -274,6 +274,50 @@ fn json_round_trips_through_serde() {
         assert_eq!(doc.selection.filter, args.case);
         assert_eq!(doc.model_sha256.len(), 64);
     }
+}
+
+/// Issue 21: the JSON document and the CSV files streamed to their files hold exactly what
+/// the in-memory rendering holds (same values, keys and text), and the report section is
+/// the check report itself.
+/// A value serialized to text and parsed back.
+fn parsed<T: serde::Serialize>(v: &T) -> serde_json::Value {
+    serde_json::from_str(&serde_json::to_string(v).unwrap()).unwrap()
+}
+
+#[test]
+fn streamed_files_equal_the_rendered_text() {
+    let path = write_model("stream");
+    let dir = path.with_extension("out");
+    for approximate in [false, true] {
+        let args = CheckArgs {
+            approximate,
+            ..Default::default()
+        };
+        let run = run_check(&path, &args, &mut |_, _| {}).unwrap();
+        let file = dir.join("check.json");
+        std::fs::create_dir_all(&dir).unwrap();
+        let written = emit_check(&run, CheckFormat::Json, false, Some(&file)).unwrap();
+        assert_eq!(written, std::slice::from_ref(&file));
+        let streamed = std::fs::read_to_string(&file).unwrap();
+        assert_eq!(
+            streamed,
+            render_check(&run, CheckFormat::Json, false).joined()
+        );
+        // Both sides parsed by the same parser (serde_json's default float parsing may
+        // differ from `to_value` in the last bit).
+        let value: serde_json::Value = serde_json::from_str(&streamed).unwrap();
+        assert_eq!(value["report"], parsed(&run.report));
+        assert_eq!(value["envelope"], parsed(&run.envelope));
+        assert_eq!(value.get("approximate").is_some(), approximate);
+        let csv_dir = dir.join("csv");
+        let written = emit_check(&run, CheckFormat::Csv, false, Some(&csv_dir)).unwrap();
+        let rendered = render_check(&run, CheckFormat::Csv, false);
+        assert_eq!(written.len(), rendered.files.len());
+        for (name, text) in &rendered.files {
+            assert_eq!(&std::fs::read_to_string(csv_dir.join(name)).unwrap(), text);
+        }
+    }
+    std::fs::remove_dir_all(&dir).unwrap();
 }
 
 #[test]

@@ -21,6 +21,9 @@ pub mod ec3;
 pub mod member;
 pub mod story;
 
+use std::sync::atomic::{AtomicU64, Ordering};
+use std::time::Instant;
+
 use serde::Serialize;
 
 use crate::combos::{Basis, FactoredCase};
@@ -291,6 +294,83 @@ fn first_non_finite(c: &CaseCheck) -> Option<String> {
     None
 }
 
+/// A stage of [`check`], for the time breakdown of [`StageTimes`].
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Stage {
+    /// Stories and the no-sway/sway split of every load case.
+    Split,
+    /// The segmented model for the second-order analyses, its elastic stiffness factored.
+    SecondOrderModel,
+    /// Per case: combining the split parts, the case's loads, gravity and notional loads.
+    Combine,
+    /// Per case: the buckling analysis (α_cr, sway and member modes, nested mesh).
+    Buckling,
+    /// Per case: the direct second-order (P-Δ/P-δ) analysis.
+    Direct,
+    /// Per case: story figures, classification and the method's conditions.
+    Stories,
+    /// Per case: every member's design moments.
+    Members,
+}
+
+impl Stage {
+    /// Every stage, in the order of the data flow.
+    pub const ALL: [Stage; 7] = [
+        Stage::Split,
+        Stage::SecondOrderModel,
+        Stage::Combine,
+        Stage::Buckling,
+        Stage::Direct,
+        Stage::Stories,
+        Stage::Members,
+    ];
+
+    /// A short name for the benchmark's table.
+    pub fn name(self) -> &'static str {
+        match self {
+            Stage::Split => "stories + split",
+            Stage::SecondOrderModel => "second-order model",
+            Stage::Combine => "combine parts, loads",
+            Stage::Buckling => "buckling (alpha_cr)",
+            Stage::Direct => "direct P-Delta",
+            Stage::Stories => "story figures",
+            Stage::Members => "member design",
+        }
+    }
+}
+
+/// Time spent in each [`Stage`] of [`check`], summed over the threads that ran it (so on
+/// several cores the per-case stages add up to more than the wall time). Only the
+/// benchmark reads it; it never changes a result.
+#[derive(Debug, Default)]
+pub struct StageTimes {
+    nanos: [AtomicU64; Stage::ALL.len()],
+}
+
+impl StageTimes {
+    /// Run `f`, adding its wall time to `stage`.
+    pub fn time<T>(&self, stage: Stage, f: impl FnOnce() -> T) -> T {
+        let t = Instant::now();
+        let out = f();
+        let ns = u64::try_from(t.elapsed().as_nanos()).unwrap_or(u64::MAX);
+        self.nanos[stage as usize].fetch_add(ns, Ordering::Relaxed);
+        out
+    }
+
+    /// Seconds spent in each stage, in [`Stage::ALL`] order.
+    pub fn seconds(&self) -> Vec<(Stage, f64)> {
+        Stage::ALL
+            .iter()
+            .map(|&s| {
+                (
+                    s,
+                    self.nanos[s as usize].load(Ordering::Relaxed) as f64 * 1e-9,
+                )
+            })
+            .collect()
+    }
+}
+
 /// Run the check of `model` for `cases` with the model's analysis options.
 pub fn check(model: &Model, cases: &[FactoredCase]) -> Result<CheckReport, CheckError> {
     check_with_progress(model, cases, &mut |_, _| {})
@@ -302,18 +382,34 @@ pub fn check_with_progress(
     cases: &[FactoredCase],
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<CheckReport, CheckError> {
+    check_timed(model, cases, progress, &StageTimes::default())
+}
+
+/// [`check_with_progress`], adding the time of each stage to `times`.
+pub fn check_timed(
+    model: &Model,
+    cases: &[FactoredCase],
+    progress: &mut dyn FnMut(usize, usize),
+    times: &StageTimes,
+) -> Result<CheckReport, CheckError> {
     if cases.is_empty() {
         return Err(CheckError::NoCases);
     }
-    let stories = stories(model)?;
-    let split = SwaySplit::new(model, &stories)?;
-    let parts: Vec<SwayParts> = (0..model.load_cases.len())
-        .map(|k| split.split_case(model, k))
-        .collect::<Result<_, _>>()?;
+    let (stories, split, parts) = times.time(Stage::Split, || {
+        let stories = stories(model)?;
+        let split = SwaySplit::new(model, &stories)?;
+        let parts: Vec<SwayParts> = (0..model.load_cases.len())
+            .map(|k| split.split_case(model, k))
+            .collect::<Result<_, _>>()?;
+        Ok::<_, CheckError>((stories, split, parts))
+    })?;
     let flexibility = story::StoryFlexibility::new(&stories, &split);
     let stiffness = member_stiffness(model);
-    let second = SecondOrderModel::new(model, &stiffness, model.analysis.segments)?;
+    let second = times.time(Stage::SecondOrderModel, || {
+        SecondOrderModel::new(model, &stiffness, model.analysis.segments)
+    })?;
     let ctx = Context {
+        times,
         model,
         stories: &stories,
         split: &split,
@@ -384,11 +480,13 @@ pub fn check_with_progress(
 
 /// What every case of one model shares.
 struct Context<'a> {
+    /// Where the time of each stage is added up.
+    times: &'a StageTimes,
     model: &'a Model,
     stories: &'a [Story],
     split: &'a SwaySplit,
     /// Story drifts under unit level forces, for every story stiffness H/Δ.
-    flexibility: &'a story::StoryFlexibility,
+    flexibility: &'a story::StoryFlexibility<'a>,
     second: &'a SecondOrderModel,
     stiffness: &'a [crate::solve::mesh::MemberStiffness],
 }
@@ -402,10 +500,14 @@ impl Context<'_> {
         if refs.is_empty() {
             return Ok(Vec::new());
         }
-        let combined = SwayParts::combine(&refs);
-        let total = combined.total();
-        let member_loads = combined_member_loads(model, &fc.factors);
-        let gravity = story::story_gravity(model, self.stories, &total);
+        let times = self.times;
+        let (combined, total, member_loads, gravity) = times.time(Stage::Combine, || {
+            let combined = SwayParts::combine(&refs);
+            let total = combined.total();
+            let member_loads = combined_member_loads(model, &fc.factors);
+            let gravity = story::story_gravity(model, self.stories, &total);
+            (combined, total, member_loads, gravity)
+        });
         // α of AISC 360-16 (1.6 for ASD combinations, App. 8 and C2.1, from memory) belongs
         // to the AISC methods; ACI 318 and EN 1993-1-1 amplify the case's own loads, and
         // their second-order analysis is run at those loads so that it compares with them.
@@ -416,13 +518,13 @@ impl Context<'_> {
 
         // Applied loads of the case on the segmented mesh, for the buckling analysis, and
         // the net applied lateral load.
-        let loads = self.case_loads(fc, 1.0);
+        let loads = times.time(Stage::Combine, || self.case_loads(fc, 1.0));
         let lateral = loads.resultant(&self.second.mesh)[0];
         let v_total = gravity.sum_p.first().copied().unwrap_or(0.0).max(0.0);
 
         // The frame's lowest sway mode decides; a member's own buckling below it is
         // reported with its member (issue 16 item 3).
-        let frame_buckling = self.second.buckling(model, &loads)?;
+        let frame_buckling = times.time(Stage::Buckling, || self.second.buckling(model, &loads))?;
         let member_mode = frame_buckling
             .as_ref()
             .and_then(|f| f.member.as_ref())
@@ -434,14 +536,16 @@ impl Context<'_> {
 
         // Notional loads: which directions, and how large at each level.
         let own: Vec<f64> = combined.holding.iter().map(|h| -h).collect();
-        let estimate = story::figures(
-            self.stories,
-            &self.story_stiffness(fc, &own, &gravity)?,
-            &gravity,
-            &own,
-            &combined.sway,
-            alpha,
-        );
+        let estimate = times.time(Stage::Stories, || {
+            Ok::<_, CheckError>(story::figures(
+                self.stories,
+                &self.story_stiffness(fc, &own, &gravity)?,
+                &gravity,
+                &own,
+                &combined.sway,
+                alpha,
+            ))
+        })?;
         let variants = notional_variants(
             model,
             self.stories,
@@ -467,67 +571,73 @@ impl Context<'_> {
             } else {
                 combined.sway.clone()
             };
-            let (direct_status, direct_solution) = self.direct(fc, &notional, alpha)?;
+            let (direct_status, direct_solution) =
+                times.time(Stage::Direct, || self.direct(fc, &notional, alpha))?;
             let level_forces: Vec<f64> = own.iter().zip(&notional).map(|(h, n)| h + n).collect();
-            let figures = story::figures(
-                self.stories,
-                &self.story_stiffness(fc, &level_forces, &gravity)?,
-                &gravity,
-                &level_forces,
-                &sway,
-                alpha,
-            );
-            let figures = story::classify(
-                model,
-                self.stories,
-                figures,
-                direct_solution.as_ref().map(|d| &d.0),
-                &combined.no_sway,
-                &sway,
-                alpha,
-                buckling.as_ref().map(|b| b.alpha_cr),
-            );
-            // EN 1993-1-1 judges the structure by one α_cr, not story by story; it, ACI's Q
-            // method and AISC's B2 amplify only a sway in the frame's sway shape.
-            let mut figures = figures;
-            let mode: Option<Vec<f64>> = buckling.as_ref().map(|b| {
-                self.stories
-                    .iter()
-                    .map(|st| story::drift_of(st, &b.shape))
-                    .collect()
-            });
-            match model.analysis.method {
-                SecondOrderMethod::Ec3AlphaCr => ec3::judge_structure(
-                    &mut figures,
+            let figures = times.time(Stage::Stories, || {
+                let figures = story::figures(
+                    self.stories,
+                    &self.story_stiffness(fc, &level_forces, &gravity)?,
+                    &gravity,
+                    &level_forces,
+                    &sway,
+                    alpha,
+                );
+                let figures = story::classify(
+                    model,
+                    self.stories,
+                    figures,
+                    direct_solution.as_ref().map(|d| &d.0),
+                    &combined.no_sway,
+                    &sway,
+                    alpha,
                     buckling.as_ref().map(|b| b.alpha_cr),
-                    mode.as_deref(),
-                    direct_status.converged,
-                ),
-                SecondOrderMethod::AciMagnifier => story::aci_q_method_conditions(
-                    &mut figures,
-                    mode.as_deref(),
-                    buckling.as_ref().map(|b| b.alpha_cr),
-                    direct_status.converged,
-                ),
-                SecondOrderMethod::AiscB1B2 => story::aisc_b2_conditions(
-                    &mut figures,
-                    mode.as_deref(),
-                    direct_status.converged,
-                ),
-                SecondOrderMethod::Direct => {}
-            }
-            story::one_route_per_case(&mut figures);
-            let members = member::members(&member::MemberInput {
-                model,
-                stories: self.stories,
-                stiffness: self.stiffness,
-                no_sway: &combined.no_sway,
-                sway: &sway,
-                loads: &member_loads,
-                figures: &figures,
-                direct: direct_solution.as_ref(),
-                alpha,
-                moment_scale: largest_end_moment(&combined.no_sway, &sway),
+                );
+                // EN 1993-1-1 judges the structure by one α_cr, not story by story; it, ACI's Q
+                // method and AISC's B2 amplify only a sway in the frame's sway shape.
+                let mut figures = figures;
+                let mode: Option<Vec<f64>> = buckling.as_ref().map(|b| {
+                    self.stories
+                        .iter()
+                        .map(|st| story::drift_of(st, &b.shape))
+                        .collect()
+                });
+                match model.analysis.method {
+                    SecondOrderMethod::Ec3AlphaCr => ec3::judge_structure(
+                        &mut figures,
+                        buckling.as_ref().map(|b| b.alpha_cr),
+                        mode.as_deref(),
+                        direct_status.converged,
+                    ),
+                    SecondOrderMethod::AciMagnifier => story::aci_q_method_conditions(
+                        &mut figures,
+                        mode.as_deref(),
+                        buckling.as_ref().map(|b| b.alpha_cr),
+                        direct_status.converged,
+                    ),
+                    SecondOrderMethod::AiscB1B2 => story::aisc_b2_conditions(
+                        &mut figures,
+                        mode.as_deref(),
+                        direct_status.converged,
+                    ),
+                    SecondOrderMethod::Direct => {}
+                }
+                story::one_route_per_case(&mut figures);
+                Ok::<_, CheckError>(figures)
+            })?;
+            let members = times.time(Stage::Members, || {
+                member::members(&member::MemberInput {
+                    model,
+                    stories: self.stories,
+                    stiffness: self.stiffness,
+                    no_sway: &combined.no_sway,
+                    sway: &sway,
+                    loads: &member_loads,
+                    figures: &figures,
+                    direct: direct_solution.as_ref(),
+                    alpha,
+                    moment_scale: largest_end_moment(&combined.no_sway, &sway),
+                })
             });
             let stable = direct_status.converged
                 && figures

@@ -12,9 +12,9 @@
 //! gravity-only case whose holding forces change sign up the height, a story with almost
 //! no net shear) the stiffness comes from a same-signed reference pattern: forces
 //! proportional to each level's gravity load Yi (as notional loads are distributed), or,
-//! failing that, equal forces at every level. Every reference pattern is a combination of
-//! the unit level solutions of [`SwaySplit`], so one factorization of the free frame serves
-//! all of them ([`StoryFlexibility`], computed once per model).
+//! failing that, equal forces at every level. Each pattern's story drifts come from one
+//! solve on the free frame's factorization of [`SwaySplit`] ([`StoryFlexibility`]): no
+//! stories × levels table is kept, so memory stays linear in the stories (issue 21).
 
 use serde::Serialize;
 
@@ -149,40 +149,35 @@ pub struct StoryStiffness {
 /// gravity and uniform patterns, where each carries only 1/n of the total.
 pub const PATTERN_MIN_SHEAR_SHARE: f64 = 0.01;
 
-/// Story drifts of the free first-order frame under a unit force at each level, computed
-/// once per model: every lateral pattern's story drifts are a combination of these.
-#[derive(Debug, Clone, PartialEq)]
-pub struct StoryFlexibility {
-    /// `drift[k][l]`: drift of story k under 1 N at level l (shared by its nodes), m/N.
-    drift: Vec<Vec<f64>>,
+/// Story drifts of the free first-order frame under lateral forces at the levels: one
+/// solve on the split's factorization per pattern (a case asks for a few patterns), so
+/// nothing of size stories × levels is kept.
+#[derive(Debug, Clone)]
+pub struct StoryFlexibility<'a> {
+    stories: &'a [Story],
+    split: &'a SwaySplit,
     /// Stories whose top level a support holds in X.
     held: Vec<bool>,
 }
 
-impl StoryFlexibility {
-    /// From the unit level solutions of `split`.
-    pub fn new(stories: &[Story], split: &SwaySplit) -> StoryFlexibility {
-        // One unit solve per level (displacements only, not kept).
-        let nl = split.level_nodes.len();
-        let mut drift = vec![vec![0.0; nl]; stories.len()];
-        for l in 0..nl {
-            let u = split.unit_displacements(l);
-            for (row, st) in drift.iter_mut().zip(stories) {
-                row[l] = drift_of(st, &u);
-            }
-        }
+impl<'a> StoryFlexibility<'a> {
+    /// For the stories of `split`'s frame.
+    pub fn new(stories: &'a [Story], split: &'a SwaySplit) -> StoryFlexibility<'a> {
         let held = split.level_nodes.iter().map(Vec::is_empty).collect();
-        StoryFlexibility { drift, held }
+        StoryFlexibility {
+            stories,
+            split,
+            held,
+        }
     }
 
     /// Story shears `Σ_{l≥k} F_l` and drifts under level forces `f` (N): `(shear, drift)`.
     pub fn response(&self, f: &[f64]) -> Vec<(f64, f64)> {
-        (0..self.drift.len())
-            .map(|k| {
-                let shear: f64 = f[k..].iter().sum();
-                let drift: f64 = self.drift[k].iter().zip(f).map(|(d, x)| d * x).sum();
-                (shear, drift)
-            })
+        let u = self.split.level_force_displacements(f);
+        self.stories
+            .iter()
+            .enumerate()
+            .map(|(k, st)| (f[k..].iter().sum(), drift_of(st, &u)))
             .collect()
     }
 }
@@ -235,7 +230,7 @@ type PatternResponse = (f64, Vec<(f64, f64)>);
 /// near-zero shear or a shear against the drift.
 pub fn story_stiffness(
     stories: &[Story],
-    flex: &StoryFlexibility,
+    flex: &StoryFlexibility<'_>,
     level_forces: &[f64],
     y: &[f64],
 ) -> Result<Vec<StoryStiffness>, StoryStiffnessError> {

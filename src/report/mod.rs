@@ -9,6 +9,7 @@ pub mod compare;
 pub mod diagram;
 pub mod handoff;
 pub mod html;
+pub mod json;
 pub mod service;
 pub mod solve;
 pub mod starter;

@@ -5,8 +5,11 @@
 //! Text, Markdown and CSV are in the model's units; JSON in SI base units with a `units`
 //! block. One set of row builders serves every tabular format.
 
+use std::io::Write;
+
 use serde::{Deserialize, Serialize};
 
+use super::json::JsonObject;
 use super::{CAUTION, num, table_of, wrap_text};
 use crate::check::CheckReport;
 use crate::envelope::{
@@ -156,41 +159,68 @@ pub struct CheckDoc {
     /// The serviceability half of the run (see the README), when it has one.
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub serviceability: Option<crate::service::ServiceReport>,
+    /// The approximate check, when it was asked for (`--approximate`).
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub approximate: Option<serde_json::Value>,
     pub caution: String,
 }
 
-/// The JSON document of a run.
-pub fn json_doc(s: &Summary) -> CheckDoc {
-    CheckDoc {
-        schema_version: SCHEMA_VERSION,
-        program: format!("plumbline {}", env!("CARGO_PKG_VERSION")),
-        title: s.model.title.clone(),
-        model_file: s.model_file.clone(),
-        model_sha256: s.model_sha256.clone(),
-        units: JsonUnits {
+/// Write the JSON document of a run (the keys of [`CheckDoc`], documented in the README)
+/// to `out`, one top-level section at a time: nothing is held whole in memory, so a tall
+/// frame's document streams to its file. `approximate` is the approximate check, when it
+/// was asked for. A new top-level key is one more `doc.section(...)` line here.
+pub fn write_json(
+    s: &Summary,
+    approximate: Option<&serde_json::Value>,
+    out: impl std::io::Write,
+) -> std::io::Result<()> {
+    let mut doc = JsonObject::begin(std::io::BufWriter::with_capacity(1 << 16, out))?;
+    doc.section("schema_version", &SCHEMA_VERSION)?;
+    doc.section(
+        "program",
+        &format!("plumbline {}", env!("CARGO_PKG_VERSION")),
+    )?;
+    doc.section("title", &s.model.title)?;
+    doc.section("model_file", &s.model_file)?;
+    doc.section("model_sha256", &s.model_sha256)?;
+    doc.section(
+        "units",
+        &JsonUnits {
             length: "m".into(),
             force: "N".into(),
             moment: "N*m".into(),
             stiffness: "N/m".into(),
             displacement: "m".into(),
         },
-        combinations: s.table_line(),
-        table: s.table.clone(),
-        method: s.report.method.to_string(),
-        method_description: super::check::method_title(s.report.method).to_string(),
-        assumptions: s.settings.clone(),
-        selection: s.selection.clone(),
-        envelope: s.envelope.clone(),
-        governing: governing(&s.envelope.members),
-        report: serde_json::to_value(s.report).expect("a check report serializes"),
-        serviceability: s.service.cloned(),
-        caution: CAUTION.to_string(),
+    )?;
+    doc.section("combinations", &s.table_line())?;
+    doc.section("table", &s.table)?;
+    doc.section("method", &s.report.method.to_string())?;
+    doc.section(
+        "method_description",
+        super::check::method_title(s.report.method),
+    )?;
+    doc.section("assumptions", &s.settings)?;
+    doc.section("selection", &s.selection)?;
+    doc.section("envelope", &s.envelope)?;
+    doc.section("governing", &governing(&s.envelope.members))?;
+    doc.section("report", s.report)?;
+    if let Some(r) = s.service {
+        doc.section("serviceability", r)?;
     }
+    if let Some(a) = approximate {
+        doc.section("approximate", a)?;
+    }
+    doc.section("caution", CAUTION)?;
+    doc.finish()?;
+    Ok(())
 }
 
-/// The JSON text of a run.
-pub fn json(s: &Summary) -> String {
-    serde_json::to_string_pretty(&json_doc(s)).expect("a check document serializes") + "\n"
+/// The JSON text of a run (see [`write_json`]).
+pub fn json(s: &Summary, approximate: Option<&serde_json::Value>) -> String {
+    let mut out = Vec::new();
+    write_json(s, approximate, &mut out).expect("a check document serializes to memory");
+    String::from_utf8(out).expect("JSON is UTF-8")
 }
 
 /// Number formatting in the model's units.
@@ -949,22 +979,28 @@ pub fn markdown(s: &Summary) -> String {
     out
 }
 
-/// CSV text of one table, written with the `csv` crate, ending with the caution as a
+/// Write one table as CSV to `out` with the `csv` crate, ending with the caution as a
 /// comment line (`#`).
-pub fn csv_text(t: &Table) -> String {
-    let mut w = csv::Writer::from_writer(Vec::new());
-    w.write_record(&t.header).expect("csv to memory");
+pub fn write_csv(t: &Table, out: impl std::io::Write) -> std::io::Result<()> {
+    let mut w = csv::Writer::from_writer(std::io::BufWriter::with_capacity(1 << 16, out));
+    w.write_record(&t.header)?;
     for r in &t.rows {
-        w.write_record(r).expect("csv to memory");
+        w.write_record(r)?;
     }
-    let bytes = w.into_inner().expect("csv to memory");
-    let mut text = String::from_utf8(bytes).expect("csv of UTF-8 text is UTF-8");
-    text.push_str(&format!("# {CAUTION}\n"));
-    text
+    let mut out = w.into_inner().map_err(|e| e.into_error())?;
+    writeln!(out, "# {CAUTION}")?;
+    out.flush()
 }
 
-/// The CSV files of a run: `(file name, text)`, one per table.
-pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
+/// CSV text of one table (see [`write_csv`]).
+pub fn csv_text(t: &Table) -> String {
+    let mut out = Vec::new();
+    write_csv(t, &mut out).expect("csv to memory");
+    String::from_utf8(out).expect("csv of UTF-8 text is UTF-8")
+}
+
+/// The CSV tables of a run, one file each (named `<table name>.csv`).
+pub fn csv_tables(s: &Summary) -> Vec<Table> {
     // The CSV files have no heading: the assumptions say which cases were included.
     let mut assumptions = assumptions_table(s);
     assumptions.rows.push(vec![
@@ -991,6 +1027,11 @@ pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
         tables.extend(super::service::tables(s.model, r));
     }
     tables
+}
+
+/// The CSV files of a run: `(file name, text)`, one per table.
+pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
+    csv_tables(s)
         .iter()
         .map(|t| (format!("{}.csv", t.name), csv_text(t)))
         .collect()

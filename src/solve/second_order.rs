@@ -372,7 +372,7 @@ impl Condensed {
                 z.rows_mut(3 * k, 3).copy_from(&pl);
             }
             if z.iter().any(|&v| v != 0.0) {
-                let on_ends = -(b.w.transpose() * &z);
+                let on_ends = -b.w.tr_mul(&z);
                 let t = transformation(e.c, e.s);
                 let g = t.transpose() * Vector6::from_iterator(on_ends.iter().copied());
                 for (r, q) in element_equations(&so.dofs, &so.frame.elements[m])

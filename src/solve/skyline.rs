@@ -308,9 +308,23 @@ impl SkylineMatrix {
     }
 }
 
-/// Dot product of two slices of equal length.
+/// Dot product of two slices of equal length, summed in four interleaved partial sums
+/// (terms k, k+4, k+8, … in each) so that the processor can overlap the additions: the
+/// factorization and the forward substitution spend most of their time here (issue 21).
+/// The order of the additions differs from a running sum only by round-off.
 fn dot(a: &[f64], b: &[f64]) -> f64 {
-    a.iter().zip(b).map(|(x, y)| x * y).sum()
+    let n = a.len().min(b.len());
+    let (a4, b4) = (a[..n].chunks_exact(4), b[..n].chunks_exact(4));
+    let (ra, rb) = (a4.remainder(), b4.remainder());
+    let mut s = [0.0f64; 4];
+    for (x, y) in a4.zip(b4) {
+        s[0] += x[0] * y[0];
+        s[1] += x[1] * y[1];
+        s[2] += x[2] * y[2];
+        s[3] += x[3] * y[3];
+    }
+    let tail: f64 = ra.iter().zip(rb).map(|(x, y)| x * y).sum();
+    (s[0] + s[1]) + (s[2] + s[3]) + tail
 }
 
 impl SkylineFactor {
@@ -513,6 +527,27 @@ mod tests {
 
     /// Closed form: [[4, 2], [2, 3]]·x = [2, 1] gives det = 8, x = [(2·3 − 2·1)/8,
     /// (4·1 − 2·2)/8] = [0.5, 0]; LDLᵀ pivots d0 = 4, d1 = 3 − 2²/4 = 2.
+    /// The interleaved dot product against the running sum (the reference path of issue
+    /// 21) on every length up to 13, so that every remainder of 4 is met: equal to
+    /// round-off, and exact on integers.
+    #[test]
+    fn interleaved_dot_matches_the_running_sum() {
+        for n in 0..14 {
+            let a: Vec<f64> = (0..n).map(|k| 1.0 + 0.37 * k as f64).collect();
+            let b: Vec<f64> = (0..n).map(|k| (k as f64 - 4.5) / 3.0).collect();
+            let running: f64 = a.iter().zip(&b).map(|(x, y)| x * y).sum();
+            let scale: f64 = a.iter().zip(&b).map(|(x, y)| (x * y).abs()).sum();
+            assert!(
+                (dot(&a, &b) - running).abs() <= 1e-15 * scale.max(1.0),
+                "n = {n}"
+            );
+            let ints: Vec<f64> = (0..n).map(|k| k as f64).collect();
+            // closed form: Σ k² for k < n is (n − 1)·n·(2n − 1)/6.
+            let sq = ((n as f64 - 1.0) * n as f64 * (2.0 * n as f64 - 1.0) / 6.0).max(0.0);
+            assert_eq!(dot(&ints, &ints), sq);
+        }
+    }
+
     #[test]
     fn two_by_two_closed_form() {
         let mut k: SkylineMatrix = SkylineMatrix::new(vec![0, 0]);

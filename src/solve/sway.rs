@@ -167,6 +167,12 @@ impl SwaySplit {
         level_displacements(&self.free, &self.level_nodes, &h)
     }
 
+    /// Node displacements of the free frame under lateral forces `h[l]` (N, +X) at the
+    /// story levels, each shared equally by the level's nodes (one solve; nothing stored).
+    pub fn level_force_displacements(&self, h: &[f64]) -> Vec<[f64; 3]> {
+        level_displacements(&self.free, &self.level_nodes, h)
+    }
+
     /// The free frame under lateral forces `h[l]` (N, +X) at the story levels, each shared
     /// equally among the level's nodes (one solve on the free frame's factorization).
     pub fn lateral(&self, h: &[f64]) -> Solution {
