@@ -440,8 +440,7 @@ fn check_args(format: CheckFormat) -> CheckArgs {
         notional: None,
         case: None,
         format,
-        detail: false,
-        approximate: false,
+        ..Default::default()
     }
 }
 
