@@ -317,6 +317,15 @@ pub fn c_m(ends: [f64; 2]) -> f64 {
     0.6 - 0.4 * (-a / b)
 }
 
+/// [`c_m`] with end moments below [`ROUND_OFF`] of the case's moment scale `scale` taken as
+/// zero, so that no ratio of round-off decides Cm: where both ends are round-off the member
+/// has no end moments to form M1/M2 from and Cm = 1.0, the upper bound of A-8-4 (common
+/// practice, no source); where only M1 is, M1/M2 = 0 and Cm = 0.6.
+pub fn c_m_significant(ends: [f64; 2], scale: f64) -> f64 {
+    let tiny = ROUND_OFF * scale;
+    c_m(ends.map(|m| if m.abs() <= tiny { 0.0 } else { m }))
+}
+
 /// A moment exceeds the 1.4 limit only by more than this share of the member's moment
 /// scale (its largest design or first-order moment in the case): an end moment that is a
 /// small fraction of what the member carries elsewhere, or round-off on a member with no
@@ -521,7 +530,11 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
             // A-8-4 from the no-sway end moments Mnt; 1.0 with transverse load (the
             // conservative value A-8-4 permits, from memory). A-8-5 with K1 = 1.0 and EI*
             // the stiffness used in the analysis.
-            let cm = if transverse { 1.0 } else { c_m(ns) };
+            let cm = if transverse {
+                1.0
+            } else {
+                c_m_significant(ns, input.moment_scale)
+            };
             let pe1 = aisc::p_e1(input.stiffness[m].ei, l);
             let b1 = aisc::b1(cm, input.alpha, p_r, pe1);
             if b1.is_none() {
@@ -808,5 +821,10 @@ mod tests {
         assert_relative_eq!(c_m([100.0, 100.0]), 1.0);
         assert_relative_eq!(c_m([100.0, -100.0]), 0.2);
         assert_relative_eq!(c_m([0.0, 50.0]), 0.6);
+        // Round-off end moments (1e-11 against a case scale of 1e3) decide nothing: no end
+        // moments give 1.0, a round-off M1 gives M1/M2 = 0 (A-8-4 with M1 = 0).
+        assert_relative_eq!(c_m_significant([3e-11, -1e-11], 1e3), 1.0);
+        assert_relative_eq!(c_m_significant([1e-12, 50.0], 1e3), 0.6);
+        assert_relative_eq!(c_m_significant([100.0, -100.0], 1e3), 0.2);
     }
 }
