@@ -5,7 +5,8 @@
 
 use serde::Serialize;
 
-use super::summary::{Table, csv_text};
+use super::html::html_table;
+use super::summary::{Table, csv_text, md_cell, md_table};
 use super::{CAUTION, num, table_of};
 use crate::compare::{Change, Comparison, LeftOut, Quantity, Row, Value, VariantInfo};
 use crate::model::Model;
@@ -285,10 +286,6 @@ pub fn text(run: &CompareView) -> String {
     out
 }
 
-fn md_cell(c: &str) -> String {
-    c.replace('|', "\\|").replace('~', "\\~")
-}
-
 /// The Markdown report.
 pub fn markdown(run: &CompareView) -> String {
     let model = model_of(run);
@@ -304,23 +301,7 @@ pub fn markdown(run: &CompareView) -> String {
         story_table(c),
         member_table(model, c, 1),
     ] {
-        out.push_str(&format!("### {}\n\n", md_cell(&t.title)));
-        out.push_str(&format!(
-            "| {} |\n|{}|\n",
-            t.header
-                .iter()
-                .map(|h| md_cell(h))
-                .collect::<Vec<_>>()
-                .join(" | "),
-            t.header.iter().map(|_| "---").collect::<Vec<_>>().join("|")
-        ));
-        for r in &t.rows {
-            out.push_str(&format!(
-                "| {} |\n",
-                r.iter().map(|x| md_cell(x)).collect::<Vec<_>>().join(" | ")
-            ));
-        }
-        out.push('\n');
+        out.push_str(&md_table(&t));
     }
     out.push_str(&format!("{}\n\n{CAUTION}\n", super::summary::SIGN_NOTE));
     out
@@ -487,22 +468,7 @@ pub fn html(run: &CompareView) -> String {
     use super::svg::esc;
     let model = model_of(run);
     let c = run.comparison;
-    let table = |t: &Table| {
-        let mut s = format!("<h2>{}</h2><table><thead><tr>", esc(&t.title));
-        for h in &t.header {
-            s.push_str(&format!("<th>{}</th>", esc(h)));
-        }
-        s.push_str("</tr></thead><tbody>");
-        for r in &t.rows {
-            s.push_str("<tr>");
-            for cell in r {
-                s.push_str(&format!("<td>{}</td>", esc(cell)));
-            }
-            s.push_str("</tr>");
-        }
-        s.push_str("</tbody></table>");
-        s
-    };
+    let table = |t: &Table| format!("<h2>{}</h2>{}", esc(&t.title), html_table(t));
     let mut out = format!(
         "<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>{} — variants compared</title>\
          <style>body{{font-family:system-ui,sans-serif;max-width:1060px;margin:24px auto;padding:0 16px;color:#1d262d}}\

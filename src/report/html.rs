@@ -101,7 +101,7 @@ ul { font-size: 13px; }
 
 /// A table as HTML; cells that read as numbers are right-aligned, and a row whose last
 /// cell is the member-maximum marker is set in bold.
-fn html_table(t: &Table) -> String {
+pub(super) fn html_table(t: &Table) -> String {
     let align = t.name != "assumptions";
     let mut out = String::from("<table><thead><tr>");
     for h in &t.header {

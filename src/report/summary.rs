@@ -895,13 +895,13 @@ fn service_markdown(model: &Model, r: &crate::service::ServiceReport) -> String 
 
 /// A cell or line for Markdown: `|` would end a cell, `~` strike text through (case ids
 /// such as `1.2D~L`) and `*` start emphasis, so each is escaped.
-fn md_cell(c: &str) -> String {
+pub(super) fn md_cell(c: &str) -> String {
     c.replace('|', "\\|")
         .replace('~', "\\~")
         .replace('*', "\\*")
 }
 
-fn md_table(t: &Table) -> String {
+pub(super) fn md_table(t: &Table) -> String {
     let mut out = format!("### {}\n\n", t.title);
     out.push_str(&format!(
         "| {} |\n|{}|\n",
