@@ -66,8 +66,8 @@ fn run() -> Result<(), plumbline::Error> {
     );
     println!();
     println!(
-        "{:<7} {:>12} {:>8} {:>12}  {:<8} {}",
-        "member", "M (kN·m)", "x (m)", "N (kN)", "part", "case"
+        "{:<7} {:>12} {:>8} {:>12}  {:<8} case",
+        "member", "M (kN·m)", "x (m)", "N (kN)", "part"
     );
     for g in outcome.governing() {
         println!(
