@@ -17,7 +17,7 @@
 //! }
 //! println!("{}", outcome.caution());
 //! # Ok::<(), plumbline::Error>(())
-//! //! ```
+//! ```
 
 use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
