@@ -118,10 +118,13 @@ fn built_portal_checks_and_is_symmetric() {
     assert_eq!(out.story_verdicts().len(), 1);
 }
 
+/// A change that spoils a frame under construction.
+type Spoil = Box<dyn Fn(&mut FrameBuilder)>;
+
 /// Every inconsistency of a frame built in code is an `Error::Build` naming it.
 #[test]
 fn bad_frames_are_typed_errors() {
-    let cases: Vec<(&str, Box<dyn Fn(&mut FrameBuilder)>)> = vec![
+    let cases: Vec<(&str, Spoil)> = vec![
         (
             "no node X",
             Box::new(|f| {
