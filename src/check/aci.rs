@@ -1,9 +1,9 @@
 //! ACI 318-19 §6.6.4, moment magnification: stability index Q, sway magnifier δs,
 //! non-sway magnifier δ, and the limits around them.
 //!
-//! References (reference notes §7): 6.6.4.4.1 Q [C]; 6.6.4.3(b) Q ≤ 0.05 [C];
-//! 6.6.4.6.2 δs (a)–(c) and the 1.5 limit [C]; 6.6.4.5.2 δ and 6.6.4.5.3 Cm [C numbering,
-//! forms M]; 6.6.4.4.2 Pc and 6.6.4.4.4(a) (EI)eff [M]; 6.2.5.3 the 1.4 limit [M].
+//! References (reference notes §7): 6.6.4.4.1 Q \[C\]; 6.6.4.3(b) Q ≤ 0.05 \[C\];
+//! 6.6.4.6.2 δs (a)–(c) and the 1.5 limit \[C\]; 6.6.4.5.2 δ and 6.6.4.5.3 Cm \[C numbering,
+//! forms M\]; 6.6.4.4.2 Pc and 6.6.4.4.4(a) (EI)eff \[M\]; 6.2.5.3 the 1.4 limit \[M\].
 
 use std::f64::consts::PI;
 
@@ -69,7 +69,7 @@ pub fn m2_min(p_u: f64, h: f64, e_min: f64) -> f64 {
     p_u.max(0.0) * (e_min + 0.03 * h)
 }
 
-/// Second-order moments may not exceed 1.4 × first-order moments, 6.2.5.3 [M].
+/// Second-order moments may not exceed 1.4 × first-order moments, 6.2.5.3 \[M\].
 pub const SECOND_ORDER_LIMIT: f64 = 1.4;
 
 #[cfg(test)]

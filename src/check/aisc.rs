@@ -7,7 +7,7 @@
 use crate::combos::Basis;
 
 /// α of Appendix 8.2 (and §C2.2b): 1.00 on a strength (LRFD) basis, 1.60 on an
-/// allowable-stress (ASD) basis [C].
+/// allowable-stress (ASD) basis \[C\].
 pub fn alpha(basis: Basis) -> f64 {
     match basis {
         Basis::AllowableStress => 1.6,
@@ -66,7 +66,7 @@ pub fn notional_coefficient(base: f64, tau_b_one: bool) -> f64 {
     }
 }
 
-/// The default notional-load coefficient of §C2.2b, C2-1: `Ni = 0.002·α·Yi` [C1].
+/// The default notional-load coefficient of §C2.2b, C2-1: `Ni = 0.002·α·Yi` \[C1\].
 pub const NOTIONAL_COEFFICIENT: f64 = 0.002;
 
 /// The additional notional load of §C2.3(c) when τb = 1.0 is taken for all members:
@@ -79,7 +79,7 @@ pub const NOTIONAL_TAU_B_ADDITION: f64 = 0.001;
 pub const B2_NONSWAY: f64 = 1.1;
 
 /// Above this Δ2nd/Δ1st, notional loads are added to combinations with lateral loads too;
-/// at or below it only to gravity-only combinations — §C2.2b(d) [C1].
+/// at or below it only to gravity-only combinations — §C2.2b(d) \[C1\].
 pub const NOTIONAL_GRAVITY_ONLY_LIMIT: f64 = 1.7;
 
 #[cfg(test)]

@@ -1,9 +1,9 @@
 //! EN 1993-1-1:2005 §5.2–5.3: the story criterion α_cr, the amplified sway method and the
 //! equivalent sway imperfection.
 //!
-//! References (reference notes §8): (5.1) α_cr ≥ 10 [M]; (5.2) α_cr = (H/V)(h/δ) [C];
+//! References (reference notes §8): (5.1) α_cr ≥ 10 \[M\]; (5.2) α_cr = (H/V)(h/δ) \[C\];
 //! §5.2.2(5)B amplifier 1/(1 − 1/α_cr) for α_cr ≥ 3 [C amplifier, M clause wording];
-//! (5.5) φ = φ0·αh·αm [C]; §5.3.2(4)B H ≥ 0.15·V [M].
+//! (5.5) φ = φ0·αh·αm \[C\]; §5.3.2(4)B H ≥ 0.15·V \[M\].
 
 use super::story::{Classification, DRIFT_NEGLIGIBLE_RATIO, StoryFigures, Verdict};
 
@@ -231,7 +231,7 @@ pub fn sway_imperfection(height: f64, m: usize) -> f64 {
     phi_0 * alpha_h * alpha_m
 }
 
-/// Sway imperfections may be disregarded when `H_Ed ≥ 0.15·V_Ed`, §5.3.2(4)B [M].
+/// Sway imperfections may be disregarded when `H_Ed ≥ 0.15·V_Ed`, §5.3.2(4)B \[M\].
 pub fn imperfection_negligible(h_ed: f64, v_ed: f64) -> bool {
     h_ed.abs() >= 0.15 * v_ed.abs()
 }

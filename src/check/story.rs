@@ -629,7 +629,7 @@ fn negligible(f: &StoryFigures) -> String {
 ///
 /// A story formula alone never declares a story unstable while the buckling analysis
 /// finds the frame's lowest sway mode above α and the direct analysis converged
-/// ([`overrule_story_formula`]).
+/// (`overrule_story_formula`).
 #[allow(clippy::too_many_arguments)]
 pub fn classify(
     model: &Model,

@@ -191,7 +191,7 @@ fn display_width(text: &str) -> usize {
 
 /// Column widths whose sum is at most `room`: the `natural` widths when they fit, else the
 /// widest column narrowed one step at a time, first no narrower than its longest word
-/// (`words`), then, if that is not enough, down to [`MIN_COLUMN`].
+/// (`words`), then, if that is not enough, down to `MIN_COLUMN`.
 pub fn column_widths(natural: &[usize], words: &[usize], room: usize) -> Vec<usize> {
     let mut w = natural.to_vec();
     for floor in [words.to_vec(), vec![MIN_COLUMN; natural.len()]] {

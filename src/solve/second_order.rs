@@ -17,7 +17,7 @@
 //!
 //! With two or more elements per member this reproduces the exact beam-column solutions of
 //! the AISC 360-16 Commentary Chapter C benchmark problems within 0.5 % (reference notes §5,
-//! computed [X]); `tests/second_order.rs` checks them against the closed forms.
+//! computed \[X\]); `tests/second_order.rs` checks them against the closed forms.
 //!
 //! The elastic critical load factor α_cr solves `(K + α_cr·K_G(N))·φ = 0` with the
 //! first-order axial forces N of the load: the smallest load factor at which the
@@ -546,7 +546,7 @@ impl SecondOrderModel {
     ///
     /// α_cr is the smallest λ at which `K + λ·K_G(N)` stops being positive definite
     /// (Sylvester's law of inertia: a failed Cholesky pivot marks λ ≥ α_cr). It is first
-    /// estimated by shifted inverse iteration ([`Self::estimate_alpha_cr`]) and then
+    /// estimated by shifted inverse iteration (`Self::estimate_alpha_cr`) and then
     /// confirmed by factorizing just below and just above the estimate; when that fails
     /// (releases make the condensed problem non-linear in λ) the bracket is searched and
     /// bisected. Releases are condensed from `K + λ·K_G` at each λ tried, so hinged members

@@ -9,7 +9,7 @@
 //!
 //! The factorisation is the active-column (column-by-column) LDLᵀ reduction described in
 //! K.-J. Bathe, *Finite Element Procedures*, Prentice-Hall (1996), §8.2 (from memory):
-//! for column j, with m_ij = max(first_row[i], first_row[j]),
+//! for column j, with m_ij = max(first_row\[i\], first_row\[j\]),
 //!
 //! ```text
 //! g_ij = k_ij − Σ_{r = m_ij}^{i−1} l_ri · g_rj        i = first_row[j] .. j−1
