@@ -39,6 +39,19 @@ fn difference(d: f64) -> String {
     }
 }
 
+/// Formats the worst figure of a property: round-off (below 10⁻⁶) as the power of ten
+/// that bounds it, so the document does not change with the last bits of a sum; larger
+/// figures with five significant digits.
+fn worst(x: f64) -> String {
+    if x == 0.0 {
+        "0".into()
+    } else if x < 1e-6 {
+        format!("≤ 1e{}", x.log10().ceil() as i32)
+    } else {
+        number(x)
+    }
+}
+
 /// Escapes the characters that would break a Markdown table cell.
 fn cell(s: &str) -> String {
     s.replace('|', "\\|").replace('\n', " ")
@@ -229,7 +242,7 @@ fn render(records: &BTreeMap<String, Value>) -> String {
             cell(&text(v, "asserts")),
             v["frames"].as_u64().unwrap_or(0),
             cell(&text(v, "figure")),
-            number(v["worst"].as_f64().unwrap_or(f64::NAN)),
+            worst(v["worst"].as_f64().unwrap_or(f64::NAN)),
             cell(&text(v, "limit")),
         );
     }
@@ -261,4 +274,6 @@ fn numbers_are_formatted_stably() {
     assert_eq!(number(0.0), "0");
     assert_eq!(difference(3e-12), "< 1e-9");
     assert_eq!(difference(0.0123), "1.2e-2");
+    assert_eq!(worst(3.2e-13), "≤ 1e-12");
+    assert_eq!(worst(0.25), "0.25000");
 }

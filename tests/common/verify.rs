@@ -19,6 +19,19 @@ thread_local! {
     static SOURCE: RefCell<Option<String>> = const { RefCell::new(None) };
     /// How many checks the current test has noted (numbers the automatic ids).
     static NOTED: Cell<usize> = const { Cell::new(0) };
+    /// The largest figure the current test's helpers have [`observe`]d.
+    static WORST: Cell<f64> = const { Cell::new(0.0) };
+}
+
+/// Keeps the largest figure (a difference over its scale, say) that a property test's
+/// helper sees, for [`property`]; read it back with [`observed`].
+pub fn observe(figure: f64) {
+    WORST.with(|w| w.set(w.get().max(figure)));
+}
+
+/// The largest figure [`observe`]d so far in the current test (0 when none).
+pub fn observed() -> f64 {
+    WORST.with(Cell::get)
 }
 
 /// Names the source of the checks that the current test's helpers note with [`note`]
