@@ -13,6 +13,7 @@
 mod common;
 
 use common::random_frame::RandomFrame;
+use common::verify;
 use plumbline::check::story::SwayRoute;
 use plumbline::check::{CaseCheck, Classification, check};
 use plumbline::model::{NotionalLoads, SecondOrderMethod};
@@ -612,4 +613,13 @@ fn alpha_cr_at_the_default_mesh_is_never_above_the_converged_value() {
         "α_cr at {default} elements against {REFERENCE}, {compared} cases: largest excess {worst:.2e}"
     );
     assert!(compared > 200, "{compared}");
+    verify::property(
+        "amplifier_validity/alpha_cr_at_the_default_mesh_is_never_above_the_converged_value",
+        "the frame's α_cr (lowest sway mode) at the default mesh is never more than 0.1 % above \
+         the converged value (8 elements per member, nested 16), gravity cases",
+        FRAMES as usize,
+        "largest α_cr(default) / α_cr(converged) − 1",
+        worst,
+        "1e-3",
+    );
 }

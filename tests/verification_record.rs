@@ -45,7 +45,7 @@ fn difference(d: f64) -> String {
 fn worst(x: f64) -> String {
     if x == 0.0 {
         "0".into()
-    } else if x < 1e-6 {
+    } else if x > 0.0 && x < 1e-6 {
         format!("≤ 1e{}", x.log10().ceil() as i32)
     } else {
         number(x)
