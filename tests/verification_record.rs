@@ -29,11 +29,13 @@ fn number(x: f64) -> String {
     }
 }
 
-/// Formats a relative difference: below 10⁻⁹ it is round-off and printed as such, so the
-/// last bits of a floating-point sum never change the document.
-fn difference(d: f64) -> String {
-    if d < 1e-9 {
-        "< 1e-9".into()
+/// Formats a relative difference: below 10⁻⁹ (or below the tolerance, when that is
+/// smaller) it is round-off and printed as a bound, so the last bits of a floating-point
+/// sum never change the document.
+fn difference(d: f64, tol: f64) -> String {
+    let floor = tol.min(1e-9);
+    if d < floor {
+        format!("< {floor:.0e}")
     } else {
         format!("{d:.1e}")
     }
@@ -98,7 +100,7 @@ fn check_row(v: &Value) -> [String; 5] {
         (
             s("expected_text"),
             s("computed_text"),
-            difference(f("difference")),
+            difference(f("difference"), f("tolerance")),
         )
     } else {
         let (e, c, scale) = (f("expected"), f("computed"), f("scale"));
@@ -112,7 +114,7 @@ fn check_row(v: &Value) -> [String; 5] {
         (
             number(e),
             number(c),
-            difference(scaled_difference(e, c, scale)) + &against,
+            difference(scaled_difference(e, c, scale), f("tolerance")) + &against,
         )
     };
     [
@@ -272,8 +274,9 @@ fn numbers_are_formatted_stably() {
     assert_eq!(number(0.225), "0.22500");
     assert_eq!(number(1.5e-7), "1.5000e-7");
     assert_eq!(number(0.0), "0");
-    assert_eq!(difference(3e-12), "< 1e-9");
-    assert_eq!(difference(0.0123), "1.2e-2");
+    assert_eq!(difference(3e-12, 1e-2), "< 1e-9");
+    assert_eq!(difference(3e-12, 1e-10), "< 1e-10");
+    assert_eq!(difference(0.0123, 1e-1), "1.2e-2");
     assert_eq!(worst(3.2e-13), "≤ 1e-12");
     assert_eq!(worst(0.25), "0.25000");
 }
