@@ -34,7 +34,9 @@ fn number(x: f64) -> String {
 /// sum never change the document.
 fn difference(d: f64, tol: f64) -> String {
     let floor = tol.min(1e-9);
-    if d < floor {
+    if d == 0.0 {
+        "0".into()
+    } else if d < floor {
         format!("< {floor:.0e}")
     } else {
         format!("{d:.1e}")
@@ -51,6 +53,15 @@ fn worst(x: f64) -> String {
         format!("≤ 1e{}", x.log10().ceil() as i32)
     } else {
         number(x)
+    }
+}
+
+/// Formats a tolerance; zero reads `exact`.
+fn tolerance(t: f64) -> String {
+    if t == 0.0 {
+        "exact".into()
+    } else {
+        format!("{t:.0e}")
     }
 }
 
@@ -122,7 +133,7 @@ fn check_row(v: &Value) -> [String; 5] {
         expected,
         computed,
         diff,
-        format!("{:.0e}", f("tolerance")),
+        tolerance(f("tolerance")),
     ]
 }
 
@@ -177,7 +188,7 @@ fn render(records: &BTreeMap<String, Value>) -> String {
          computed from the cited formula; `common practice, no source` marks a rule of thumb. \
          Values are in SI units (N, m, Pa) unless the quantity names others.\n"
     );
-    let _ = writeln!(out, "| Test file | Tests | Checks |");
+    let _ = writeln!(out, "| Test file | Tests or groups | Checks |");
     let _ = writeln!(out, "|---|---:|---:|");
     for (file, tests) in &files {
         let n: usize = tests.values().map(Vec::len).sum();
@@ -277,6 +288,9 @@ fn numbers_are_formatted_stably() {
     assert_eq!(difference(3e-12, 1e-2), "< 1e-9");
     assert_eq!(difference(3e-12, 1e-10), "< 1e-10");
     assert_eq!(difference(0.0123, 1e-1), "1.2e-2");
+    assert_eq!(difference(0.0, 0.0), "0");
+    assert_eq!(tolerance(0.0), "exact");
+    assert_eq!(tolerance(1e-3), "1e-3");
     assert_eq!(worst(3.2e-13), "≤ 1e-12");
     assert_eq!(worst(0.25), "0.25000");
 }
