@@ -387,6 +387,7 @@ fn random_frames_service_drift_is_gross_first_order_drift_times_the_second_order
                 .max(1e-300);
             for ((s, st), d) in c.stories.iter().zip(&stories).zip(&drifts) {
                 let tol = 1e-7 * scale * st.height();
+                verify::observe((s.drift_first_order - d).abs() / (scale * st.height()));
                 assert!(
                     (s.drift_first_order - d).abs() <= tol,
                     "seed {seed} case {} story {}: {} vs gross {d}",
@@ -406,6 +407,15 @@ fn random_frames_service_drift_is_gross_first_order_drift_times_the_second_order
             }
         }
     }
+    verify::property(
+        "serviceability/random_frames_service_drift_is_gross_first_order_drift_times_the_second_order_ratio",
+        "each story's service drift is the gross-section first-order drift of the case (and, \
+         where P-Δ is run, times the case's Δ2nd/Δ1st)",
+        FRAMES as usize,
+        "largest first-order drift difference / (largest drift ratio × story height)",
+        verify::observed(),
+        "1e-7",
+    );
 }
 
 #[test]
@@ -437,6 +447,7 @@ fn random_frames_chord_relative_deflection_equals_dense_sampling() {
                     .iter()
                     .map(|p| (p.deflection - (vi + (vj - vi) * p.x / l)).abs())
                     .fold(0.0, f64::max);
+                verify::observe((sampled - b.total.abs()).abs() / scale);
                 assert!(
                     sampled <= b.total.abs() + 1e-9 * scale,
                     "seed {seed} {} {}: sample {sampled} above the extreme {}",
@@ -454,6 +465,15 @@ fn random_frames_chord_relative_deflection_equals_dense_sampling() {
             }
         }
     }
+    verify::property(
+        "serviceability/random_frames_chord_relative_deflection_equals_dense_sampling",
+        "each beam's exact deflection relative to its chord bounds a 4001-station sample and \
+         the sample comes within (L/4000)²·|v''|/2 of it",
+        FRAMES as usize,
+        "largest |sampled − exact| / the case's largest beam deflection",
+        verify::observed(),
+        "above: 1e-9; below: 1e-4",
+    );
 }
 
 /// `check` of a shipped example with `args` (format and options), as one text.
