@@ -327,6 +327,16 @@ fn no_false_instability_and_same_signed_story_patterns() {
         );
     }
     assert!(by_member_formula.is_empty(), "{by_member_formula:?}");
+    verify::property(
+        "random_frames/no_false_instability_and_same_signed_story_patterns",
+        "no case is declared unstable by a story or member formula while α_cr ≥ 2 and the \
+         direct analysis converged; every story stiffness comes from a same-signed pattern; \
+         every sway amplifier is at least 1 (AISC, ACI, EN 1993, direct)",
+        FRAMES as usize,
+        "cases unstable by a member formula only",
+        by_member_formula.len() as f64,
+        "none",
+    );
 }
 
 /// Order statistics of `v` (sorted in place): min, 10 %, median, 90 %, max.
