@@ -513,6 +513,15 @@ fn a_leaning_posts_own_buckling_is_a_member_mode_not_the_frames_alpha_cr() {
         let mode = c.member_mode.as_ref().expect("the post's member mode");
         assert_eq!(mode.member, model.members[post].id);
         // Within the safe-side mesh estimate: at most 0.1 % above the closed form.
+        verify::check(
+            &format!("amplifier_validity/leaning-post/{}", c.id),
+            "member-mode factor of a pin-ended leaning post in a checked case, π²EI/(L²·N)",
+            "-",
+            "closed form: Euler column pinned at both ends (Timoshenko & Gere §2.1, from memory)",
+            euler,
+            mode.alpha,
+            1e-2,
+        );
         assert!(
             mode.alpha <= euler * 1.001 && mode.alpha >= euler * 0.99,
             "{} vs {euler}",
