@@ -13,6 +13,7 @@
 mod common;
 
 use common::random_frame::RandomFrame;
+use common::verify;
 use plumbline::check::story::SwayRoute;
 use plumbline::check::{CaseCheck, Classification, check};
 use plumbline::model::{NotionalLoads, SecondOrderMethod};
@@ -306,6 +307,19 @@ fn amplified_routes_stay_within_their_conditions_on_random_frames() {
         "{:?}",
         excess.first()
     );
+    verify::property(
+        "amplifier_validity/amplified_routes_stay_within_their_conditions_on_random_frames",
+        &format!(
+            "no EC3 or ACI design end moment falls more than 5 % (plus the member's own P-δ \
+             growth) short of the second-order analysis of the same case ({compared} end \
+             moments compared), verdicts rest on significant figures, and (amplifier − 1) is \
+             at most 2·(Δ2nd/Δ1st − 1) + 0.05 (common practice, no source)"
+        ),
+        FRAMES as usize,
+        "largest (amplifier − 1) − 2·(Δ2nd/Δ1st − 1)",
+        excess.first().map_or(0.0, |x| x.0),
+        "0.05",
+    );
 }
 
 /// Issue 16: a frame symmetric about its centre line under symmetric gravity has no sway
@@ -337,6 +351,15 @@ fn symmetric_frames_under_symmetric_gravity_are_non_sway() {
             }
         }
     }
+    verify::property(
+        "amplifier_validity/symmetric_frames_under_symmetric_gravity_are_non_sway",
+        "a frame symmetric about its centre line under symmetric gravity is non-sway in every \
+         story by every method, with negligible drift and amplifier 1",
+        FRAMES as usize,
+        "stories classified sway",
+        0.0,
+        "none",
+    );
 }
 
 /// The braced two-bay, two-story frame of issue 16 (kip-ft; an invented frame): fixed
@@ -490,6 +513,15 @@ fn a_leaning_posts_own_buckling_is_a_member_mode_not_the_frames_alpha_cr() {
         let mode = c.member_mode.as_ref().expect("the post's member mode");
         assert_eq!(mode.member, model.members[post].id);
         // Within the safe-side mesh estimate: at most 0.1 % above the closed form.
+        verify::check(
+            &format!("amplifier_validity/leaning-post/{}", c.id),
+            "member-mode factor of a pin-ended leaning post in a checked case, π²EI/(L²·N)",
+            "-",
+            "closed form: Euler column pinned at both ends (Timoshenko & Gere §2.1, from memory)",
+            euler,
+            mode.alpha,
+            1e-2,
+        );
         assert!(
             mode.alpha <= euler * 1.001 && mode.alpha >= euler * 0.99,
             "{} vs {euler}",
@@ -612,4 +644,13 @@ fn alpha_cr_at_the_default_mesh_is_never_above_the_converged_value() {
         "α_cr at {default} elements against {REFERENCE}, {compared} cases: largest excess {worst:.2e}"
     );
     assert!(compared > 200, "{compared}");
+    verify::property(
+        "amplifier_validity/alpha_cr_at_the_default_mesh_is_never_above_the_converged_value",
+        "the frame's α_cr (lowest sway mode) at the default mesh is never more than 0.1 % above \
+         the converged value (8 elements per member, nested 16), gravity cases",
+        FRAMES as usize,
+        "largest α_cr(default) / α_cr(converged) − 1",
+        worst,
+        "1e-3",
+    );
 }

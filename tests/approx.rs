@@ -7,7 +7,7 @@ mod common;
 
 use approx::assert_relative_eq;
 use common::random_frame::{RandomFrame, factored};
-use common::{Frame, portal};
+use common::{Frame, portal, verify};
 use plumbline::approx::{
     Flag, INFLECTION, Location, Thresholds, approximate, approximate_check, beam_gravity,
     carry_over, portal_shares,
@@ -24,6 +24,9 @@ fn case(id: &str, factors: &[(usize, f64)]) -> FactoredCase {
 
 #[test]
 fn beam_gravity_follows_the_inflection_point_closed_form() {
+    verify::source(
+        "common practice, no source (inflection points at 0.1 L); closed form statics of the parts",
+    );
     let (w, l) = (12e3, 7.5);
     let wl2 = w * l * l;
     // Closed form, inflection points at 0.1 L from each end (common practice, no source):
@@ -33,19 +36,61 @@ fn beam_gravity_follows_the_inflection_point_closed_form() {
     // = −(0.005 + 0.04) wL² = −0.045 wL². Check: 0.08 + 0.045 = 0.125 = wL²/8, the
     // simple-span moment, as statics requires.
     let (mi, mid, mj, x) = beam_gravity(w, l, INFLECTION, INFLECTION);
-    assert_relative_eq!(mi, -0.045 * wl2, max_relative = 1e-12);
-    assert_relative_eq!(mj, -0.045 * wl2, max_relative = 1e-12);
-    assert_relative_eq!(mid, 0.08 * wl2, max_relative = 1e-12);
-    assert_relative_eq!(x, 0.5 * l, max_relative = 1e-12);
+    verify::close(
+        "beam end moment i, −0.045 wL²",
+        "N·m",
+        mi,
+        -0.045 * wl2,
+        1e-12,
+    );
+    verify::close(
+        "beam end moment j, −0.045 wL²",
+        "N·m",
+        mj,
+        -0.045 * wl2,
+        1e-12,
+    );
+    verify::close(
+        "beam mid-span moment, 0.08 wL²",
+        "N·m",
+        mid,
+        0.08 * wl2,
+        1e-12,
+    );
+    verify::close(
+        "position of the mid-span moment, L/2",
+        "m",
+        x,
+        0.5 * l,
+        1e-12,
+    );
 
     // End i released: the simply supported part runs from end i to 0.1 L from end j,
     // length 0.9 L: M_mid = w(0.9L)²/8 = 0.10125 wL² at x = 0.45 L; end j carries
     // −(w(0.1L)²/2 + 0.45wL·0.1L) = −0.05 wL² (closed form, same statics).
     let (mi, mid, mj, x) = beam_gravity(w, l, 0.0, INFLECTION);
     assert_eq!(mi, 0.0);
-    assert_relative_eq!(mid, 0.10125 * wl2, max_relative = 1e-12);
-    assert_relative_eq!(mj, -0.05 * wl2, max_relative = 1e-12);
-    assert_relative_eq!(x, 0.45 * l, max_relative = 1e-12);
+    verify::close(
+        "end i released: span moment 0.10125 wL²",
+        "N·m",
+        mid,
+        0.10125 * wl2,
+        1e-12,
+    );
+    verify::close(
+        "end i released: end moment j, −0.05 wL²",
+        "N·m",
+        mj,
+        -0.05 * wl2,
+        1e-12,
+    );
+    verify::close(
+        "end i released: position of the span moment, 0.45 L",
+        "m",
+        x,
+        0.45 * l,
+        1e-12,
+    );
 }
 
 #[test]
@@ -61,6 +106,9 @@ fn portal_shares_and_carry_over_follow_their_definitions() {
 #[test]
 fn single_bay_portal_takes_the_methods_values() {
     // One bay L = 8 m, h = 4 m, fixed bases; gravity w on the beam, H at the left top.
+    verify::source(
+        "common practice, no source (portal method, inflection points at 0.1 L, carry-over 1/2); closed form statics",
+    );
     let (l, h, w, big_h) = (8.0, 4.0, 10e3, 20e3);
     let (mut f, [_, top_l, _, _, col_l, beam, col_r]) = portal(l, h, 1e-4, 2e-4, true);
     let g = f.case("G", ActionCategory::Dead);
@@ -83,30 +131,40 @@ fn single_bay_portal_takes_the_methods_values() {
             .map(|r| r.2 + r.3)
             .expect("row")
     };
-    assert_relative_eq!(
+    verify::close(
+        "gravity: beam end moment i, −0.045 wL²",
+        "N·m",
         value(beam, Location::EndI),
         -0.045 * wl2,
-        max_relative = 1e-12
+        1e-12,
     );
-    assert_relative_eq!(
+    verify::close(
+        "gravity: beam end moment j, −0.045 wL²",
+        "N·m",
         value(beam, Location::EndJ),
         -0.045 * wl2,
-        max_relative = 1e-12
+        1e-12,
     );
-    assert_relative_eq!(
+    verify::close(
+        "gravity: beam span moment, 0.08 wL²",
+        "N·m",
         value(beam, Location::Span),
         0.08 * wl2,
-        max_relative = 1e-12
+        1e-12,
     );
-    assert_relative_eq!(
+    verify::close(
+        "gravity: left column top moment, −0.045 wL²",
+        "N·m",
         value(col_l, Location::EndJ),
         -0.045 * wl2,
-        max_relative = 1e-12
+        1e-12,
     );
-    assert_relative_eq!(
+    verify::close(
+        "gravity: left column base moment, 0.0225 wL²",
+        "N·m",
         value(col_l, Location::EndI),
         0.0225 * wl2,
-        max_relative = 1e-12
+        1e-12,
     );
 
     // Lateral, portal method: two exterior columns, V = H/2 each; inflection at
@@ -120,26 +178,34 @@ fn single_bay_portal_takes_the_methods_values() {
             .expect("row")
     };
     for c in [col_l, col_r] {
-        assert_relative_eq!(
+        verify::close(
+            "lateral: column base moment, −Hh/4 (each column)",
+            "N·m",
             value(c, Location::EndI),
             -big_h * h / 4.0,
-            max_relative = 1e-12
+            1e-12,
         );
-        assert_relative_eq!(
+        verify::close(
+            "lateral: column top moment, +Hh/4 (each column)",
+            "N·m",
             value(c, Location::EndJ),
             big_h * h / 4.0,
-            max_relative = 1e-12
+            1e-12,
         );
     }
-    assert_relative_eq!(
+    verify::close(
+        "lateral: beam end moment i, Hh/4",
+        "N·m",
         value(beam, Location::EndI).abs(),
         big_h * h / 4.0,
-        max_relative = 1e-12
+        1e-12,
     );
-    assert_relative_eq!(
+    verify::close(
+        "lateral: beam end moment j against end i",
+        "N·m",
         value(beam, Location::EndJ),
         -value(beam, Location::EndI),
-        max_relative = 1e-12
+        1e-12,
     );
     assert!(value(beam, Location::Span).abs() < 1e-9 * big_h * h);
 
@@ -189,6 +255,7 @@ fn regular(bays: usize, n_stories: usize) -> (Frame, usize, Vec<Vec<usize>>) {
 
 #[test]
 fn portal_column_shears_lie_in_a_band_around_the_stiffness_solution() {
+    verify::source("closed form: statics, the column shears of a story sum to the story shear");
     let (f, h, columns) = regular(3, 4);
     let model: &Model = &f.model;
     let st = stories(model).expect("regular stories");
@@ -223,8 +290,26 @@ fn portal_column_shears_lie_in_a_band_around_the_stiffness_solution() {
             );
         }
         // Statics (closed form): both share the whole story shear.
-        assert_relative_eq!(sum_portal, v_story, max_relative = 1e-12);
-        assert_relative_eq!(sum_stiff, v_story, max_relative = 1e-6);
+        verify::close(
+            &format!(
+                "story {}: portal-method column shears sum to the story shear",
+                s + 1
+            ),
+            "N",
+            sum_portal,
+            v_story,
+            1e-12,
+        );
+        verify::close(
+            &format!(
+                "story {}: stiffness-solution column shears sum to the story shear",
+                s + 1
+            ),
+            "N",
+            sum_stiff,
+            v_story,
+            1e-6,
+        );
     }
 }
 
@@ -470,6 +555,9 @@ fn leaning_columns_and_braced_stories_take_no_portal_shear() {
     // braced story's shear goes to its brace first (axial stiffness EA/L·cos²θ of the
     // HSS brace, ≈ 29000·4.30/33.1 ft·0.82 ≈ 260 kip/in, against 12EI/h³ ≈ 4.6 kip/in of
     // a W12x53 over 14 ft: closed form, the brace is some fifty times stiffer).
+    verify::source(
+        "common practice, no source (portal method: shares 1:2:1, leaning and braced columns take none); statics",
+    );
     let model = leaning_braced(|t| t);
     let r = leaning_braced_report(&model, "WL");
     let shear = |id: &str| {
@@ -486,12 +574,20 @@ fn leaning_columns_and_braced_stories_take_no_portal_shear() {
     // Story 2 (unbraced): the 16 kip of WL above level 1 less the 8 kip at level 1, i.e.
     // 8 kip = 35.586 kN, shared by the three moment columns in the portal ratio 1:2:1.
     let v = 8.0 * 4448.2216152605;
-    assert_relative_eq!(
+    verify::close(
+        "story 2: shears of the three moment columns sum to 8 kip",
+        "N",
         shear("C1.2") + shear("C2.2") + shear("C3.2"),
         v,
-        max_relative = 1e-9
+        1e-9,
     );
-    assert_relative_eq!(shear("C2.2"), v / 2.0, max_relative = 1e-9);
+    verify::close(
+        "story 2: interior column takes half, 4 kip",
+        "N",
+        shear("C2.2"),
+        v / 2.0,
+        1e-9,
+    );
 }
 
 #[test]

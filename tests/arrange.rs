@@ -4,9 +4,8 @@
 
 mod common;
 
-use approx::assert_relative_eq;
-use common::Frame;
 use common::random_frame::{RandomFrame, factored};
+use common::{Frame, verify};
 use plumbline::arrange::{Arranged, MAX_ARRANGEMENTS, arrange};
 use plumbline::combos::{Basis, Expansion, FactoredCase};
 use plumbline::model::{ActionCategory, LoadDirection, Model, Restraint};
@@ -73,6 +72,9 @@ fn three_spans(l: f64, w: f64) -> (Frame, usize) {
 
 #[test]
 fn three_span_envelope_matches_the_influence_lines() {
+    verify::source(
+        "closed form: three-moment equation (Clapeyron), equal spans; ACI 318-19 §6.4.3 arrangements",
+    );
     let (l, w) = (6.0, 10e3);
     let (f, case) = three_spans(l, w);
     let arranged = arrange(&f.model);
@@ -101,25 +103,49 @@ fn three_span_envelope_matches_the_influence_lines() {
     // negative M_B loads spans 1 and 2:  4M_B + M_C = −wL²/2, M_B + 4M_C = −wL²/4
     //   → M_B = (−2 + 1/4)/15 · wL² = −7/60 wL² = −0.1167 wL².
     let (k_min_b, min_b) = argmin(&res, |r| r[0][1]);
-    assert_relative_eq!(min_b, -7.0 / 60.0 * wl2, max_relative = 1e-9);
+    verify::close(
+        "three spans, least moment at B (adjacent spans loaded), −7/60 wL²",
+        "N·m",
+        min_b,
+        -7.0 / 60.0 * wl2,
+        1e-9,
+    );
     assert_eq!(exp.cases[k_min_b].id, "U/L:adj-N2");
 
     // The influence line of the moment near mid-span 1 is positive over spans 1 and 3 and
     // negative over span 2: load spans 1 and 3 → M_B = M_C = −wL²/20, reaction at A
     // R_A = wL/2 − wL/20 = 0.45 wL, M_max = R_A²/(2w) = 0.10125 wL² at x = 0.45 L.
     let (k_pos_1, pos_1) = argmax(&res, |r| r[0][2]);
-    assert_relative_eq!(pos_1, 0.10125 * wl2, max_relative = 1e-9);
+    verify::close(
+        "three spans, greatest span moment, span 1 (alternate spans), 0.10125 wL²",
+        "N·m",
+        pos_1,
+        0.10125 * wl2,
+        1e-9,
+    );
     assert_eq!(exp.cases[k_pos_1].id, "U/L:alt-a");
 
     // Mid-span 2: influence line positive over span 2 only → M_B = M_C = −wL²/20 and
     // M_mid = wL²/8 − wL²/20 = 0.075 wL².
     let (k_pos_2, pos_2) = argmax(&res, |r| r[1][2]);
-    assert_relative_eq!(pos_2, 0.075 * wl2, max_relative = 1e-9);
+    verify::close(
+        "three spans, greatest span moment, span 2, 0.075 wL²",
+        "N·m",
+        pos_2,
+        0.075 * wl2,
+        1e-9,
+    );
     assert_eq!(exp.cases[k_pos_2].id, "U/L:alt-b");
 
     // Full loading (for comparison, and the pattern's own check): 5·M_B = −wL²/2 →
     // M_B = −0.100 wL², smaller in magnitude than the arranged −0.1167 wL².
-    assert_relative_eq!(res[0][0][1], -0.1 * wl2, max_relative = 1e-9);
+    verify::close(
+        "three spans, moment at B under full load, −0.1 wL²",
+        "N·m",
+        res[0][0][1],
+        -0.1 * wl2,
+        1e-9,
+    );
 }
 
 /// Index and value of the largest `f` over the cases.
@@ -138,12 +164,14 @@ fn argmin(res: &[Vec<[f64; 4]>], f: impl Fn(&Vec<[f64; 4]>) -> f64) -> (usize, f
 
 #[test]
 fn arrangements_on_random_frames_superpose_count_and_alternate() {
+    let mut frames = 0;
     for seed in 0..60 {
         let mut rf = RandomFrame::new(seed);
         let live = rf.model.case_index("L").expect("random frames have L");
         if rf.model.load_cases[live].member.is_empty() {
             continue;
         }
+        frames += 1;
         rf.model.load_cases[live].arrange = true;
         // A line of leaning columns adds a span (its links) at every level.
         let (bays, stories) = (rf.bays + usize::from(!rf.leaning.is_empty()), rf.stories);
@@ -177,6 +205,7 @@ fn arrangements_on_random_frames_superpose_count_and_alternate() {
             .fold(0.0_f64, |a, v| a.max(v.abs()))
             .max(1.0);
         for (a, b) in res[0].iter().flatten().zip(res[1].iter().flatten()) {
+            verify::observe((a - b).abs() / scale);
             assert!((a - b).abs() <= 1e-9 * scale, "seed {seed}: {a} vs {b}");
         }
 
@@ -218,6 +247,17 @@ fn arrangements_on_random_frames_superpose_count_and_alternate() {
             assert_eq!(rf.model.nodes[shared].id, node);
         }
     }
+    verify::property(
+        "arrange/arrangements_on_random_frames_superpose_count_and_alternate",
+        "the full arrangement's span pieces superpose to the whole live load case; the count \
+         of code arrangements is bounded; checkerboards never load neighbouring or stacked \
+         spans (ACI 318-19 §6.4.3.2(a), EN 1992-1-1 §5.1.3(1)P(a)); adjacent-span patterns \
+         load two spans of one floor that share their joint",
+        frames,
+        "largest moment difference, full arrangement against the whole case / largest moment",
+        verify::observed(),
+        "1e-9",
+    );
 }
 
 /// Cases merged away as identical.

@@ -6,7 +6,7 @@ mod common;
 
 use std::f64::consts::PI;
 
-use common::{Frame, portal};
+use common::{Frame, portal, verify};
 use plumbline::model::{ActionCategory, LoadDirection, Measure, MemberLoadKind, Restraint};
 use plumbline::solve::linear::MeshLoads;
 use plumbline::solve::mesh::member_stiffness;
@@ -144,7 +144,15 @@ fn a_leaning_post_buckles_as_a_member_mode_far_below_the_frame_sway() {
         .as_ref()
         .expect("a member mode below the sway mode");
     assert_eq!(member.member, post);
-    assert!((member.alpha_cr - euler).abs() <= 1e-3 * euler);
+    verify::check(
+        "buckling_modes/leaning-post/member-mode",
+        "α_cr of a pin-ended leaning post's member mode, π²EI/(L²·N)",
+        "-",
+        "Timoshenko & Gere, Theory of Elastic Stability, 2nd ed., §2.1 (from memory)",
+        euler,
+        member.alpha_cr,
+        1e-3,
+    );
     assert!(member.alpha_cr <= euler * (1.0 + 1e-3));
     // The raw lowest mode, as before, is the post's.
     let (so, loads) = setup(&f, c, 4);
@@ -155,6 +163,15 @@ fn a_leaning_post_buckles_as_a_member_mode_far_below_the_frame_sway() {
     eprintln!("sway closed form {exact:.4}, Euler {euler:.4}");
     let alpha = sway(&b);
     assert!(alpha > 20.0 * member.alpha_cr);
+    verify::check(
+        "buckling_modes/leaning-post/sway-mode",
+        "α_cr of the sway mode of a portal with a leaning post",
+        "-",
+        "closed form from Timoshenko & Gere §1.11 (from memory): 2·H(α·P_col) = α·P_post·Δ/h",
+        exact,
+        alpha,
+        2e-3,
+    );
     assert!(alpha <= exact * (1.0 + 1e-3) && alpha >= exact * (1.0 - 2e-3));
     assert_eq!(b.search, SwaySearch::Complete);
     // The post's higher modes (about 4, 9 and 16 times its Euler load, Timoshenko & Gere
@@ -213,7 +230,15 @@ fn two_identical_posts_give_double_member_modes_all_found_below_the_sway() {
         assert!(owners.contains(&ModeKind::Member { member: post }));
         assert!(owners.contains(&ModeKind::Member { member: other }));
     }
-    assert!((members[0].alpha_cr - euler).abs() <= 1e-3 * euler);
+    verify::check(
+        "buckling_modes/two-posts/member-mode",
+        "α_cr of the lowest (double) member mode of two identical leaning posts",
+        "-",
+        "Timoshenko & Gere, Theory of Elastic Stability, 2nd ed., §2.1 (from memory)",
+        euler,
+        members[0].alpha_cr,
+        1e-3,
+    );
     // The sway mode carries both posts' P-Δ: lower than with one post, still far above.
     assert!(sway(&b) > 20.0 * euler);
 }
@@ -393,6 +418,15 @@ fn a_column_under_its_own_weight_is_reported_below_its_buckling_load() {
         }
     }
     // 16 elements: within 0.2 % below (an error falling like h², 10 % at two elements).
+    verify::check(
+        "buckling_modes/own-weight/16-elements",
+        "α_cr of a fixed–free column under its own weight, (qL)cr = 7.837·EI/L², 16 elements",
+        "-",
+        "Timoshenko & Gere, Theory of Elastic Stability, 2nd ed., §2.10 (from memory)",
+        exact,
+        last,
+        2e-3,
+    );
     assert!(last >= exact * (1.0 - 2e-3), "{last}");
 }
 
@@ -506,10 +540,26 @@ fn a_three_bay_frame_with_a_leaning_column_and_a_brace() {
     assert_eq!(b.search, SwaySearch::Complete);
     let member = b.member.as_ref().expect("a member mode");
     assert_eq!(member.member, brace);
-    assert!((member.alpha_cr - euler_brace).abs() <= 1e-3 * euler_brace);
+    verify::check(
+        "buckling_modes/three-bays/brace",
+        "α_cr of the pin-ended brace's member mode in a three-bay frame, π²EI/(L²·N)",
+        "-",
+        "Timoshenko & Gere, Theory of Elastic Stability, 2nd ed., §2.1 (from memory)",
+        euler_brace,
+        member.alpha_cr,
+        1e-3,
+    );
     // The leaning column's own mode is the second.
     assert_eq!(b.modes[1].kind, ModeKind::Member { member: lean });
-    assert!((b.modes[1].alpha_cr - euler_lean).abs() <= 1e-3 * euler_lean);
+    verify::check(
+        "buckling_modes/three-bays/leaning-column",
+        "α_cr of the leaning column's member mode in a three-bay frame, π²EI/(L²·N)",
+        "-",
+        "Timoshenko & Gere, Theory of Elastic Stability, 2nd ed., §2.1 (from memory)",
+        euler_lean,
+        b.modes[1].alpha_cr,
+        1e-3,
+    );
     let fine = sway(&buckling(&f, c, 16));
     let alpha = sway(&b);
     assert!(
@@ -666,6 +716,7 @@ fn random_frames_give_complete_consistent_buckling() {
                 continue;
             };
             let tol = 1e-6 * raw.alpha_cr;
+            verify::observe((first.alpha_mesh - raw.alpha_cr).abs() / raw.alpha_cr);
             assert!(
                 (first.alpha_mesh - raw.alpha_cr).abs() <= tol,
                 "seed {seed}"
@@ -679,4 +730,14 @@ fn random_frames_give_complete_consistent_buckling() {
             }
         }
     }
+    verify::property(
+        "buckling_modes/random_frames_give_complete_consistent_buckling",
+        "the search for the lowest sway mode is complete; the lowest mode is the critical \
+         factor's; a sway mode is reported at most at its mesh factor; a member mode lies \
+         below the sway mode (common practice, no source)",
+        24,
+        "largest |lowest mode − critical factor| / critical factor",
+        verify::observed(),
+        "1e-6",
+    );
 }

@@ -9,7 +9,7 @@ use common::{only_case, strength};
 use std::f64::consts::PI;
 
 use approx::assert_relative_eq;
-use common::{Frame, portal};
+use common::{Frame, portal, verify};
 use plumbline::check::{Classification, check};
 use plumbline::combos::Basis;
 use plumbline::model::{
@@ -76,6 +76,9 @@ fn q_b2_and_alpha_cr_of_a_one_story_portal_by_hand() {
     //   Pe,story ≈ 25.5 MN, B2 ≈ 1.133.
     // Pinned, P = 0.3 MN: ΣP = 0.6 MN, H·h/Δ ≈ 7.5e6 N → Q ≈ 0.080, α_cr ≈ 12.5,
     //   Pe,story ≈ 6.37 MN, B2 ≈ 1.104.
+    verify::source(
+        "AISC 360-16 App. 8 eqs. A-8-6, A-8-7; ACI 318-19 eq. (6.6.4.4.1); EN 1993-1-1:2005 eq. (5.2) (from memory); closed form of the portal's H/Δ by slope-deflection, by hand",
+    );
     let (l, h, ic) = (6.0, 4.0, 1e-4);
     let hl = 20e3;
     for (fixed, p, q_approx) in [(true, 1.5e6, 0.100), (false, 0.3e6, 0.080)] {
@@ -97,21 +100,93 @@ fn q_b2_and_alpha_cr_of_a_one_story_portal_by_hand() {
         let b2 = 1.0 / (1.0 - sum_p / pe);
         let alpha_cr = (hl / sum_p) * (h / delta);
 
-        assert_relative_eq!(s.sum_p, sum_p, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.shear, hl, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.drift, delta, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.stiffness, k_story, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.r_m, 0.85, max_relative = 1e-12);
-        assert_relative_eq!(s.p_e_story, pe, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.q_index, q, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.q_index, q_approx, max_relative = 2e-3);
-        assert_relative_eq!(s.b2.unwrap(), b2, max_relative = AXIAL_RIGID);
-        assert_relative_eq!(s.alpha_cr_story, alpha_cr, max_relative = AXIAL_RIGID);
+        verify::close(
+            &format!("ΣP, fixed bases = {fixed}"),
+            "N",
+            s.sum_p,
+            sum_p,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("story shear H, fixed bases = {fixed}"),
+            "N",
+            s.shear,
+            hl,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("story drift Δ, fixed bases = {fixed}"),
+            "m",
+            s.drift,
+            delta,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("story stiffness H/Δ, fixed bases = {fixed}"),
+            "N/m",
+            s.stiffness,
+            k_story,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("RM = 0.85, fixed bases = {fixed}"),
+            "-",
+            s.r_m,
+            0.85,
+            1e-12,
+        );
+        verify::close(
+            &format!("Pe,story = RM·(H/Δ)·L, fixed bases = {fixed}"),
+            "N",
+            s.p_e_story,
+            pe,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("stability index Q = ΣP·Δ/(V·h), fixed bases = {fixed}"),
+            "-",
+            s.q_index,
+            q,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("Q by hand, fixed bases = {fixed}"),
+            "-",
+            s.q_index,
+            q_approx,
+            2e-3,
+        );
+        verify::close(
+            &format!("B2 = 1/(1 − ΣP/Pe,story), fixed bases = {fixed}"),
+            "-",
+            s.b2.unwrap(),
+            b2,
+            AXIAL_RIGID,
+        );
+        verify::close(
+            &format!("story α_cr = (H/Δ)·h/ΣP, fixed bases = {fixed}"),
+            "-",
+            s.alpha_cr_story,
+            alpha_cr,
+            AXIAL_RIGID,
+        );
         // δs = 1/(1 − Q) (ACI 318-19 6.6.4.6.2(a)), below the 1.5 limit.
-        assert_relative_eq!(s.delta_s_q.unwrap(), 1.0 / (1.0 - q), max_relative = 1e-6);
+        verify::close(
+            &format!("δs = 1/(1 − Q), fixed bases = {fixed}"),
+            "-",
+            s.delta_s_q.unwrap(),
+            1.0 / (1.0 - q),
+            1e-6,
+        );
         // With Ib = 1000·Ic the rigid-beam values hold within 0.1 % (closed form limit).
         let rigid = if fixed { 24.0 } else { 6.0 } * E_STEEL * ic / h.powi(3);
-        assert_relative_eq!(s.stiffness, rigid, max_relative = 1e-3);
+        verify::close(
+            &format!("H/Δ against the rigid-beam value, fixed bases = {fixed}"),
+            "N/m",
+            s.stiffness,
+            rigid,
+            1e-3,
+        );
         // The case's own sway gave the stiffness; B2 ≥ 1.1 → sway (fixed: 1.133;
         // pinned: 1.104, both above the 1.10 of AISC 360-16 App. 7.2.3(b), from memory).
         assert_eq!(s.classification, Classification::Sway, "{}", s.criterion);
@@ -271,6 +346,9 @@ fn b1_of_the_simply_supported_benchmark_member_by_hand() {
     //   450 kips; first-order Mmid = wL²/8 = 0.2/12·336²/8 = 235.2 kip-in;
     //   B1·Mmid = 268.0, 311.3, 371.4 kip-in against the exact (wEI/P)(sec u − 1) =
     //   268.9, 313.5, 375.4 (notes §5, [X]): −0.35 %, −0.71 %, −1.07 %.
+    verify::source(
+        "AISC 360-16 Commentary Ch. C benchmark Case 1 [C]; App. 8 eqs. A-8-3, A-8-5 (from memory), by hand",
+    );
     let (e, a, i, l) = w14x48();
     let w = 0.200 * KIP / (12.0 * INCH);
     let ei = e * i;
@@ -294,29 +372,85 @@ fn b1_of_the_simply_supported_benchmark_member_by_hand() {
         let mc = &case.members[m];
 
         let pe1 = PI * PI * ei / (l * l);
-        assert_relative_eq!(pe1 / KIP, 1227.0, max_relative = 1e-3);
+        verify::close(
+            &format!("Pe1 = π²EI/L² = 1227.0 kips, P = {p_kips} kips"),
+            "kips",
+            pe1 / KIP,
+            1227.0,
+            1e-3,
+        );
         let b1 = 1.0 / (1.0 - p / pe1);
-        assert_relative_eq!(b1, b1_hand, max_relative = 1e-4);
-        assert_relative_eq!(mc.compression, p, max_relative = 1e-9);
+        verify::close(
+            &format!("B1 by hand, P = {p_kips} kips"),
+            "-",
+            b1,
+            b1_hand,
+            1e-4,
+        );
+        verify::close(
+            &format!("compression P, P = {p_kips} kips"),
+            "N",
+            mc.compression,
+            p,
+            1e-9,
+        );
         assert_relative_eq!(mc.c_m.unwrap(), 1.0);
-        assert_relative_eq!(mc.p_critical.unwrap(), pe1, max_relative = 1e-9);
-        assert_relative_eq!(mc.non_sway_amplifier.unwrap(), b1, max_relative = 1e-9);
+        verify::close(
+            &format!("Pe1, P = {p_kips} kips"),
+            "N",
+            mc.p_critical.unwrap(),
+            pe1,
+            1e-9,
+        );
+        verify::close(
+            &format!("B1 = Cm/(1 − αPr/Pe1), P = {p_kips} kips"),
+            "-",
+            mc.non_sway_amplifier.unwrap(),
+            b1,
+            1e-9,
+        );
         // First-order span moment wL²/8 at midspan, all of it no-sway (the top is held).
         let m1 = w * l * l / 8.0;
-        assert_relative_eq!(m1 / (KIP * INCH), 235.2, max_relative = 1e-3);
-        assert_relative_eq!(mc.span.x, 0.5 * l, max_relative = 1e-6);
-        assert_relative_eq!(mc.span.no_sway.abs(), m1, max_relative = 1e-9);
+        verify::close(
+            &format!("Mnt = wL²/8 = 235.2 kip-in, P = {p_kips} kips"),
+            "kip-in",
+            m1 / (KIP * INCH),
+            235.2,
+            1e-3,
+        );
+        verify::close(
+            &format!("position of Mr, L/2, P = {p_kips} kips"),
+            "m",
+            mc.span.x,
+            0.5 * l,
+            1e-6,
+        );
+        verify::close(
+            &format!("Mnt at mid-span, P = {p_kips} kips"),
+            "N·m",
+            mc.span.no_sway.abs(),
+            m1,
+            1e-9,
+        );
         assert!(mc.span.sway.abs() <= 1e-9 * m1);
-        assert_relative_eq!(
+        verify::close(
+            &format!("Mr = B1·Mnt, P = {p_kips} kips"),
+            "N·m",
             mc.span.design,
             b1 * mc.span.first_order,
-            max_relative = 1e-9
+            1e-9,
         );
         // Against the exact flexure-only closed form (notes §5): the amplifier with
         // Cm = 1.0 is approximate and slightly low; within 2 %.
         let u = 0.5 * l * (p / ei).sqrt();
         let exact = w * ei / p * (1.0 / u.cos() - 1.0);
-        assert_relative_eq!(exact / (KIP * INCH), exact_kip_in, max_relative = 1e-3);
+        verify::close(
+            &format!("Case 1 exact Mmid against the table, P = {p_kips} kips"),
+            "kip-in",
+            exact / (KIP * INCH),
+            exact_kip_in,
+            1e-3,
+        );
         let diff = mc.span.design.abs() / exact - 1.0;
         eprintln!("Case 1, P = {p_kips} kips: B1·M1 / exact − 1 = {diff:+.4}");
         assert!(diff.abs() < 0.02, "B1·M1 vs exact: {diff}");
@@ -338,6 +472,9 @@ fn b2_of_the_cantilever_benchmark_member_by_hand() {
     //   With RM = 1.0 it would be 459.1, 562.4, 724.5: −2.1 %, −6.1 %, −14.7 %
     //   (the rigid-chord P-Δ values of notes §5): RM = 0.85 is what covers the P-δ
     //   of the column and makes B2 conservative here.
+    verify::source(
+        "AISC 360-16 Commentary Ch. C benchmark Case 2 [C]; App. 8 eqs. A-8-6, A-8-7 (from memory), by hand",
+    );
     let (e, a, i, l) = w14x48();
     let ei = e * i;
     let hl = 1.0 * KIP;
@@ -361,22 +498,82 @@ fn b2_of_the_cantilever_benchmark_member_by_hand() {
 
         let delta = hl * l.powi(3) / (3.0 * ei);
         let pe_story = 0.85 * hl * l / delta;
-        assert_relative_eq!(hl * l / delta / KIP, 373.0, max_relative = 1e-3);
+        verify::close(
+            &format!("H·L/Δ = 3EI/L² = 373.0 kips, P = {p_kips} kips"),
+            "kips",
+            hl * l / delta / KIP,
+            373.0,
+            1e-3,
+        );
         let b2 = 1.0 / (1.0 - p / pe_story);
-        assert_relative_eq!(b2, b2_hand, max_relative = 2e-4);
-        assert_relative_eq!(s.drift, delta, max_relative = 1e-9);
-        assert_relative_eq!(s.r_m, 0.85, max_relative = 1e-12);
-        assert_relative_eq!(s.p_e_story, pe_story, max_relative = 1e-9);
-        assert_relative_eq!(s.b2.unwrap(), b2, max_relative = 1e-9);
-        assert_relative_eq!(mc.sway_amplifier.unwrap(), b2, max_relative = 1e-9);
+        verify::close(
+            &format!("B2 by hand, P = {p_kips} kips"),
+            "-",
+            b2,
+            b2_hand,
+            2e-4,
+        );
+        verify::close(
+            &format!("drift Δ = HL³/(3EI), P = {p_kips} kips"),
+            "m",
+            s.drift,
+            delta,
+            1e-9,
+        );
+        verify::close(
+            &format!("RM = 0.85, P = {p_kips} kips"),
+            "-",
+            s.r_m,
+            0.85,
+            1e-12,
+        );
+        verify::close(
+            &format!("Pe,story, P = {p_kips} kips"),
+            "N",
+            s.p_e_story,
+            pe_story,
+            1e-9,
+        );
+        verify::close(
+            &format!("B2 = 1/(1 − ΣP/Pe,story), P = {p_kips} kips"),
+            "-",
+            s.b2.unwrap(),
+            b2,
+            1e-9,
+        );
+        verify::close(
+            &format!("member sway amplifier = B2, P = {p_kips} kips"),
+            "-",
+            mc.sway_amplifier.unwrap(),
+            b2,
+            1e-9,
+        );
         // Base moment: no-sway part 0, sway part H·L, design B2·H·L.
         let base = &mc.ends[0];
         assert!(base.no_sway.abs() <= 1e-9 * hl * l);
-        assert_relative_eq!(base.sway.abs(), hl * l, max_relative = 1e-9);
-        assert_relative_eq!(base.design.abs(), b2 * hl * l, max_relative = 1e-9);
+        verify::close(
+            &format!("base moment Mlt = H·L, P = {p_kips} kips"),
+            "N·m",
+            base.sway.abs(),
+            hl * l,
+            1e-9,
+        );
+        verify::close(
+            &format!("base moment Mr = B2·Mlt, P = {p_kips} kips"),
+            "N·m",
+            base.design.abs(),
+            b2 * hl * l,
+            1e-9,
+        );
         let k = (p / ei).sqrt();
         let exact = hl * (k * l).tan() / k;
-        assert_relative_eq!(exact / (KIP * INCH), exact_kip_in, max_relative = 1e-3);
+        verify::close(
+            &format!("Case 2 exact Mbase against the table, P = {p_kips} kips"),
+            "kip-in",
+            exact / (KIP * INCH),
+            exact_kip_in,
+            1e-3,
+        );
         let diff = base.design.abs() / exact - 1.0;
         let diff_rm1 = hl * l / (1.0 - p / (pe_story / 0.85)) / exact - 1.0;
         eprintln!(
@@ -397,6 +594,9 @@ fn aci_cracked_section_stiffness_through_the_story_stiffness() {
     // H/Δ = (24·E·0.70·Ic/h³)·(6k' + 1)/(6k' + 4) (closed form of `portal_stiffness`)
     // = 24·200e9·1.4e-4/64 · 2.5/5.5 = 4.773e6 N/m, against 1.5e7·4/7 = 8.571e6 N/m gross.
     // Q = ΣPu/(H/Δ·h) (ACI 318-19 6.6.4.4.1).
+    verify::source(
+        "ACI 318-19 Table 6.6.3.1.1(a) (notes §7.1 [C]): 0.70·Ig columns, 0.35·Ig beams; closed form of the portal's H/Δ",
+    );
     let (l, h, ic) = (8.0, 4.0, 2e-4);
     let p = 0.4e6;
     for (preset, fc, fb) in [
@@ -414,21 +614,47 @@ fn aci_cracked_section_stiffness_through_the_story_stiffness() {
         let case = only_case(&f.model, &strength("D+W", &[(d, 1.0), (w, 1.0)]));
         let s = &case.stories[0];
         let k_story = portal_stiffness(E_STEEL, fc * ic, fb * ic, h, l, true);
-        assert_relative_eq!(s.stiffness, k_story, max_relative = AXIAL_RIGID);
+        verify::close(
+            &format!("story stiffness H/Δ, column EI factor {fc}"),
+            "N/m",
+            s.stiffness,
+            k_story,
+            AXIAL_RIGID,
+        );
         let q = 2.0 * p / (k_story * h);
-        assert_relative_eq!(s.q_index, q, max_relative = AXIAL_RIGID);
+        verify::close(
+            &format!("stability index Q, column EI factor {fc}"),
+            "-",
+            s.q_index,
+            q,
+            AXIAL_RIGID,
+        );
         if preset == StiffnessPreset::AciCracked {
-            assert_relative_eq!(k_story, 4.7727e6, max_relative = 1e-4);
+            verify::close(
+                &format!("H/Δ by hand, 4.7727e6 N/m, column EI factor {fc}"),
+                "N/m",
+                k_story,
+                4.7727e6,
+                1e-4,
+            );
         } else {
-            assert_relative_eq!(k_story, 1.5e7 * 4.0 / 7.0, max_relative = 1e-12);
+            verify::close(
+                &format!("H/Δ = 1.5e7·4/7, column EI factor {fc}"),
+                "N/m",
+                k_story,
+                1.5e7 * 4.0 / 7.0,
+                1e-12,
+            );
         }
         // Pc = π²(EI)eff/(k·lu)², (EI)eff = 0.4·Ec·Ig/(1 + βdns), k = 1.0, βdns = 0.6
         // (ACI 318-19 6.6.4.4.2, 6.6.4.4.4(a) [M]): the gross Ig whatever the preset.
         let pc = PI * PI * 0.4 * E_STEEL * ic / 1.6 / (h * h);
-        assert_relative_eq!(
+        verify::close(
+            &format!("Pc = π²(EI)eff/(kl)², column EI factor {fc}"),
+            "N",
             case.members[c1].p_critical.unwrap(),
             pc,
-            max_relative = 1e-9
+            1e-9,
         );
     }
 }
@@ -438,6 +664,9 @@ fn direct_method_reports_an_overloaded_frame_unstable() {
     // Closed form: the pinned-base portal with h = L, Ib = Ic buckles in sway at
     // Pcr = 1.821·EIc/h² per column (alignment chart, notes §10.2 [X]). Loaded to
     // 1.2·Pcr it has α_cr ≈ 1/1.2 < 1: the case is unstable, never numbers.
+    verify::source(
+        "closed form: alignment chart 1.821·EIc/h² (notes §10.2 [X]), loaded to 1.2·Pcr",
+    );
     let (h, ic) = (4.0, 1e-4);
     let (mut f, [_, n1, n2, _, _, _, _]) = portal(h, h, ic, ic, false);
     f.model.analysis.method = SecondOrderMethod::Direct;
@@ -453,7 +682,7 @@ fn direct_method_reports_an_overloaded_frame_unstable() {
     assert!(!case.direct.converged);
     let a = case.alpha_cr.unwrap();
     assert!(a < 1.0, "alpha_cr = {a}");
-    assert_relative_eq!(a, 1.0 / 1.2, max_relative = 0.01);
+    verify::close("α_cr = 1/1.2", "-", a, 1.0 / 1.2, 0.01);
     assert_eq!(case.stories[0].classification, Classification::Unstable);
     assert!(case.members.iter().all(|m| !m.stable));
 }
@@ -497,6 +726,9 @@ fn notional_loads_of_a_gravity_only_case() {
     // members the coefficient becomes 0.003 (C2.3(c), 0.001·α·Yi added, notes §9 [C]).
     // Y1 = 2·200 kN = 400 kN, Y2 = 2·100 kN = 200 kN → N = 0.8, 0.4 kN (0.002) and
     // 1.2, 0.6 kN (0.003). Story shears of the sway solution: N1 + N2 and N2.
+    verify::source(
+        "AISC 360-16 eq. C2-1 and §C2.3(c) (notes §9 [C]): Ni = 0.002·α·Yi, 0.003 with τb = 1.0",
+    );
     let (p1, p2) = (200e3, 100e3);
     let y = [2.0 * p1, 2.0 * p2];
     for (preset, coefficient) in [
@@ -514,13 +746,25 @@ fn notional_loads_of_a_gravity_only_case() {
         for (case, sign) in report.cases.iter().zip([1.0, -1.0]) {
             assert_eq!(case.notional.len(), 2);
             for (n, yi) in case.notional.iter().zip(y) {
-                assert_relative_eq!(*n, sign * coefficient * yi, max_relative = 1e-9);
+                verify::close(
+                    &format!("notional load Ni = {coefficient}·Yi"),
+                    "N",
+                    *n,
+                    sign * coefficient * yi,
+                    1e-9,
+                );
             }
             let s = &case.stories;
             let n = &case.notional;
-            assert_relative_eq!(s[0].shear, n[0] + n[1], max_relative = 1e-9);
-            assert_relative_eq!(s[1].shear, n[1], max_relative = 1e-9);
-            assert_relative_eq!(s[0].sum_p, y[0] + y[1], max_relative = 1e-6);
+            verify::close(
+                "story 1 shear = N1 + N2",
+                "N",
+                s[0].shear,
+                n[0] + n[1],
+                1e-9,
+            );
+            verify::close("story 2 shear = N2", "N", s[1].shear, n[1], 1e-9);
+            verify::close("story 1 ΣP = Y1 + Y2", "N", s[0].sum_p, y[0] + y[1], 1e-6);
         }
     }
 }
@@ -534,6 +778,7 @@ fn notional_loads_on_an_allowable_stress_basis() {
     // shears are reported at) the lateral force is therefore 0.002·Yi, not 0.002·α·Yi.
     // Y1 = 400 kN, Y2 = 200 kN → 0.8 and 0.4 kN; the story-1 shear of the sway solution
     // is 1.2 kN, its drift that of 1.2 kN.
+    verify::source("AISC 360-16 eq. C2-1 and §C2.1 (notes §6, §9): α = 1.6 on an ASD basis");
     let (p1, p2) = (200e3, 100e3);
     let (mut f, g) = two_story(p1, p2);
     f.model.analysis.notional = NotionalLoads::Auto;
@@ -541,6 +786,18 @@ fn notional_loads_on_an_allowable_stress_basis() {
     fc.basis = Basis::AllowableStress;
     let report = check(&f.model, &[fc]).unwrap();
     let case = &report.cases[0];
-    assert_relative_eq!(case.notional[0], 0.002 * 2.0 * p1, max_relative = 1e-9);
-    assert_relative_eq!(case.notional[1], 0.002 * 2.0 * p2, max_relative = 1e-9);
+    verify::close(
+        "notional load at level 1, 0.002·α·Y1 (ASD level)",
+        "N",
+        case.notional[0],
+        0.002 * 2.0 * p1,
+        1e-9,
+    );
+    verify::close(
+        "notional load at level 2, 0.002·α·Y2 (ASD level)",
+        "N",
+        case.notional[1],
+        0.002 * 2.0 * p2,
+        1e-9,
+    );
 }

@@ -5,7 +5,11 @@
 //! tag of plumbline's reference notes (standards-notes.md): [C] confirmed by a public page,
 //! [M] from memory, verify = uncertain.
 
+mod common;
+
 use std::collections::BTreeMap;
+
+use common::verify;
 
 use plumbline::combos::{
     Basis, ComboTable, Expansion, expand, load_table, parse_table, shipped_tables,
@@ -41,6 +45,19 @@ fn run(table: &str, cases: &[LoadCase], overrides: &[(&str, f64)]) -> (ComboTabl
 
 /// Compare an expansion with `(id, "case*factor case*factor …")`, count by count and factor
 /// by factor (tolerance 1e-9).
+/// A case's factors as `1.2 D + 1.6 L` (load cases in id order, six decimals at most).
+fn factor_list(factors: &BTreeMap<String, f64>) -> String {
+    factors
+        .iter()
+        .map(|(case, f)| {
+            let f = format!("{f:.6}");
+            format!("{} {case}", f.trim_end_matches('0').trim_end_matches('.'))
+        })
+        .collect::<Vec<_>>()
+        .join(" + ")
+}
+
+#[track_caller]
 fn assert_cases(e: &Expansion, cases: &[LoadCase], expected: &[(&str, &str)]) {
     let got: Vec<(String, BTreeMap<String, f64>)> = e
         .cases
@@ -65,6 +82,18 @@ fn assert_cases(e: &Expansion, cases: &[LoadCase], expected: &[(&str, &str)]) {
                 (c.to_string(), f.parse().unwrap())
             })
             .collect();
+        let largest = w
+            .iter()
+            .map(|(k, x)| g.get(k).map_or(f64::INFINITY, |f| (f - x).abs()))
+            .fold(0.0, f64::max);
+        verify::note_text(
+            &format!("factored case {id}"),
+            "factors",
+            &factor_list(&w),
+            &factor_list(g),
+            largest,
+            1e-9,
+        );
         assert_eq!(
             g.keys().collect::<Vec<_>>(),
             w.keys().collect::<Vec<_>>(),
@@ -121,6 +150,9 @@ fn asce7_16_strength_all_actions() {
     // ASCE/SEI 7-16 §2.3.1 combinations 1–5 and §2.3.6 combinations 6–7 [M per notes §1.2];
     // the 7-10 form of 1–5 [C: 7-10 list in the notes]. SDS = 1.0 so Ev = 0.2D;
     // ρ = 1.3 (default, §12.3.4 [M]); L factor 1.0 (Exception 1 not taken).
+    verify::source(
+        "ASCE/SEI 7-16 §2.3.1 combinations 1–5 and §2.3.6 combinations 6–7 [M per notes §1.2]",
+    );
     let cases = every_category();
     let (t, e) = run("asce7-16-strength", &cases, &[("s_ds", 1.0)]);
     assert_eq!(t.basis, Basis::Strength);
@@ -182,6 +214,9 @@ fn asce7_16_strength_all_actions() {
 fn asce7_16_asd_all_actions() {
     // ASCE/SEI 7-16 §2.4.1 combinations 1–7 and §2.4.5 combinations 8–10 [M per notes §1.2];
     // 6 carries 0.75(0.6W) = 0.45W. SDS = 1.0: 0.7Ev = 0.14D, 0.525Ev = 0.105D; ρ = 1.3.
+    verify::source(
+        "ASCE/SEI 7-16 §2.4.1 combinations 1–7 and §2.4.5 combinations 8–10 [M per notes §1.2]",
+    );
     let cases = every_category();
     let (t, e) = run("asce7-16-asd", &cases, &[("s_ds", 1.0)]);
     assert_eq!(t.basis, Basis::AllowableStress);
@@ -220,6 +255,7 @@ fn asce7_22_strength_all_actions() {
     // ASCE/SEI 7-22 §2.3.1 / §2.3.6 [M, every row verify per notes §1.3]; principal snow
     // factor 1.0 [C: structuremag p=19724]; companion 0.3S (verify: 0.15S possible);
     // seismic companion 0.15S (verify). SDS = 1.0, ρ = 1.3.
+    verify::source("ASCE/SEI 7-22 §2.3.1 / §2.3.6 [M, every row verify per notes §1.3]");
     let cases = every_category();
     let (t, e) = run("asce7-22-strength", &cases, &[("s_ds", 1.0)]);
     assert!(t.notes.iter().any(|n| n.contains("strength-level")));
@@ -256,6 +292,7 @@ fn asce7_22_asd_all_actions() {
     // ASCE/SEI 7-22 §2.4.1 / §2.4.5 [M, every row verify]; 0.7S in 3, 4 and 6
     // [C: structuremag asce-7-22-flat-roof-snow-load]. The 2.4.5-9 snow factor is unconfirmed
     // (no default): the test sets it to 0.1, the weak recollection of the notes.
+    verify::source("ASCE/SEI 7-22 §2.4.1 / §2.4.5 [M, every row verify]");
     let cases = every_category();
     let (_, e) = run("asce7-22-asd", &cases, &[("s_ds", 1.0), ("s_seismic", 0.1)]);
     assert_eq!(dropped_ids(&e).len(), 11);
@@ -354,6 +391,7 @@ fn owned(v: &[(String, String)]) -> Vec<(&str, &str)> {
 fn en1990_6_10_all_actions() {
     // EN 1990 §6.4.3.2 (6.10) [C]; γG,sup 1.35 / γG,inf 1.0 [C: infosteel MSB03/14]; roof
     // category H combination kept apart per EN 1991-1-1 §3.3.2 [M].
+    verify::source("EN 1990 §6.4.3.2 (6.10) [C]");
     let cases = every_category();
     let (_, e) = run("en1990-6.10", &cases, &[]);
     // Every accompanying action may be absent (Table A1.2(B) γQ = 0 where favourable):
@@ -394,6 +432,7 @@ fn en1990_6_10ab_all_actions() {
     // (6.10a): every ψ0·γQ·Qk may be absent → 2⁴ subsets × 2 γG = 32; (6.10b) as (6.10):
     // 66; roof row 4: 102, of which Σ γG,inf·Gk alone = 1.0G comes from both (6.10a) and
     // (6.10b): 101 kept, one merged.
+    verify::source("EN 1990 (6.10a) and (6.10b) [C: infosteel MSB03/14]");
     let cases = every_category();
     let (_, e) = run("en1990-6.10ab", &cases, &[]);
     assert_eq!(e.cases.len(), 101);
@@ -422,6 +461,7 @@ fn en1990_6_10ab_all_actions() {
 fn en1990_sls_characteristic_all_actions() {
     // EN 1990 §6.5.3 (6.14b) [C: infosteel MSB03/15]: Gk + Qk,1 + Σ ψ0,i·Qk,i; every
     // accompanying action may be absent: 4 × 2³ + 1 = 33, roof row 2.
+    verify::source("EN 1990 §6.5.3 (6.14b) [C: infosteel MSB03/15]");
     let cases = every_category();
     let (t, e) = run("en1990-sls-characteristic", &cases, &[]);
     assert_eq!(t.basis, Basis::Serviceability);
@@ -456,6 +496,7 @@ fn en1990_rotation_with_three_variable_actions() {
     // EN 1990 §6.4.3.2 (6.10) [C]: with Q, S and W each leads in turn, the other two at
     // ψ0·γQ, each companion also absent (Table A1.2(B) γQ = 0 where favourable), and all
     // three absent: (3 × 2² + 1) × 2 γG = 26.
+    verify::source("EN 1990 §6.4.3.2 (6.10) [C]");
     let cases = vec![
         case("G", ActionCategory::Dead, None),
         case("Q", ActionCategory::Live, None),
@@ -509,6 +550,7 @@ fn nbcc_2020_all_actions() {
     // NBCC 2015/2020 Table 4.1.3.2.-A [M per notes §3.1]; companions 1.0S / 1.0L since 2015
     // [C: struct.work]; principal loads also without companions and the 0.9D counteracting
     // option [C: buildingcode.online, 2010 form].
+    verify::source("NBCC 2015/2020 Table 4.1.3.2.-A [M per notes §3.1]");
     let cases = every_category();
     let (t, e) = run("nbcc-2020", &cases, &[]);
     // Principal loads with the companion set to zero (2–4), each companion of 5 absent by
@@ -572,6 +614,7 @@ fn nbcc_2020_all_actions() {
 fn asnzs1170_0_all_actions() {
     // AS/NZS 1170.0:2002 clause 4.2.2 (a)–(g) [M per notes §4.1] with Table 4.1 offices
     // ψl = ψc = 0.4, ψE = 0.3 and "all other roofs" 0 [M per notes §4.2]: zero factors drop.
+    verify::source("AS/NZS 1170.0:2002 clause 4.2.2 (a)–(g) [M per notes §4.1]");
     let cases = every_category();
     let (_, e) = run("asnzs1170-0-2002", &cases, &[]);
     // Accompanying imposed actions also absent (zero-factor roof terms already drop out).
@@ -713,6 +756,7 @@ fn swapping_tables_changes_factors_never_load_cases() {
 fn alternatives_multiply_the_cases() {
     // closed form: 2 wind alternatives × 2 seismic alternatives = 4 cases of one combination;
     // an ungrouped wind case (internal pressure) adds to both wind alternatives.
+    verify::source("closed form: 2 wind × 2 seismic alternatives = 4 cases");
     let table = r#"
 title = "test"
 standard = "none"
@@ -757,6 +801,7 @@ fn wind_directions_double_the_wind_combinations() {
     // ASCE 7-16 §2.3.1 [M]: with wind from the left or the right, 2.3.1-3 (W variant), 2.3.1-4
     // and 2.3.1-5 each appear once per direction. Loads not acting (§2.3.1): 3d without its
     // 0.5W companion is 1.2D + 1.6S; 4b without its 0.5S companion is 1.2D + 1.0W.
+    verify::source("ASCE 7-16 §2.3.1 [M]");
     let cases = vec![
         case("D", ActionCategory::Dead, None),
         case("S", ActionCategory::Snow, None),
@@ -795,6 +840,7 @@ fn identical_cases_are_merged_and_reported() {
     // EN 1990 (6.10a) and (6.10b) [C: infosteel MSB03/14] for a permanent-only model:
     // (6.10a) gives γG,sup·Gk = 1.35G and γG,inf·Gk = 1.0G, (6.10b) ξ·γG,sup·Gk = 1.1475G and
     // again 1.0G, which is merged into the first.
+    verify::source("EN 1990 (6.10a) and (6.10b) [C: infosteel MSB03/14]");
     let cases = vec![case("G", ActionCategory::Dead, None)];
     let (_, e) = run("en1990-6.10ab", &cases, &[]);
     assert_cases(
@@ -933,6 +979,7 @@ fn permanent_only() -> Vec<LoadCase> {
 #[test]
 fn permanent_only_asce7_16_strength() {
     // ASCE/SEI 7-16 §2.3.1 combination 1: 1.4D [M]; rows 2–7 need a variable action.
+    verify::source("ASCE/SEI 7-16 §2.3.1 combination 1: 1.4D [M]");
     let (_, e) = run("asce7-16-strength", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("2.3.1-1", "G*1.4")]);
 }
@@ -940,6 +987,7 @@ fn permanent_only_asce7_16_strength() {
 #[test]
 fn permanent_only_asce7_16_asd() {
     // ASCE/SEI 7-16 §2.4.1 combination 1: D [M].
+    verify::source("ASCE/SEI 7-16 §2.4.1 combination 1: D [M]");
     let (_, e) = run("asce7-16-asd", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("2.4.1-1", "G*1.0")]);
 }
@@ -947,6 +995,7 @@ fn permanent_only_asce7_16_asd() {
 #[test]
 fn permanent_only_asce7_22_strength() {
     // ASCE/SEI 7-22 §2.3.1 combination 1: 1.4D [M, verify].
+    verify::source("ASCE/SEI 7-22 §2.3.1 combination 1: 1.4D [M, verify]");
     let (_, e) = run("asce7-22-strength", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("2.3.1-1", "G*1.4")]);
 }
@@ -954,6 +1003,7 @@ fn permanent_only_asce7_22_strength() {
 #[test]
 fn permanent_only_asce7_22_asd() {
     // ASCE/SEI 7-22 §2.4.1 combination 1: D [M, verify].
+    verify::source("ASCE/SEI 7-22 §2.4.1 combination 1: D [M, verify]");
     let (_, e) = run("asce7-22-asd", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("2.4.1-1", "G*1.0")]);
 }
@@ -962,6 +1012,7 @@ fn permanent_only_asce7_22_asd() {
 fn permanent_only_en1990_6_10() {
     // EN 1990 (6.10) with Table A1.2(B) [C: infosteel MSB03/14]: γQ = 0 for favourable (here
     // absent) variable actions, so Σ γG,sup·Gk = 1.35G and Σ γG,inf·Gk = 1.0G are cases.
+    verify::source("EN 1990 (6.10) with Table A1.2(B) [C: infosteel MSB03/14]");
     let (_, e) = run("en1990-6.10", &permanent_only(), &[]);
     assert_cases(
         &e,
@@ -974,6 +1025,9 @@ fn permanent_only_en1990_6_10() {
 fn permanent_only_en1990_6_10ab() {
     // EN 1990 (6.10a) 1.35G and 1.0G, (6.10b) ξ·γG,sup = 0.85 × 1.35 = 1.1475G
     // [C: infosteel MSB03/14]; the second 1.0G is merged.
+    verify::source(
+        "EN 1990 (6.10a) 1.35G and 1.0G, (6.10b) ξ·γG,sup = 0.85 × 1.35 = 1.1475G [C: infosteel MSB03/14]",
+    );
     let (_, e) = run("en1990-6.10ab", &permanent_only(), &[]);
     assert_cases(
         &e,
@@ -989,6 +1043,7 @@ fn permanent_only_en1990_6_10ab() {
 #[test]
 fn permanent_only_en1990_sls_characteristic() {
     // EN 1990 (6.14b) [C: infosteel MSB03/15]: Σ Gk alone when no variable action acts.
+    verify::source("EN 1990 (6.14b) [C: infosteel MSB03/15]");
     let (_, e) = run("en1990-sls-characteristic", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("6.14b-1a", "G*1.0")]);
 }
@@ -996,6 +1051,7 @@ fn permanent_only_en1990_sls_characteristic() {
 #[test]
 fn permanent_only_nbcc_2020() {
     // NBCC 2020 Table 4.1.3.2.-A case 1: 1.4D [M].
+    verify::source("NBCC 2020 Table 4.1.3.2.-A case 1: 1.4D [M]");
     let (_, e) = run("nbcc-2020", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("4.1.3.2-1", "G*1.4")]);
 }
@@ -1003,6 +1059,7 @@ fn permanent_only_nbcc_2020() {
 #[test]
 fn permanent_only_asnzs1170_0() {
     // AS/NZS 1170.0:2002 clause 4.2.2(a): [1.35G] [M].
+    verify::source("AS/NZS 1170.0:2002 clause 4.2.2(a): 1.35G [M]");
     let (_, e) = run("asnzs1170-0-2002", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("4.2.2(a)", "G*1.35")]);
 }
@@ -1272,6 +1329,9 @@ fn a_stated_conversion_gives_the_right_factors() {
     // With the conversion stated (0.625 = 1/1.6, return periods only [M]), EN 1990 (6.10)
     // factors the strength-level wind by γQ·0.625 = 1.5 × 0.625 = 0.9375 when it leads and
     // by ψ0·γQ·0.625 = 0.9 × 0.625 = 0.5625 as a companion (none here: G and W only).
+    verify::source(
+        "EN 1990 (6.10), γQ = 1.5 [C: infosteel MSB03/14]; strength-to-characteristic wind 0.625 = 1/1.6 [M]",
+    );
     let conv = "\n[[combinations.convert]]\ncategory = \"wind\"\nfrom = \"strength\"\nto = \"characteristic\"\nfactor = 0.625\n";
     let text = asce_model("", conv);
     let model = plumbline::input::parse_model(&text, "portal.toml").unwrap();
@@ -1687,6 +1747,7 @@ fn asce7_16_service_all_actions() {
     // ASCE/SEI 7-16 Commentary to Appendix C [M]: deflection under D + L + (Lr or S or R),
     // each variable term also absent; drift under D + 0.5L + Wa with Wa = 0.42·W (wa_factor
     // [M]), L also absent. E is not combined (the §12.8.6 drift check uses it alone).
+    verify::source("ASCE/SEI 7-16 Commentary to Appendix C [M]");
     let cases = every_category();
     let (t, e) = run("asce7-16-service", &cases, &[]);
     assert_eq!(t.basis, Basis::Serviceability);
@@ -1720,6 +1781,7 @@ fn asce7_16_service_all_actions() {
 #[test]
 fn permanent_only_asce7_16_service() {
     // ASCE/SEI 7-16 Commentary to Appendix C [M]: D alone is the deflection case.
+    verify::source("ASCE/SEI 7-16 Commentary to Appendix C [M]");
     let (_, e) = run("asce7-16-service", &permanent_only(), &[]);
     assert_cases(&e, &permanent_only(), &[("C-1a", "G*1.0")]);
 }
@@ -1730,6 +1792,7 @@ fn en1990_sls_frequent_all_actions() {
     // Table A1.1 ψ1 = 0.5 / 0.2 / 0.2 / 0.5 and ψ2 = 0.3 / 0 / 0 / 0 (offices, snow below
     // 1000 m, wind, temperature). The leading rows, every accompanying action present (a
     // zero factor leaves its action out of the case):
+    verify::source("EN 1990 §6.5.3 (6.15b) [C: infosteel MSB03/15]");
     let cases = every_category();
     let (t, e) = run("en1990-sls-frequent", &cases, &[]);
     assert_eq!(t.basis, Basis::Serviceability);
@@ -1749,6 +1812,7 @@ fn en1990_sls_frequent_all_actions() {
 fn en1990_sls_quasi_permanent_all_actions() {
     // EN 1990 §6.5.3 (6.16b) [C: infosteel MSB03/15]: Gk + Σ ψ2,i·Qk,i, ψ2 = 0.3 for office
     // floors and 0 for snow below 1000 m, wind and temperature (Table A1.1).
+    verify::source("EN 1990 §6.5.3 (6.16b) [C: infosteel MSB03/15]");
     let cases = every_category();
     let (t, e) = run("en1990-sls-quasi-permanent", &cases, &[]);
     assert_eq!(t.basis, Basis::Serviceability);

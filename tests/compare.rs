@@ -7,8 +7,8 @@ mod common;
 
 use std::path::{Path, PathBuf};
 
-use approx::assert_relative_eq;
 use common::random_frame::RandomFrame;
+use common::verify;
 use plumbline::app::{CheckArgs, VariantSpec, parse_variant, run_check, run_compare};
 use plumbline::compare::{Comparison, Quantity, VariantRun, compare};
 use plumbline::envelope::{Envelope, Location, envelope};
@@ -201,6 +201,9 @@ fn single_bay_frame_under_asce_and_en_tables_by_hand() {
     // EN 1990 (6.10) with Table A1.2(B) γG = 1.35, γQ = 1.5 and ψ0 = 0.5 (snow), 0.6
     // (wind) (Table A1.1): snow leading gives 1.35·10 + 1.5·0.9·8 = 24.3 kN/m; the largest
     // wind factor is γQ × 0.625 = 0.9375 (wind leading).
+    verify::source(
+        "ASCE/SEI 7-16 §2.3.1 and EN 1990:2002 (6.10) with Table A1.2(B), A1.1; by hand",
+    );
     let path = Path::new("tests/fixtures/compare-portal.toml");
     let specs = [
         spec("asce:", 1),
@@ -211,29 +214,51 @@ fn single_bay_frame_under_asce_and_en_tables_by_hand() {
     let c = &run.comparison;
     let (l, h, w_load) = (8.0, 4.0, 20e3);
     let beam = |w: f64| w * l * l / 8.0;
-    assert_relative_eq!(
+    verify::close(
+        "beam span moment wL²/8, ASCE 7-16 governing w = 24.8 kN/m",
+        "N·m",
         value(c, "BM", Quantity::MomentSpan, 0),
         beam(24.8e3),
-        max_relative = 1e-9
+        1e-9,
     );
-    assert_relative_eq!(
+    verify::close(
+        "beam span moment wL²/8, EN 1990 governing w = 24.3 kN/m",
+        "N·m",
         value(c, "BM", Quantity::MomentSpan, 1),
         beam(24.3e3),
-        max_relative = 1e-9
+        1e-9,
     );
     // The beam's axial shortening shifts the columns' shares of H by about
     // (3EI/h³)/(EA/L) = 4.9e6 / 2.6e10 ≈ 2e-4 (statics of the two springs in series).
     for col in ["CA", "CB"] {
         let base = |k| value(c, col, Quantity::MomentEndI, k).abs();
-        assert_relative_eq!(base(0), 1.0 * w_load / 2.0 * h, max_relative = 5e-4);
-        assert_relative_eq!(base(1), 0.9375 * w_load / 2.0 * h, max_relative = 5e-4);
+        verify::close(
+            &format!("{col} base moment under 1.0W, H·h/2"),
+            "N·m",
+            base(0),
+            1.0 * w_load / 2.0 * h,
+            5e-4,
+        );
+        verify::close(
+            &format!("{col} base moment under 0.9375W (EN 1990), H·h/2"),
+            "N·m",
+            base(1),
+            0.9375 * w_load / 2.0 * h,
+            5e-4,
+        );
     }
     let r = c
         .rows
         .iter()
         .find(|r| r.member == "BM" && r.quantity == Quantity::MomentSpan)
         .unwrap();
-    assert_relative_eq!(r.ratios[1].unwrap(), 24.3 / 24.8, max_relative = 1e-9);
+    verify::close(
+        "ratio of the two tables' span moments 24.3/24.8",
+        "-",
+        r.ratios[1].unwrap(),
+        24.3 / 24.8,
+        1e-9,
+    );
     assert_eq!(r.governs, Some(0));
     // The NBCC table expects specified-level snow and wind, which the model does not
     // convert: that variant is left out with the conversion message, the others run.

@@ -4,8 +4,7 @@
 
 mod common;
 
-use approx::assert_relative_eq;
-use common::Frame;
+use common::{Frame, verify};
 use plumbline::input::parse_model;
 use plumbline::model::{ActionCategory, LoadDirection, Model, Restraint};
 use plumbline::solve::linear::{MeshLoads, Response, respond};
@@ -80,6 +79,9 @@ fn case_1_beam_column_moments_at_the_quarter_points() {
     // where the quarter points lie inside an element and the moment there comes from the
     // element's cubic shape (measured 0.8 % at P = 450 kips with 2); 0.1 % for 4 and 8,
     // where they are nodes (measured 0.01 %).
+    verify::source(
+        "AISC 360-16 Commentary Ch. C, benchmark Case 1 [C]; Timoshenko & Gere §1.11 closed form (from memory)",
+    );
     let (e, a, i, l) = (
         29_000.0 * KSI,
         14.1 * INCH * INCH,
@@ -103,7 +105,13 @@ fn case_1_beam_column_moments_at_the_quarter_points() {
             let k = (p / ei).sqrt();
             let exact =
                 |x: f64| w / (k * k) * ((k * (x - l / 2.0)).cos() / (k * l / 2.0).cos() - 1.0);
-            assert_relative_eq!(exact(l / 2.0) / (KIP * INCH), m_tab, max_relative = 1e-3);
+            verify::close(
+                &format!("Case 1 closed-form Mmid against the table, P = {p_kips} kips"),
+                "kip-in",
+                exact(l / 2.0) / (KIP * INCH),
+                m_tab,
+                1e-3,
+            );
             let d = direct(&f.model, c, segments);
             let tol = if segments >= 4 { 0.001 } else { 0.01 };
             for q in [0.25, 0.5, 0.75] {
@@ -113,11 +121,31 @@ fn case_1_beam_column_moments_at_the_quarter_points() {
                     got / (KIP * INCH),
                     exact(q * l) / (KIP * INCH)
                 );
-                assert_relative_eq!(got, exact(q * l), max_relative = tol);
+                verify::close(
+                    &format!("Case 1 M({q}L), {segments} elements, P = {p_kips} kips"),
+                    "N·m",
+                    got,
+                    exact(q * l),
+                    tol,
+                );
             }
             // The largest sagging moment is at mid-span (symmetry) and is the closed form's.
-            assert_relative_eq!(d.span[m].max.1, exact(l / 2.0), max_relative = tol);
-            assert_relative_eq!(d.span[m].max.0, l / 2.0, max_relative = 1e-6);
+            verify::close(
+                &format!("Case 1 largest sagging moment, {segments} elements, P = {p_kips} kips"),
+                "N·m",
+                d.span[m].max.1,
+                exact(l / 2.0),
+                tol,
+            );
+            verify::close(
+                &format!(
+                    "Case 1 position of the largest moment, {segments} elements, P = {p_kips} kips"
+                ),
+                "m",
+                d.span[m].max.0,
+                l / 2.0,
+                1e-6,
+            );
             // Ends: the pinned ends carry no moment (closed form M(0) = M(L) = 0).
             assert!(d.moment(m, 0.0).abs() <= 1e-9 * m_tab * KIP * INCH);
             assert!(d.moment(m, l).abs() <= 1e-9 * m_tab * KIP * INCH);
@@ -303,6 +331,9 @@ fn condensed_buckling_reproduces_the_full_segmented_system() {
     // any linear algebra text). Reference: bisection on the full segmented system to a
     // relative 1e-9; the condensed estimate must lie within the solver's stated precision
     // (ALPHA_CR_TOLERANCE = 1e-6) of it.
+    verify::source(
+        "closed form: Sylvester's law of inertia, bisection on the full segmented system",
+    );
     for seed in 0..40 {
         let (model, case) = random_frame(seed);
         let st = member_stiffness(&model);
@@ -332,7 +363,13 @@ fn condensed_buckling_reproduces_the_full_segmented_system() {
                 hi = mid;
             }
         }
-        assert_relative_eq!(b.alpha_cr, 0.5 * (lo + hi), max_relative = 1e-6);
+        verify::close(
+            "α_cr, condensed against full segmented system",
+            "-",
+            b.alpha_cr,
+            0.5 * (lo + hi),
+            1e-6,
+        );
     }
 }
 

@@ -4,7 +4,7 @@
 mod common;
 
 use approx::assert_relative_eq;
-use common::{Frame, portal};
+use common::{Frame, portal, verify};
 use plumbline::model::{ActionCategory, LoadDirection, Restraint};
 use plumbline::solve::beam::internal_forces;
 use plumbline::solve::sway::SwaySplit;
@@ -25,6 +25,9 @@ fn fixed_base_portal_under_beam_udl() {
     // Closed form, reference notes §10.1 [C + X]: k = (Ib/Ic)(h/L); knee moment
     // wL²/(6(k+2)) hogging, base moment wL²/(12(k+2)) of opposite sense.
     // h = 4, L = 8, Ib = 2Ic → k = 1; w = 1 kN/m → 3.556 / 1.778 kN·m.
+    verify::source(
+        "closed form, reference notes §10.1 [C + X]: knee wL²/(6(k+2)), base wL²/(12(k+2))",
+    );
     let (mut f, [_, _, _, _, c1, b, _]) = portal(8.0, 4.0, 1e-4, 2e-4, true);
     let d = f.case("D", ActionCategory::Dead);
     f.udl(d, b, 1000.0, LoadDirection::Gravity);
@@ -34,27 +37,54 @@ fn fixed_base_portal_under_beam_udl() {
     let knee = w * 64.0 / (6.0 * (k + 2.0));
     let base = w * 64.0 / (12.0 * (k + 2.0));
     let (m0, m1) = end_moments(&s, b);
-    assert_relative_eq!(m0, -knee, max_relative = AXIAL_RIGID);
-    assert_relative_eq!(m1, -knee, max_relative = AXIAL_RIGID);
+    verify::close(
+        "fixed-base portal, beam UDL: knee moment, left",
+        "N·m",
+        m0,
+        -knee,
+        AXIAL_RIGID,
+    );
+    verify::close(
+        "fixed-base portal, beam UDL: knee moment, right",
+        "N·m",
+        m1,
+        -knee,
+        AXIAL_RIGID,
+    );
     let (c0, _) = end_moments(&s, c1);
-    assert_relative_eq!(c0.abs(), base, max_relative = AXIAL_RIGID);
+    verify::close(
+        "fixed-base portal, beam UDL: base moment",
+        "N·m",
+        c0.abs(),
+        base,
+        AXIAL_RIGID,
+    );
     assert!(s.residual.relative() < 1e-9, "residual {:?}", s.residual);
 }
 
 #[test]
 fn pinned_base_portal_under_beam_udl() {
     // Closed form, reference notes §10.1 [M + X]: knee moment wL²/(4(2k+3)), k = 1 → 3.2 w.
+    verify::source("closed form, reference notes §10.1 [M + X]: knee wL²/(4(2k+3)), thrust Mc/h");
     let (mut f, [_, _, _, _, _, b, _]) = portal(8.0, 4.0, 1e-4, 2e-4, false);
     let d = f.case("D", ActionCategory::Dead);
     f.udl(d, b, 1000.0, LoadDirection::Gravity);
     let s = solve_case(&f.model, d).unwrap();
     let (m0, _) = end_moments(&s, b);
-    assert_relative_eq!(m0, -3200.0, max_relative = AXIAL_RIGID);
+    verify::close(
+        "pinned-base portal, beam UDL: knee moment",
+        "N·m",
+        m0,
+        -3200.0,
+        AXIAL_RIGID,
+    );
     // Thrust H = Mc/h at each base (same source).
-    assert_relative_eq!(
+    verify::close(
+        "pinned-base portal, beam UDL: base thrust",
+        "N",
         s.reactions[0][0].abs(),
         3200.0 / 4.0,
-        max_relative = AXIAL_RIGID
+        AXIAL_RIGID,
     );
 }
 
@@ -63,6 +93,7 @@ fn fixed_base_portal_under_lateral_load() {
     // Closed form by slope-deflection, reference notes §10.1 [M + X]:
     // knee 3kPh/(2(6k+1)), base (3k+1)Ph/(2(6k+1)); k = 1, P = 1 kN, h = 4 →
     // 0.857 / 1.143 kN·m.
+    verify::source("closed form by slope-deflection, reference notes §10.1 [M + X]");
     let (mut f, [_, n1, _, _, c1, _, c2]) = portal(8.0, 4.0, 1e-4, 2e-4, true);
     let w = f.case("W", ActionCategory::Wind);
     f.nodal(w, n1, 1000.0, 0.0, 0.0);
@@ -71,8 +102,20 @@ fn fixed_base_portal_under_lateral_load() {
     let base = 4.0 * 1000.0 * 4.0 / (2.0 * 7.0);
     for c in [c1, c2] {
         let (m_base, m_top) = end_moments(&s, c);
-        assert_relative_eq!(m_base.abs(), base, max_relative = 1e-4);
-        assert_relative_eq!(m_top.abs(), knee, max_relative = 1e-4);
+        verify::close(
+            "fixed-base portal, lateral load: base moment (each column)",
+            "N·m",
+            m_base.abs(),
+            base,
+            1e-4,
+        );
+        verify::close(
+            "fixed-base portal, lateral load: knee moment (each column)",
+            "N·m",
+            m_top.abs(),
+            knee,
+            1e-4,
+        );
     }
 }
 
@@ -80,21 +123,37 @@ fn fixed_base_portal_under_lateral_load() {
 fn pinned_base_portal_under_lateral_load() {
     // Closed form, reference notes §10.1 [C + X]: knee moment Ph/2, base shears P/2,
     // column axial forces ±Ph/L.
+    verify::source(
+        "closed form, reference notes §10.1 [C + X]: knee Ph/2, base shears P/2, axial ±Ph/L",
+    );
     let (mut f, [n0, n1, _, n3, c1, _, _]) = portal(8.0, 4.0, 1e-4, 2e-4, false);
     let w = f.case("W", ActionCategory::Wind);
     f.nodal(w, n1, 1000.0, 0.0, 0.0);
     let s = solve_case(&f.model, w).unwrap();
     let (_, m_top) = end_moments(&s, c1);
-    assert_relative_eq!(m_top.abs(), 2000.0, max_relative = 1e-4);
-    assert_relative_eq!(s.reactions[n0][0], -500.0, max_relative = 1e-4);
-    assert_relative_eq!(s.reactions[n3][0], -500.0, max_relative = 1e-4);
-    assert_relative_eq!(s.reactions[n0][1].abs(), 500.0, max_relative = 1e-4);
+    verify::close(
+        "pinned-base portal, lateral load: knee moment",
+        "N·m",
+        m_top.abs(),
+        2000.0,
+        1e-4,
+    );
+    verify::close("base shear, left", "N", s.reactions[n0][0], -500.0, 1e-4);
+    verify::close("base shear, right", "N", s.reactions[n3][0], -500.0, 1e-4);
+    verify::close(
+        "column axial force",
+        "N",
+        s.reactions[n0][1].abs(),
+        500.0,
+        1e-4,
+    );
 }
 
 #[test]
 fn propped_cantilever_under_udl() {
     // AISC Steel Construction Manual, 15th ed., Table 3-23 case 12, beam fixed at one end
     // and supported at the other (from memory): M_fixed = wL²/8, R_prop = 3wL/8.
+    verify::source("AISC Manual 15th ed., Table 3-23 case 12 (from memory): R = 3wL/8, M = wL²/8");
     let mut f = Frame::new();
     let a = f.node(0.0, 0.0);
     let b = f.node(6.0, 0.0);
@@ -104,12 +163,20 @@ fn propped_cantilever_under_udl() {
     let d = f.case("D", ActionCategory::Dead);
     f.udl(d, m, 2000.0, LoadDirection::Gravity);
     let s = solve_case(&f.model, d).unwrap();
-    assert_relative_eq!(
+    verify::close(
+        "propped cantilever: prop reaction",
+        "N",
         s.reactions[b][1],
         3.0 * 2000.0 * 6.0 / 8.0,
-        max_relative = 1e-10
+        1e-10,
     );
-    assert_relative_eq!(s.reactions[a][2], 2000.0 * 36.0 / 8.0, max_relative = 1e-10);
+    verify::close(
+        "propped cantilever: fixed-end moment",
+        "N·m",
+        s.reactions[a][2],
+        2000.0 * 36.0 / 8.0,
+        1e-10,
+    );
 }
 
 #[test]
@@ -117,6 +184,7 @@ fn two_span_continuous_beam_under_udl() {
     // AISC Steel Construction Manual, 15th ed., Table 3-23 case 29, continuous beam of two
     // equal spans, uniform load (from memory): interior support moment wL²/8, end
     // reactions 3wL/8, interior reaction 10wL/8.
+    verify::source("AISC Manual 15th ed., Table 3-23 case 29 (from memory): 3wL/8, 10wL/8, wL²/8");
     let mut f = Frame::new();
     let n: Vec<usize> = (0..3).map(|k| f.node(5.0 * k as f64, 0.0)).collect();
     let m1 = f.member(n[0], n[1], 200e9, 0.01, 3e-4);
@@ -129,18 +197,28 @@ fn two_span_continuous_beam_under_udl() {
     f.udl(d, m2, 4000.0, LoadDirection::Gravity);
     let s = solve_case(&f.model, d).unwrap();
     let (w, l) = (4000.0, 5.0);
-    assert_relative_eq!(
+    verify::close(
+        "two-span beam: end reaction",
+        "N",
         s.reactions[n[0]][1],
         3.0 * w * l / 8.0,
-        max_relative = 1e-10
+        1e-10,
     );
-    assert_relative_eq!(
+    verify::close(
+        "two-span beam: interior reaction",
+        "N",
         s.reactions[n[1]][1],
         10.0 * w * l / 8.0,
-        max_relative = 1e-10
+        1e-10,
     );
     let (_, m_support) = end_moments(&s, m1);
-    assert_relative_eq!(m_support, -w * l * l / 8.0, max_relative = 1e-10);
+    verify::close(
+        "two-span beam: interior support moment",
+        "N·m",
+        m_support,
+        -w * l * l / 8.0,
+        1e-10,
+    );
 }
 
 #[test]
@@ -252,6 +330,7 @@ fn no_sway_plus_sway_equals_free_frame() {
 fn maxwell_betti_reciprocity_on_a_random_frame() {
     // Maxwell–Betti reciprocal theorem (closed form): the X displacement at A due to a
     // unit Y force at B equals the Y displacement at B due to a unit X force at A.
+    verify::source("closed form: Maxwell–Betti reciprocal theorem");
     let mut seed: u64 = 12345;
     let mut rnd = move || {
         seed = seed
@@ -292,10 +371,12 @@ fn maxwell_betti_reciprocity_on_a_random_frame() {
     let sys = FirstOrder::new(&f.model, &[]).unwrap();
     let sa = sys.solve_case(&f.model, ca).unwrap();
     let sb = sys.solve_case(&f.model, cb).unwrap();
-    assert_relative_eq!(
+    verify::close(
+        "reciprocal displacements u_B,y(X at A) = u_A,x(Y at B)",
+        "m/N",
         sa.displacements[b][1],
         sb.displacements[a][0],
-        max_relative = 1e-9
+        1e-9,
     );
 }
 

@@ -6,9 +6,8 @@
 
 mod common;
 
-use approx::assert_relative_eq;
 use common::random_frame::RandomFrame;
-use common::{Frame, only_case, portal, strength};
+use common::{Frame, only_case, portal, strength, verify};
 use plumbline::check::{CaseCheck, CheckReport, check};
 use plumbline::combos::FactoredCase;
 use plumbline::envelope::envelope;
@@ -39,6 +38,7 @@ fn portal_base_shears_sum_to_the_lateral_load() {
     // horizontal loads, ΣRx = −ΣH, in a second-order analysis as in a first-order one
     // (the P-Δ forces of the columns are internal). Fixed-base portal, lateral H with
     // gravity on the beam; each method's design reactions.
+    verify::source("closed form: statics, ΣRx = −ΣH, ΣRy = ΣP");
     for method in METHODS {
         let (mut f, [_, n1, _, _, _, b, _]) = portal(6.0, 4.0, 8e-5, 2e-4, true);
         no_notional(&mut f);
@@ -53,10 +53,16 @@ fn portal_base_shears_sum_to_the_lateral_load() {
         let r = c.reactions.as_ref().expect("second-order reactions");
         let sum_x: f64 = r.iter().map(|r| r[0]).sum();
         let sum_y: f64 = r.iter().map(|r| r[1]).sum();
-        assert_relative_eq!(sum_x, -h, max_relative = 1e-9);
-        assert_relative_eq!(sum_y, 1.2 * 20e3 * 6.0, max_relative = 1e-9);
+        verify::close(&format!("ΣRx, {method}"), "N", sum_x, -h, 1e-9);
+        verify::close(
+            &format!("ΣRy, {method}"),
+            "N",
+            sum_y,
+            1.2 * 20e3 * 6.0,
+            1e-9,
+        );
         let sum_x1: f64 = c.reactions_first_order.iter().map(|r| r[0]).sum();
-        assert_relative_eq!(sum_x1, -h, max_relative = 1e-9);
+        verify::close(&format!("ΣRx first order, {method}"), "N", sum_x1, -h, 1e-9);
     }
 }
 
@@ -69,6 +75,7 @@ fn brace_of_a_pin_jointed_braced_bay_carries_the_story_shear_over_cos_theta() {
     // load and axially stiff members: the P-Δ of the columns' equal and opposite axial
     // forces and of the brace is below 1e-6 of the force, so every method's design force
     // is the statics value.
+    verify::source("closed form: statics of a pin-jointed truss, N = H / cos θ");
     let (l, h) = (6.0, 4.0);
     let load = 50e3;
     for method in METHODS {
@@ -98,14 +105,26 @@ fn brace_of_a_pin_jointed_braced_bay_carries_the_story_shear_over_cos_theta() {
         let cos = l / (l * l + h * h).sqrt();
         let brace = &c.members[d];
         for end in brace.end_actions {
-            assert_relative_eq!(end.axial, -load / cos, max_relative = 1e-6);
+            verify::close(
+                &format!("brace axial force at an end, {method}"),
+                "N",
+                end.axial,
+                -load / cos,
+                1e-6,
+            );
         }
         let env = envelope(&report);
         let row = env.axial[d]
             .compression
             .as_ref()
             .expect("brace compression");
-        assert_relative_eq!(row.axial, -load / cos, max_relative = 1e-6);
+        verify::close(
+            &format!("brace axial force, envelope, {method}"),
+            "N",
+            row.axial,
+            -load / cos,
+            1e-6,
+        );
         assert!(env.axial[d].tension.is_none(), "{method}");
     }
 }
@@ -117,6 +136,7 @@ fn two_hinged_portal_thrust_under_a_uniform_beam_load() {
     // shear deformation neglected (unit-load method with the thrust as redundant; the
     // frame formulas of Kleinlogel give the same, from memory). The unfactored reaction
     // table of the service case D gives it; A is large so axial shortening is negligible.
+    verify::source("closed form: unit-load method, H = wL²/(4h(2k+3))");
     let (l, h, ic, ib, w) = (8.0, 5.0, 6e-5, 1.5e-4, 25e3);
     let (mut f, [n0, _, _, n3, _, b, _]) = portal(l, h, ic, ib, false);
     let g = f.case("D", ActionCategory::Dead);
@@ -135,9 +155,27 @@ fn two_hinged_portal_thrust_under_a_uniform_beam_load() {
         d.reactions[s]
     };
     // The left support pushes the frame to the right (+X), the right one to the left.
-    assert_relative_eq!(at(n0)[0], thrust, max_relative = 1e-6);
-    assert_relative_eq!(at(n3)[0], -thrust, max_relative = 1e-6);
-    assert_relative_eq!(at(n0)[1], w * l / 2.0, max_relative = 1e-9);
+    verify::close(
+        "two-hinged portal thrust, left base",
+        "N",
+        at(n0)[0],
+        thrust,
+        1e-6,
+    );
+    verify::close(
+        "two-hinged portal thrust, right base",
+        "N",
+        at(n3)[0],
+        -thrust,
+        1e-6,
+    );
+    verify::close(
+        "two-hinged portal vertical reaction wL/2",
+        "N",
+        at(n0)[1],
+        w * l / 2.0,
+        1e-9,
+    );
 }
 
 #[test]
@@ -146,6 +184,7 @@ fn cantilever_column_base_moment_is_h_times_height() {
     // has the base moment H·h and base shear −H; with no axial load its second-order
     // analysis is its first-order one. Mz of the support is the moment it exerts on the
     // column, counter-clockwise positive: +H·h for H to the right.
+    verify::source("closed form: statics of a cantilever, Rx = −H, M = H·h");
     let (h, load) = (4.5, 12e3);
     for method in METHODS {
         let mut f = Frame::new();
@@ -159,8 +198,8 @@ fn cantilever_column_base_moment_is_h_times_height() {
         f.nodal(w, n1, load, 0.0, 0.0);
         let c = only_case(&f.model, &strength("1", &[(w, 1.0)]));
         let r = c.reactions.as_ref().expect("reactions")[0];
-        assert_relative_eq!(r[0], -load, max_relative = 1e-9);
-        assert_relative_eq!(r[2], load * h, max_relative = 1e-9);
+        verify::close("cantilever column base shear", "N", r[0], -load, 1e-9);
+        verify::close("cantilever column base moment", "N·m", r[2], load * h, 1e-9);
     }
 }
 
@@ -169,6 +208,7 @@ fn a_spring_support_reports_its_spring_force() {
     // A spring's reaction is its force −k·u (Hooke's law): a cantilever on a rotational
     // base spring k under H at the top has the base moment H·h, which the spring carries,
     // and the base rotation H·h/k.
+    verify::source("closed form: Hooke's law and statics, M = H·h");
     let (h, load, k) = (4.0, 10e3, 5e6);
     let mut f = Frame::new();
     no_notional(&mut f);
@@ -184,7 +224,7 @@ fn a_spring_support_reports_its_spring_force() {
     let report = check(&f.model, &[strength("1", &[(w, 1.0)])]).unwrap();
     assert_eq!(report.supports[0].spring, [false, false, true]);
     let r = report.service_reactions[w].reactions[0];
-    assert_relative_eq!(r[2], load * h, max_relative = 1e-9);
+    verify::close("rotational spring base moment", "N·m", r[2], load * h, 1e-9);
 }
 
 /// The applied loads of factored loads `factors`, `[ΣFx, ΣFy, ΣMz about the origin]`, from
@@ -391,6 +431,7 @@ fn second_order_base_moment_balances_the_loads_in_the_deformed_geometry() {
     // lateral force H and a vertical load P at its top, which sways by Δ, has the base
     // moment H·h + P·Δ. The design reaction of the second-order analysis must balance the
     // loads there, with Δ that analysis's own top drift.
+    verify::source("closed form: statics of the deflected cantilever, M = H·h + P·Δ");
     let (h, load, p) = (5.0, 8e3, 600e3);
     let mut f = Frame::new();
     no_notional(&mut f);
@@ -405,6 +446,12 @@ fn second_order_base_moment_balances_the_loads_in_the_deformed_geometry() {
     let delta = c.top_drift_second_order.expect("converged");
     let r = c.reactions.as_ref().expect("reactions")[0];
     assert!(delta > 1e-3, "the column sways visibly: Δ = {delta}");
-    assert_relative_eq!(r[2], load * h + p * delta, max_relative = 1e-6);
-    assert_relative_eq!(r[1], p, max_relative = 1e-9);
+    verify::close(
+        "second-order base moment H·h + P·Δ",
+        "N·m",
+        r[2],
+        load * h + p * delta,
+        1e-6,
+    );
+    verify::close("vertical reaction P", "N", r[1], p, 1e-9);
 }

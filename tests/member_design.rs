@@ -8,7 +8,7 @@ mod common;
 use std::f64::consts::PI;
 
 use approx::assert_relative_eq;
-use common::{Frame, only_case, portal, strength};
+use common::{Frame, only_case, portal, strength, verify};
 use plumbline::check::{CaseCheck, Classification, MemberCheck};
 use plumbline::model::{
     ActionCategory, LoadDirection, MemberLoadKind, NotionalLoads, Role, SecondOrderMethod,
@@ -87,6 +87,9 @@ fn span_extremes_of_the_combined_aisc_diagram_beam_under_wind() {
     // the largest sagging moment D(x*). The no-sway diagram alone peaks at
     //   x_nt = L/2 + (Mnt,j − Mnt,i)/(w·L),
     // which is where the moment was taken before; under wind x* ≠ x_nt.
+    verify::source(
+        "AISC 360-16 App. 8 eq. A-8-1 (Mr = B1·Mnt + B2·Mlt at every section); closed form of the combined diagram's extreme",
+    );
     let (case, beam, l, w, _) = beam_under_wind(false);
     let mc: &MemberCheck = &case.members[beam];
     assert!(mc.stable);
@@ -102,15 +105,29 @@ fn span_extremes_of_the_combined_aisc_diagram_beam_under_wind() {
         l / 2.0 + (b1 * (ej.no_sway - ei.no_sway) + b2 * (ej.sway - ei.sway)) / (b1 * w * l);
     assert!(x_star > 0.0 && x_star < l);
     let m_star = d(x_star);
-    assert_relative_eq!(mc.span_max.x, x_star, max_relative = 1e-9);
-    assert_relative_eq!(mc.span_max.design, m_star, max_relative = 1e-9);
+    verify::close(
+        "position x* of the combined diagram's span maximum",
+        "m",
+        mc.span_max.x,
+        x_star,
+        1e-9,
+    );
+    verify::close(
+        "span maximum of B1·Mnt + B2·Mlt",
+        "N·m",
+        mc.span_max.design,
+        m_star,
+        1e-9,
+    );
     // The reported span moment is that largest sagging moment (larger than either
     // in-span alternative), with its parts at the same x.
-    assert_relative_eq!(mc.span.design, m_star, max_relative = 1e-9);
-    assert_relative_eq!(
+    verify::close("design span moment", "N·m", mc.span.design, m_star, 1e-9);
+    verify::close(
+        "no-sway moment at x*",
+        "N·m",
         mc.span.no_sway,
         beam_moment(x_star, l, ei.no_sway, ej.no_sway, w, 0.0, 0.0),
-        max_relative = 1e-9
+        1e-9,
     );
     // The old place: the peak of the no-sway diagram, with the sway moment added there,
     // under-reports the sagging moment.
@@ -133,13 +150,25 @@ fn span_extremes_of_the_combined_aisc_diagram_beam_under_wind() {
         (l, d(l))
     };
     assert_relative_eq!(mc.span_min.x, end_x, epsilon = 1e-12);
-    assert_relative_eq!(mc.span_min.design, end_m, max_relative = 1e-9);
+    verify::close(
+        "span minimum at the end",
+        "N·m",
+        mc.span_min.design,
+        end_m,
+        1e-9,
+    );
     // Dense sampling of the same closed-form diagram agrees (10 000 intervals: the
     // sampling error of a parabola is at most B1·w·(L/20000)²/2).
     let (smax, smin) = sampled(l, 10_000, d);
     let tol = b1 * w * (l / 20_000.0).powi(2);
     assert!(smax.1 <= m_star + 1e-9 * m_star.abs() && smax.1 >= m_star - tol);
-    assert_relative_eq!(smin.1, mc.span_min.design, max_relative = 1e-9);
+    verify::close(
+        "span minimum against dense sampling",
+        "N·m",
+        smin.1,
+        mc.span_min.design,
+        1e-9,
+    );
 }
 
 #[test]
@@ -196,6 +225,7 @@ fn aisc_pr_is_pnt_plus_b2_plt_at_the_most_compressed_section() {
     // * Pr = Pnt + B2·Plt = 580 + B2·33.3 kN at the base, B2 the story's (A-8-6).
     // The first-order compression there is 580 + 33.3 = 613.3 kN, not the mean of the
     // ends (573.3 kN).
+    verify::source("AISC 360-16 App. 8 eqs. A-8-2, A-8-3, A-8-5 (from memory), by hand");
     let (l, h, ic) = (6.0, 4.0, 1e-4);
     let (mut f, [_, n1, n2, _, _, _, c2]) = portal(l, h, ic, 1000.0 * ic, false);
     f.model.analysis.notional = NotionalLoads::None;
@@ -211,15 +241,45 @@ fn aisc_pr_is_pnt_plus_b2_plt_at_the_most_compressed_section() {
     assert!(b2 > 1.0);
     let (pnt, plt) = (500e3 + 20e3 * h, 50e3 * h / l);
     // Axially rigid columns and a stiff girder: the held frame's girder shear is ~1e-6 of P.
-    assert_relative_eq!(mc.compression, pnt + plt, max_relative = 1e-5);
-    assert_relative_eq!(mc.axial, -(pnt + plt), max_relative = 1e-5);
-    assert_relative_eq!(mc.p_r.unwrap(), pnt + b2 * plt, max_relative = 1e-5);
+    verify::close(
+        "compression Pnt + Plt",
+        "N",
+        mc.compression,
+        pnt + plt,
+        1e-5,
+    );
+    verify::close(
+        "axial force −(Pnt + Plt)",
+        "N",
+        mc.axial,
+        -(pnt + plt),
+        1e-5,
+    );
+    verify::close(
+        "Pr = Pnt + B2·Plt",
+        "N",
+        mc.p_r.unwrap(),
+        pnt + b2 * plt,
+        1e-5,
+    );
     // B1 uses Pr (A-8-3): Cm = 1.0 here (pinned base, no no-sway moments: M2 = 0 gives
     // Cm = 1.0), Pe1 = π²·EI*/L² (A-8-5, K1 = 1, EI* the analysis stiffness).
     let pe1 = mc.p_critical.unwrap();
-    assert_relative_eq!(pe1, PI * PI * 200e9 * ic / (h * h), max_relative = 1e-12);
+    verify::close(
+        "Pe1 = π²EI/(K1L)², K1 = 1",
+        "N",
+        pe1,
+        PI * PI * 200e9 * ic / (h * h),
+        1e-12,
+    );
     let b1 = (mc.c_m.unwrap() / (1.0 - mc.p_r.unwrap() / pe1)).max(1.0);
-    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), b1, max_relative = 1e-12);
+    verify::close(
+        "B1 = Cm/(1 − Pr/Pe1)",
+        "-",
+        mc.non_sway_amplifier.unwrap(),
+        b1,
+        1e-12,
+    );
 }
 
 #[test]
@@ -252,6 +312,9 @@ fn aci_cm_from_the_magnified_total_end_moments_in_a_sway_story() {
     //   δ = Cm/(1 − Pu/(0.75·Pc)) = 0.63656/(1 − 0.38892) = 1.0417;
     //   Mc = δ·M2 = −16.51 kN·m at the base (with Cm = 0.40 it would be δ = 1.0 and
     //   −15.85 kN·m, 4 % low).
+    verify::source(
+        "ACI 318-19 §6.6.4.6.1, §6.6.4.6.4, §6.6.4.5.1–3 (from memory, reference notes §7.3), by hand",
+    );
     let (l, h, i) = (4.0, 4.0, 1e-4);
     let (mut f, [_, n1, n2, _, c1, beam, _]) = portal(l, h, i, i, true);
     f.model.analysis.method = SecondOrderMethod::AciMagnifier;
@@ -267,30 +330,72 @@ fn aci_cm_from_the_magnified_total_end_moments_in_a_sway_story() {
     let q = (2.0 * 1400e3 + w * l) / (84.0 * 200e9 * i / (5.0 * h * h * h) * h);
     let s = &case.stories[0];
     let tol = 1e-5; // axial shortening of A = 10 m² columns, relative
-    assert_relative_eq!(s.q_index, q, max_relative = tol);
+    verify::close("stability index Q", "-", s.q_index, q, tol);
     assert_eq!(s.classification, Classification::Sway, "{}", s.criterion);
     let ds = 1.0 / (1.0 - q);
     let mc = &case.members[c1];
     let (base_ns, top_ns) = (w * l * l / 36.0, -w * l * l / 18.0);
     let (base_s, top_s) = (-2.0 * hh / 7.0, 3.0 * hh / 14.0);
-    assert_relative_eq!(mc.ends[0].no_sway, base_ns, max_relative = tol);
-    assert_relative_eq!(mc.ends[1].no_sway, top_ns, max_relative = tol);
-    assert_relative_eq!(mc.ends[0].sway, base_s, max_relative = tol);
-    assert_relative_eq!(mc.ends[1].sway, top_s, max_relative = tol);
+    verify::close(
+        "no-sway moment at the base",
+        "N·m",
+        mc.ends[0].no_sway,
+        base_ns,
+        tol,
+    );
+    verify::close(
+        "no-sway moment at the top",
+        "N·m",
+        mc.ends[1].no_sway,
+        top_ns,
+        tol,
+    );
+    verify::close(
+        "sway moment at the base",
+        "N·m",
+        mc.ends[0].sway,
+        base_s,
+        tol,
+    );
+    verify::close("sway moment at the top", "N·m", mc.ends[1].sway, top_s, tol);
     let (m_base, m_top) = (base_ns + ds * base_s, top_ns + ds * top_s);
-    assert_relative_eq!(mc.ends[0].design, m_base, max_relative = tol);
+    verify::close(
+        "M2 = M2ns + δs·M2s at the base",
+        "N·m",
+        mc.ends[0].design,
+        m_base,
+        tol,
+    );
     let cm = 0.6 - 0.4 * (-(m_top / m_base).abs()); // single curvature: M1/M2 < 0
-    assert_relative_eq!(mc.c_m.unwrap(), cm, max_relative = tol);
-    assert_relative_eq!(cm, 0.63656, max_relative = 1e-4);
+    verify::close(
+        "Cm = 0.6 − 0.4·M1/M2 from the magnified totals",
+        "-",
+        mc.c_m.unwrap(),
+        cm,
+        tol,
+    );
+    verify::close("Cm by hand, 0.63656", "-", cm, 0.63656, 1e-4);
     let pu = 1400e3 + w * l / 2.0 - 2.0 * (3.0 * hh / 14.0) / l;
-    assert_relative_eq!(mc.compression, pu, max_relative = tol);
+    verify::close("Pu", "N", mc.compression, pu, tol);
     let pc = PI * PI * 0.4 * 200e9 * i / (h * h);
     let delta = cm / (1.0 - pu / (0.75 * pc));
-    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), delta, max_relative = tol);
-    assert_relative_eq!(delta, 1.0417, max_relative = 1e-3);
+    verify::close(
+        "δ = Cm/(1 − Pu/(0.75·Pc))",
+        "-",
+        mc.non_sway_amplifier.unwrap(),
+        delta,
+        tol,
+    );
+    verify::close("δ by hand, 1.0417", "-", delta, 1.0417, 1e-3);
     assert_relative_eq!(mc.span.x, 0.0);
-    assert_relative_eq!(mc.span.design, delta * m_base, max_relative = tol);
-    assert_relative_eq!(mc.span.design, -16.51e3, max_relative = 1e-3);
+    verify::close("Mc = δ·M2", "N·m", mc.span.design, delta * m_base, tol);
+    verify::close(
+        "Mc by hand, −16.51 kN·m",
+        "N·m",
+        mc.span.design,
+        -16.51e3,
+        1e-3,
+    );
 }
 
 /// A braced one-bay frame of pin-ended members (ACI 318 route, βdns = 0): pinned bases,
@@ -340,6 +445,9 @@ fn aci_second_order_limit_on_mc_of_a_braced_slender_column() {
     // * Mc = δ·M2,min = 2·Pu·0.027 m = 2.0 × the moment it magnifies, above the 1.4 limit
     //   of 6.2.5.3 (from memory): the member gets a note naming it.
     // Pc = π²·0.4·25e9·2.1333e-3/16 = 13.159 MN, Pu = 4.9348 MN, Mc = 266.5 kN·m.
+    verify::source(
+        "ACI 318-19 §6.6.4.5.2, §6.6.4.5.4 (M2,min, ACI 318M form) (from memory), by hand",
+    );
     let (mut f, [n1, _, c1, _]) = braced_frame(0.05, 1e-5);
     let pu = 0.5 * 0.75 * braced_frame_pc();
     let d = f.case("D", ActionCategory::Dead);
@@ -349,12 +457,30 @@ fn aci_second_order_limit_on_mc_of_a_braced_slender_column() {
     let s = &case.stories[0];
     assert_eq!(s.classification, Classification::NonSway, "{}", s.criterion);
     let mc = &case.members[c1];
-    assert_relative_eq!(mc.compression, pu, max_relative = 1e-9);
+    verify::close("Pu = 0.5·(0.75·Pc)", "N", mc.compression, pu, 1e-9);
     assert_relative_eq!(mc.c_m.unwrap(), 1.0);
-    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), 2.0, max_relative = 1e-9);
+    verify::close(
+        "δ = 1/(1 − 0.5) = 2.0",
+        "-",
+        mc.non_sway_amplifier.unwrap(),
+        2.0,
+        1e-9,
+    );
     let m2_min = pu * (0.015 + 0.03 * 0.4);
-    assert_relative_eq!(mc.span.design.abs(), 2.0 * m2_min, max_relative = 1e-9);
-    assert_relative_eq!(mc.span.design.abs(), 266.5e3, max_relative = 1e-3);
+    verify::close(
+        "Mc = δ·M2,min",
+        "N·m",
+        mc.span.design.abs(),
+        2.0 * m2_min,
+        1e-9,
+    );
+    verify::close(
+        "Mc by hand, 266.5 kN·m",
+        "N·m",
+        mc.span.design.abs(),
+        266.5e3,
+        1e-3,
+    );
     assert!(
         mc.notes.iter().any(|n| n.contains("6.6.4.5.4")),
         "{:?}",
@@ -384,6 +510,7 @@ fn aci_column_with_load_between_its_ends_keeps_its_in_span_moment() {
     //   Pu·0.027 m = 66.6 kN·m is smaller;
     // * δ = 1/(1 − 0.25) = 1.3333; Mc = δ·M2 = 133.3 kN·m at x = 2 m, where the in-span
     //   moment is (not at an end, where the moments are zero).
+    verify::source("ACI 318-19 §6.6.4.5 (from memory); statics of a pin-ended member, M = wh²/8");
     let (mut f, [n1, _, c1, _]) = braced_frame(0.05, 1e-5);
     let pu = 0.25 * 0.75 * braced_frame_pc();
     let d = f.case("D", ActionCategory::Dead);
@@ -393,19 +520,51 @@ fn aci_column_with_load_between_its_ends_keeps_its_in_span_moment() {
     let case = only_case(&f.model, &strength("D+W", &[(d, 1.0), (wind, 1.0)]));
     assert!(case.stable);
     let mc = &case.members[c1];
-    assert_relative_eq!(mc.compression, pu, max_relative = 1e-9);
+    verify::close("Pu = 0.25·(0.75·Pc)", "N", mc.compression, pu, 1e-9);
     assert_eq!(mc.c_m, Some(1.0));
-    assert_relative_eq!(
+    verify::close(
+        "δ = 1/(1 − 0.25) = 4/3",
+        "-",
         mc.non_sway_amplifier.unwrap(),
         4.0 / 3.0,
-        max_relative = 1e-9
+        1e-9,
     );
-    assert_relative_eq!(mc.span.x, 2.0, max_relative = 1e-9);
-    assert_relative_eq!(mc.span.first_order, 100e3, max_relative = 1e-6);
-    assert_relative_eq!(mc.span.design, 4.0 / 3.0 * 100e3, max_relative = 1e-6);
+    verify::close(
+        "position of the in-span moment, h/2",
+        "m",
+        mc.span.x,
+        2.0,
+        1e-9,
+    );
+    verify::close(
+        "first-order in-span moment wh²/8 = 100 kN·m",
+        "N·m",
+        mc.span.first_order,
+        100e3,
+        1e-6,
+    );
+    verify::close(
+        "design in-span moment δ·wh²/8",
+        "N·m",
+        mc.span.design,
+        4.0 / 3.0 * 100e3,
+        1e-6,
+    );
     // The diagram's own extreme stays reported as the in-span moment.
-    assert_relative_eq!(mc.span_max.x, 2.0, max_relative = 1e-9);
-    assert_relative_eq!(mc.span_max.design, 100e3, max_relative = 1e-6);
+    verify::close(
+        "position of the diagram's extreme",
+        "m",
+        mc.span_max.x,
+        2.0,
+        1e-9,
+    );
+    verify::close(
+        "diagram's own extreme, 100 kN·m",
+        "N·m",
+        mc.span_max.design,
+        100e3,
+        1e-6,
+    );
     for e in &mc.ends {
         assert!(e.design.abs() < 1e-6 * 100e3, "{e:?}");
     }
@@ -422,6 +581,7 @@ fn aci_non_sway_magnifier_is_for_columns_not_braces() {
     // case unstable; ACI 318-19 6.6.4.5 magnifies columns (common practice, no source:
     // braces are left to their own member checks), so the case is stable, the diagonal
     // has no δ, and the direct analysis converges.
+    verify::source("closed form: statics, N = H·Lb/L = 0.25·π²EI/L²");
     let (mut f, [_, n2, _, br]) = braced_frame(2e-3, 1e-6);
     f.model.analysis.beta_dns = 0.6;
     let lb = (36.0f64 + 16.0).sqrt();
@@ -431,7 +591,13 @@ fn aci_non_sway_magnifier_is_for_columns_not_braces() {
     f.nodal(wind, n2, -hx, 0.0, 0.0);
     let case = only_case(&f.model, &strength("1.0W", &[(wind, 1.0)]));
     let mc = &case.members[br];
-    assert_relative_eq!(mc.compression, 0.25 * pe, max_relative = 1e-3);
+    verify::close(
+        "brace compression, a quarter of its Euler load",
+        "N",
+        mc.compression,
+        0.25 * pe,
+        1e-3,
+    );
     assert!(case.direct.converged);
     assert!(mc.stable, "{:?}", mc.notes);
     assert!(case.stable);
@@ -481,6 +647,9 @@ fn ec3_judges_the_structure_by_its_lowest_alpha_cr() {
     // * V = 8.6 MN: α_story = 3.49 ≥ 3 (a story-by-story check would use the amplified
     //   method), α_frame = 2.87 < 3 → second-order analysis required: the sway effects
     //   take Δ2nd/Δ1st of the direct analysis, never 1/(1 − 1/α_story).
+    verify::source(
+        "EN 1993-1-1:2005 §5.2.1(3)/(4)B, §5.2.2(5)B/(6)B, eq. (5.2) (from memory, reference notes §8.2), by hand",
+    );
     let (h, ic, e) = (4.0, 1e-4, 200e9);
     let alpha_frame = |v: f64| 2.0 * PI * PI * e * ic / (h * h * v);
     let alpha_story = |v: f64| {
@@ -490,21 +659,41 @@ fn ec3_judges_the_structure_by_its_lowest_alpha_cr() {
     let v = 2.6e6;
     let (case, c1) = ec3_portal(v);
     let s = &case.stories[0];
-    assert_relative_eq!(s.alpha_cr_story, alpha_story(v), max_relative = 1e-5);
+    verify::close(
+        "story α_cr by (5.2)",
+        "-",
+        s.alpha_cr_story,
+        alpha_story(v),
+        1e-5,
+    );
     assert!(s.alpha_cr_story >= 10.0);
     let a = case.alpha_cr.unwrap();
-    assert_relative_eq!(a, alpha_frame(v), max_relative = 5e-3);
+    verify::close(
+        "frame α_cr of the lowest sway mode",
+        "-",
+        a,
+        alpha_frame(v),
+        5e-3,
+    );
     assert!(a < 10.0);
     let amp = 1.0 / (1.0 - 1.0 / a);
     assert_eq!(s.classification, Classification::Sway, "{}", s.criterion);
-    assert_relative_eq!(s.sway_amplifier.unwrap(), amp, max_relative = 1e-12);
+    verify::close(
+        "sway amplifier 1/(1 − 1/α_cr)",
+        "-",
+        s.sway_amplifier.unwrap(),
+        amp,
+        1e-12,
+    );
     assert!(s.criterion.contains("lowest sway mode"), "{}", s.criterion);
     let mc = &case.members[c1];
     for end in &mc.ends {
-        assert_relative_eq!(
+        verify::close(
+            "design end moment Mns + amp·Ms",
+            "N·m",
             end.design,
             end.no_sway + amp * end.sway,
-            max_relative = 1e-9
+            1e-9,
         );
     }
 
@@ -513,11 +702,23 @@ fn ec3_judges_the_structure_by_its_lowest_alpha_cr() {
     let v = 1.5e6;
     let (case, c1) = ec3_portal(v);
     let s = &case.stories[0];
-    assert_relative_eq!(case.alpha_cr.unwrap(), alpha_frame(v), max_relative = 5e-3);
+    verify::close(
+        "frame α_cr, non-sway case",
+        "-",
+        case.alpha_cr.unwrap(),
+        alpha_frame(v),
+        5e-3,
+    );
     assert_eq!(s.classification, Classification::NonSway, "{}", s.criterion);
     assert_eq!(s.sway_amplifier, Some(1.0));
     for end in &case.members[c1].ends {
-        assert_relative_eq!(end.design, end.first_order, max_relative = 1e-12);
+        verify::close(
+            "design end moment = first order (α_cr ≥ 10)",
+            "N·m",
+            end.design,
+            end.first_order,
+            1e-12,
+        );
     }
 
     let v = 8.6e6;
@@ -564,6 +765,7 @@ fn aci_column_under_wind_pressure_in_a_sway_story_takes_m2_along_its_height() {
     // With load between the ends Cm = 1.0 (6.6.4.5.3(b)) and M2 is the largest |D| over
     // the column, ends and x* (R6.6.4.5.3, from memory); Mc = δ·M2 at that section with
     // δ = 1/(1 − Pu/(0.75·Pc)) (6.6.4.5.2), Pc = π²·0.4·E·I/h² (6.6.4.4.2, 6.6.4.4.4(a)).
+    verify::source("ACI 318-19 §6.6.4.6.1, §6.6.4.5 (from memory), by hand");
     let (l, h, i) = (4.0, 4.0, 1e-4);
     let (mut f, [_, n1, n2, _, c1, _, _]) = portal(l, h, i, i, true);
     f.model.analysis.method = SecondOrderMethod::AciMagnifier;
@@ -597,7 +799,7 @@ fn aci_column_under_wind_pressure_in_a_sway_story_takes_m2_along_its_height() {
     let pc = PI * PI * 0.4 * 200e9 * i / (h * h);
     let delta = (1.0 / (1.0 - mc.compression / (0.75 * pc))).max(1.0);
     assert!(delta > 1.02, "δ = {delta}");
-    assert_relative_eq!(mc.non_sway_amplifier.unwrap(), delta, max_relative = 1e-12);
+    verify::close("δ", "-", mc.non_sway_amplifier.unwrap(), delta, 1e-12);
     println!(
         "column under wind pressure: ends {:.1} and {:.1} kN·m, D(x*) = {:.1} kN·m at \
          {x_star:.3} m; M2 = {:.1} kN·m at {x2:.3} m, Mc = {:.1} kN·m",
@@ -608,10 +810,28 @@ fn aci_column_under_wind_pressure_in_a_sway_story_takes_m2_along_its_height() {
         delta * m2 / 1e3
     );
     assert_relative_eq!(mc.span.x, x2, epsilon = 1e-9 * h);
-    assert_relative_eq!(mc.span.design, delta * m2, max_relative = 1e-9);
+    verify::close(
+        "Mc = δ·M2 along the height",
+        "N·m",
+        mc.span.design,
+        delta * m2,
+        1e-9,
+    );
     // The end moments stay Mns + δs·Ms, unmagnified by δ.
-    assert_relative_eq!(ei.design, dx(0.0), max_relative = 1e-9);
-    assert_relative_eq!(ej.design, dx(h), max_relative = 1e-9);
+    verify::close(
+        "design moment at the base D(0)",
+        "N·m",
+        ei.design,
+        dx(0.0),
+        1e-9,
+    );
+    verify::close(
+        "design moment at the top D(h)",
+        "N·m",
+        ej.design,
+        dx(h),
+        1e-9,
+    );
 }
 
 #[test]
@@ -628,6 +848,7 @@ fn aci_column_whose_in_span_moment_exceeds_its_end_moments() {
     //   D(x*) with D(x) = M_i + (M_j − M_i)·x/h + w·x(h − x)/2 (statics; non-sway story,
     //   first-order totals), D'(x*) = 0 → x* = h/2 + (M_j − M_i)/(w·h);
     // Mc = δ·D(x*) at x*, δ = 1/(1 − Pu/(0.75·Pc)) = 1/(1 − 0.25) = 4/3.
+    verify::source("ACI 318-19 §6.6.4.5 (from memory); moment distribution by hand");
     let (mut f, [n1, _, c1, _]) = braced_frame(0.05, 1e-5);
     let girder = 1;
     f.model.members[girder].release_i = false;
@@ -665,10 +886,28 @@ fn aci_column_whose_in_span_moment_exceeds_its_end_moments() {
     );
     let pu_reported = mc.compression;
     let delta = 1.0 / (1.0 - pu_reported / (0.75 * braced_frame_pc()));
-    assert_relative_eq!(delta, 4.0 / 3.0, max_relative = 1e-3);
+    verify::close("δ = 4/3", "-", delta, 4.0 / 3.0, 1e-3);
     assert_eq!(mc.c_m, Some(1.0));
-    assert_relative_eq!(mc.span.x, x_star, max_relative = 1e-9);
-    assert_relative_eq!(mc.span.design, delta * dx(x_star), max_relative = 1e-9);
+    verify::close(
+        "position of the in-span extreme",
+        "m",
+        mc.span.x,
+        x_star,
+        1e-9,
+    );
+    verify::close(
+        "Mc = δ·M(x*)",
+        "N·m",
+        mc.span.design,
+        delta * dx(x_star),
+        1e-9,
+    );
     // The top end keeps its own (unmagnified) moment; Mc does not replace the span.
-    assert_relative_eq!(ej.design, ej.first_order, max_relative = 1e-12);
+    verify::close(
+        "end moment j not magnified",
+        "N·m",
+        ej.design,
+        ej.first_order,
+        1e-12,
+    );
 }

@@ -10,6 +10,9 @@
 //! actions are the forces the supports exert on the member (CCW moments positive); the
 //! internal moment is positive sagging.
 
+mod common;
+
+use common::verify;
 use plumbline::model::LocalLoad;
 use plumbline::solve::EndForces;
 use plumbline::solve::beam::{
@@ -24,6 +27,7 @@ const TOL: f64 = 1e-10;
 /// Assert `actual ≈ expected` within `TOL` relative to `scale` (the size of the quantity).
 #[track_caller]
 fn check(what: &str, actual: f64, expected: f64, scale: f64) {
+    verify::note(what, "SI", expected, actual, scale.abs(), TOL);
     let err = (actual - expected).abs();
     assert!(
         err <= TOL * scale.abs(),
@@ -86,6 +90,7 @@ fn fixed_fixed_full_uniform_load() {
     // AISC Manual 15th ed., Table 3-23, beam fixed at both ends, uniformly distributed load:
     // R = wL/2, M_end = wL²/12 (from memory). Supports push up, hogging end moments:
     // Mz_i = +wL²/12 (CCW), Mz_j = −wL²/12.
+    verify::source("AISC Manual 15th ed., Table 3-23, fixed both ends, uniform load (from memory)");
     let f = fixed_end_forces(L, &[udl(0.0, L, -W)]);
     let (r, m) = (W * L / 2.0, W * L * L / 12.0);
     check_end(&f, [0.0, r, m, 0.0, r, -m], W * L, L);
@@ -98,6 +103,7 @@ fn fixed_fixed_partial_uniform_load() {
     // integrating over c..d with the antiderivatives
     //   ∫x(L−x)² = L²x²/2 − 2Lx³/3 + x⁴/4,   ∫x²(L−x) = Lx³/3 − x⁴/4,
     //   ∫(L−x)²(L+2x) = L³x − Lx³ + x⁴/2,     ∫x²(3L−2x) = Lx³ − x⁴/2.
+    verify::source("closed form: point-load case integrated over the loaded part");
     let (c, d) = (1.5, 4.0);
     let between = |g: &dyn Fn(f64) -> f64| g(d) - g(c);
     let m_i = W / (L * L)
@@ -115,6 +121,9 @@ fn fixed_fixed_triangular_load() {
     // AISC Manual 15th ed., Table 3-23, and Roark 8th ed., Table 8.1: beam fixed at both ends,
     // load increasing uniformly from 0 at i to w at j: M_i = wL²/30, M_j = wL²/20,
     // R_i = 3wL/20, R_j = 7wL/20 (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23; Roark 8th ed., Table 8.1: fixed both ends, triangular load (from memory)",
+    );
     let f = fixed_end_forces(L, &[linear_y(0.0, L, 0.0, -W)]);
     let expected = [
         0.0,
@@ -132,6 +141,9 @@ fn fixed_fixed_trapezoidal_load() {
     // Superposition of the two handbook cases above (uniform w1 plus triangle 0 → w2 − w1):
     // M_i = w1L²/12 + (w2−w1)L²/30, M_j = w1L²/12 + (w2−w1)L²/20,
     // R_i = w1L/2 + 3(w2−w1)L/20, R_j = w1L/2 + 7(w2−w1)L/20 (AISC Table 3-23, from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, uniform + triangular by superposition (from memory)",
+    );
     let (w1, w2) = (4.0e3, 10.0e3);
     let dw = w2 - w1;
     let f = fixed_end_forces(L, &[linear_y(0.0, L, -w1, -w2)]);
@@ -150,6 +162,9 @@ fn fixed_fixed_trapezoidal_load() {
 fn fixed_fixed_central_point_load() {
     // AISC Manual 15th ed., Table 3-23, beam fixed at both ends, concentrated load at center:
     // R = P/2, M_end = PL/8 (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, fixed both ends, central point load (from memory)",
+    );
     let f = fixed_end_forces(L, &[point(L / 2.0, -P)]);
     check_end(
         &f,
@@ -163,6 +178,9 @@ fn fixed_fixed_central_point_load() {
 fn fixed_fixed_off_centre_point_load() {
     // AISC Manual 15th ed., Table 3-23, beam fixed at both ends, concentrated load at any
     // point: M1 = Pab²/L², M2 = Pa²b/L², R1 = Pb²(3a+b)/L³, R2 = Pa²(a+3b)/L³ (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, fixed both ends, point load at any point (from memory)",
+    );
     let (a, b) = (1.8, L - 1.8);
     let f = fixed_end_forces(L, &[point(a, -P)]);
     let expected = [
@@ -184,6 +202,7 @@ fn fixed_fixed_concentrated_moment() {
     //   −Mz_i·L + Fy_i·L²/2 − M0·b = 0,   −Mz_i·L²/2 + Fy_i·L³/3 − M0(L² − a²)/2 = 0,
     // so Fy_i = 6·M0·a·b/L³, Mz_i = M0·b(2a − b)/L², and from equilibrium Fy_j = −Fy_i,
     // Mz_j = M0·a(2b − a)/L².
+    verify::source("closed form: moment-area conditions of a couple on a fixed-fixed beam");
     let m0 = 30.0e3;
     let (a, b) = (2.0, L - 2.0);
     let f = fixed_end_forces(L, &[LocalLoad::Moment { a, m: m0 }]);
@@ -205,6 +224,7 @@ fn fixed_fixed_axial_loads() {
     // forces with equal and opposite elongations, R_i·a = R_j·b, R_i + R_j = px, so the
     // supports exert −px·b/L at i and −px·a/L at j. A uniform axial load qx splits equally,
     // −qx·L/2 at each end.
+    verify::source("closed form: compatibility of a bar fixed at both ends");
     let (px, qx, a) = (20.0e3, 3.0e3, 1.5);
     let b = L - a;
     let f = fixed_end_forces(L, &[LocalLoad::Point { a, px, py: 0.0 }]);
@@ -232,6 +252,7 @@ fn consistent_loads_are_the_exact_fixed_end_forces() {
     // deflected shape obtained by integrating v'' = M/EI from statics alone must also satisfy
     // the two remaining fixed-end conditions θ(0) = θ(L) = 0. This checks the Hermite
     // consistent loads against the exact solution for every load kind at once.
+    verify::source("closed form: θ = v = 0 at fixed ends by integrating M/EI");
     let loads = [
         linear_y(0.7, 4.9, -3.0e3, -11.0e3),
         point(2.3, -P),
@@ -255,6 +276,9 @@ fn consistent_loads_are_the_exact_fixed_end_forces() {
 fn propped_cantilever_uniform_load() {
     // AISC Manual 15th ed., Table 3-23, beam fixed at one end, supported at other, uniformly
     // distributed load: R_fixed = 5wL/8, R_pinned = 3wL/8, M_fixed = wL²/8 (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, fixed one end, supported other, uniform load (from memory)",
+    );
     let loads = [udl(0.0, L, -W)];
     let (r5, r3, m) = (5.0 * W * L / 8.0, 3.0 * W * L / 8.0, W * L * L / 8.0);
     let fixed_i = condensed_fixed_end_forces(L, &loads, false, true);
@@ -276,6 +300,9 @@ fn propped_cantilever_point_load() {
     // concentrated load at any point, a measured from the supported end, b = L − a:
     // R1 (supported) = Pb²(a + 2L)/(2L³), R2 (fixed) = Pa(3L² − a²)/(2L³),
     // M2 (fixed end) = Pab(a + L)/(2L²) (from memory). Here end i is fixed, end j pinned.
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, fixed one end, supported other, point load (from memory)",
+    );
     let x_p = 2.2;
     let (a, b) = (L - x_p, x_p);
     let f = condensed_fixed_end_forces(L, &[point(x_p, -P)], false, true);
@@ -298,6 +325,7 @@ fn propped_cantilever_point_load() {
 fn simply_supported_uniform_load_moment_and_deflection() {
     // AISC Manual 15th ed., Table 3-23, simple beam, uniformly distributed load:
     // R = wL/2, M_max = wL²/8 at center, Δ_max = 5wL⁴/(384EI) at center (from memory).
+    verify::source("AISC Manual 15th ed., Table 3-23, simple beam, uniform load (from memory)");
     let loads = [udl(0.0, L, -W)];
     let f = condensed_fixed_end_forces(L, &loads, true, true);
     check_end(&f, [0.0, W * L / 2.0, 0.0, 0.0, W * L / 2.0, 0.0], W * L, L);
@@ -327,6 +355,9 @@ fn simply_supported_uniform_load_moment_and_deflection() {
 fn fixed_fixed_uniform_load_deflection() {
     // AISC Manual 15th ed., Table 3-23, beam fixed at both ends, uniformly distributed load:
     // Δ_max = wL⁴/(384EI) at center (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, fixed both ends, uniform load, deflection (from memory)",
+    );
     let loads = [udl(0.0, L, -W)];
     let f = fixed_end_forces(L, &loads);
     let st = stations(L, EI, &f, &loads, 0.0, 0.0, 9);
@@ -345,6 +376,7 @@ fn fixed_fixed_uniform_load_deflection() {
 fn end_displacements_add_a_rigid_body_motion() {
     // closed form: v(x) is linear in the end displacements, so moving the supports by v_i,
     // v_j adds v_i + (v_j − v_i)·x/L to the deflected shape and nothing to the forces.
+    verify::source("closed form: rigid-body motion of the supports");
     let loads = [udl(0.0, L, -W)];
     let f = condensed_fixed_end_forces(L, &loads, true, true);
     let (vi, vj) = (-0.004, 0.011);
@@ -371,6 +403,7 @@ fn cantilever_uniform_load_from_end_forces() {
     // AISC Manual 15th ed., Table 3-23, cantilever beam, uniformly distributed load
     // (from memory): M_x = −w(L−x)²/2 (hogging), Δ_x = w x²(6L² − 4Lx + x²)/(24EI) measured
     // from the support, Δ_max = wL⁴/(8EI) at the free end, tip slope wL³/(6EI).
+    verify::source("AISC Manual 15th ed., Table 3-23, cantilever, uniform load (from memory)");
     let loads = [udl(0.0, L, -W)];
     let end = EndForces {
         i: [0.0, W * L, W * L * L / 2.0],
@@ -402,6 +435,7 @@ fn cantilever_uniform_load_from_end_forces() {
 fn cantilever_tip_load_from_end_forces() {
     // AISC Manual 15th ed., Table 3-23, cantilever beam, concentrated load at free end
     // (from memory): M_max = PL at the support, Δ_max = PL³/(3EI), tip slope PL²/(2EI).
+    verify::source("AISC Manual 15th ed., Table 3-23, cantilever, load at free end (from memory)");
     let loads = [point(L, -P)];
     let end = EndForces {
         i: [0.0, P, P * L],
@@ -429,6 +463,9 @@ fn cantilever_tip_load_from_end_forces() {
 fn simple_beam_off_centre_point_load_extremes() {
     // AISC Manual 15th ed., Table 3-23, simple beam, concentrated load at any point:
     // M_max = Pab/L at the load (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, simple beam, point load at any point (from memory)",
+    );
     let (a, b) = (2.5, L - 2.5);
     let loads = [point(a, -P)];
     let f = condensed_fixed_end_forces(L, &loads, true, true);
@@ -450,6 +487,9 @@ fn simple_beam_triangular_load_extremes() {
     // AISC Manual 15th ed., Table 3-23, simple beam, load increasing uniformly to one end,
     // total load W = wL/2: M_max = 2WL/(9√3) = wL²/(9√3) at x = L/√3 from the unloaded end
     // (from memory).
+    verify::source(
+        "AISC Manual 15th ed., Table 3-23, simple beam, load increasing to one end (from memory)",
+    );
     let loads = [linear_y(0.0, L, 0.0, -W)];
     let f = condensed_fixed_end_forces(L, &loads, true, true);
     let ext = span_extremes(L, &f, &loads);
@@ -468,6 +508,7 @@ fn simple_beam_central_couple_extremes_on_both_sides() {
     // Fy_j·L + M0 = 0, so Fy_j = −M0/L and Fy_i = +M0/L. Then M(x) = Fy_i·x = M0·x/L left of
     // the couple and M0·x/L − M0 = −M0(L−x)/L right of it (M = … − Σm): extremes +M0/2 just
     // left and −M0/2 just right of the couple.
+    verify::source("closed form: statics of a simple beam with a central couple");
     let m0 = 40.0e3;
     let loads = [LocalLoad::Moment { a: L / 2.0, m: m0 }];
     let f = condensed_fixed_end_forces(L, &loads, true, true);
@@ -490,6 +531,7 @@ fn fixed_fixed_uniform_load_inflection_points() {
     // common practice, no source: the inflection points of a fixed-fixed beam under uniform
     // load lie at about 0.211L from each end. closed form: M(x) = −wL²/12 + wLx/2 − wx²/2 = 0
     // gives x² − Lx + L²/6 = 0, x = L(1/2 ∓ 1/(2√3)) ≈ 0.2113L and 0.7887L.
+    verify::source("common practice, no source (0.21 L); closed form x = L(1/2 ∓ 1/(2√3))");
     let loads = [udl(0.0, L, -W)];
     let f = fixed_end_forces(L, &loads);
     for x in [L * (0.5 - 0.5 / 3f64.sqrt()), L * (0.5 + 0.5 / 3f64.sqrt())] {

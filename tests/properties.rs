@@ -23,6 +23,7 @@
 mod common;
 
 use common::random_frame::RandomFrame;
+use common::verify;
 use plumbline::check::check;
 use plumbline::model::{LoadDirection, MemberLoadKind, Model, Restraint};
 use plumbline::solve::linear::MeshLoads;
@@ -57,6 +58,7 @@ fn assert_same(a: &Solution, b: &Solution, what: &str) {
     let (us, fs) = scale(a);
     for (n, (x, y)) in a.displacements.iter().zip(&b.displacements).enumerate() {
         for k in 0..3 {
+            verify::observe((x[k] - y[k]).abs() / us);
             assert!(
                 (x[k] - y[k]).abs() <= TOL * us,
                 "{what}: node {n} displacement {k}: {} vs {}",
@@ -67,6 +69,7 @@ fn assert_same(a: &Solution, b: &Solution, what: &str) {
     }
     for (n, (x, y)) in a.reactions.iter().zip(&b.reactions).enumerate() {
         for k in 0..3 {
+            verify::observe((x[k] - y[k]).abs() / fs);
             assert!(
                 (x[k] - y[k]).abs() <= TOL * fs,
                 "{what}: node {n} reaction {k}: {} vs {}",
@@ -78,6 +81,7 @@ fn assert_same(a: &Solution, b: &Solution, what: &str) {
     for (m, (x, y)) in a.end_forces.iter().zip(&b.end_forces).enumerate() {
         let (x, y) = (x.to_array(), y.to_array());
         for k in 0..6 {
+            verify::observe((x[k] - y[k]).abs() / fs);
             assert!(
                 (x[k] - y[k]).abs() <= TOL * fs,
                 "{what}: member {m} end force {k}: {} vs {}",
@@ -136,6 +140,7 @@ fn equilibrium_at_every_node() {
             for n in 0..model.nodes.len() {
                 let r = node_out_of_balance(model, case, &s, n);
                 for (k, v) in r.iter().enumerate() {
+                    verify::observe(v.abs() / fs);
                     assert!(
                         v.abs() <= TOL * fs,
                         "frame {seed}, case {case}, node {n}, component {k}: out of balance {v} N"
@@ -144,6 +149,14 @@ fn equilibrium_at_every_node() {
             }
         }
     }
+    verify::property(
+        "properties/equilibrium_at_every_node",
+        "statics at every node of every load case: applied loads + reactions − member end actions = 0",
+        (FRAMES) as usize,
+        "largest out-of-balance / the solution's largest force",
+        verify::observed(),
+        "1e-9 (TOL)",
+    );
 }
 
 #[test]
@@ -176,6 +189,14 @@ fn a_factored_solution_is_the_factored_sum_of_the_load_cases() {
             );
         }
     }
+    verify::property(
+        "properties/a_factored_solution_is_the_factored_sum_of_the_load_cases",
+        "a factored case solved directly equals the factor-weighted sum of its load cases, and its no-sway + sway parts equal the free frame",
+        (FRAMES) as usize,
+        "largest difference / the solution's largest displacement or force",
+        verify::observed(),
+        "1e-9 (TOL)",
+    );
 }
 
 /// The model reflected in the line x = 0, with its loads reflected: nodal fx and mz and
@@ -249,6 +270,14 @@ fn a_mirrored_frame_gives_mirrored_results() {
             );
         }
     }
+    verify::property(
+        "properties/a_mirrored_frame_gives_mirrored_results",
+        "the frame reflected in x = 0 with its loads gives the reflected results",
+        (FRAMES) as usize,
+        "largest difference / the solution's largest displacement or force",
+        verify::observed(),
+        "1e-9 (TOL)",
+    );
 }
 
 #[test]
@@ -293,6 +322,14 @@ fn a_rigid_translation_changes_no_result() {
             }
         }
     }
+    verify::property(
+        "properties/a_rigid_translation_changes_no_result",
+        "moving every node by the same vector changes no result (first order; the whole check on every fourth frame)",
+        (FRAMES) as usize,
+        "largest difference / the solution's largest displacement or force",
+        verify::observed(),
+        "1e-9 (TOL)",
+    );
 }
 
 /// Exact unit definitions for the change-of-units property (NIST SP 811, Appendix B:
@@ -445,6 +482,14 @@ fn the_model_files_units_change_no_result() {
             assert_same(&s0, &sa, &format!("frame {seed}, case {case}, SI vs kN-m"));
         }
     }
+    verify::property(
+        "properties/the_model_files_units_change_no_result",
+        "the frame written as a model file in kN-m and in kip-ft and read back gives the SI results",
+        (FRAMES / 2) as usize,
+        "largest difference / the solution's largest displacement or force",
+        verify::observed(),
+        "1e-9 (TOL)",
+    );
 }
 
 #[test]
@@ -478,11 +523,13 @@ fn lateral_loads_the_holds_take_leave_the_no_sway_part_unchanged() {
             let close = |x: &Solution, y: &Solution, tag: &str| {
                 for (a, b) in x.displacements.iter().zip(&y.displacements) {
                     for k in 0..3 {
+                        verify::observe((a[k] - b[k]).abs() / us);
                         assert!((a[k] - b[k]).abs() <= TOL * us, "{what}: {tag}");
                     }
                 }
                 for (a, b) in x.end_forces.iter().zip(&y.end_forces) {
                     for (p, q) in a.to_array().iter().zip(b.to_array()) {
+                        verify::observe((p - q).abs() / fs);
                         assert!((p - q).abs() <= TOL * fs, "{what}: {tag}");
                     }
                 }
@@ -504,4 +551,12 @@ fn lateral_loads_the_holds_take_leave_the_no_sway_part_unchanged() {
             );
         }
     }
+    verify::property(
+        "properties/lateral_loads_the_holds_take_leave_the_no_sway_part_unchanged",
+        "lateral loads at the held levels leave the no-sway part unchanged and enter the sway part whole",
+        (FRAMES) as usize,
+        "largest difference / the solution's largest displacement or force",
+        verify::observed(),
+        "1e-9 (TOL)",
+    );
 }

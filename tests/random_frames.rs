@@ -9,6 +9,7 @@
 mod common;
 
 use common::random_frame::RandomFrame;
+use common::verify;
 use plumbline::check::story::StiffnessSource;
 use plumbline::check::{CaseCheck, Classification, check};
 use plumbline::model::{LoadDirection, MemberLoadKind, SecondOrderMethod};
@@ -188,6 +189,9 @@ fn span_extremes_equal_a_dense_sampling_of_the_design_diagram() {
                     let between = k_ns * w * (l / N as f64).powi(2) / 8.0 + round;
                     let what =
                         format!("seed {seed}, {method}, case {}, member {}", c.id, mc.member);
+                    verify::observe((mc.ends[0].design - d(0.0)).abs() / scale);
+                    verify::observe((mc.ends[1].design - d(l)).abs() / scale);
+                    verify::observe((d(mc.span_max.x) - mc.span_max.design).abs() / scale);
                     assert!((mc.ends[0].design - d(0.0)).abs() <= round, "{what}: end i");
                     assert!((mc.ends[1].design - d(l)).abs() <= round, "{what}: end j");
                     let (hi, lo) = (mc.span_max, mc.span_min);
@@ -250,6 +254,19 @@ fn span_extremes_equal_a_dense_sampling_of_the_design_diagram() {
     // analysis's moments (checked with the direct method's above), so fewer results are
     // amplified ones.
     assert!(checked > 5_000, "{checked}");
+    verify::property(
+        "random_frames/span_extremes_equal_a_dense_sampling_of_the_design_diagram",
+        &format!(
+            "design end moments and span extremes of the amplified diagram (AISC, ACI, EN 1993) \
+             equal the diagram rebuilt from its parts at the ends and bound a 400-station \
+             sample; {checked} member results, and the direct method's extremes bracket its \
+             end moments on {direct}"
+        ),
+        FRAMES as usize,
+        "largest end or extreme mismatch / the diagram's largest moment",
+        verify::observed(),
+        "1e-9 (span extremes: + w·(L/400)²/8)",
+    );
 }
 
 /// A second-order amplifier of sway effects is never below 1: B2 (AISC 360-16 A-8-6 is
@@ -310,6 +327,16 @@ fn no_false_instability_and_same_signed_story_patterns() {
         );
     }
     assert!(by_member_formula.is_empty(), "{by_member_formula:?}");
+    verify::property(
+        "random_frames/no_false_instability_and_same_signed_story_patterns",
+        "no case is declared unstable by a story or member formula while α_cr ≥ 2 and the \
+         direct analysis converged; every story stiffness comes from a same-signed pattern; \
+         every sway amplifier is at least 1 (AISC, ACI, EN 1993, direct)",
+        FRAMES as usize,
+        "cases unstable by a member formula only",
+        by_member_formula.len() as f64,
+        "none",
+    );
 }
 
 /// Order statistics of `v` (sorted in place): min, 10 %, median, 90 %, max.

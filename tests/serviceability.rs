@@ -7,7 +7,7 @@ mod common;
 use std::collections::BTreeMap;
 
 use common::random_frame::{RandomFrame, factored};
-use common::{Frame, portal};
+use common::{Frame, portal, verify};
 use plumbline::combos::{Basis, FactoredCase};
 use plumbline::model::{ActionCategory, LoadDirection, Model, Restraint, StiffnessPreset};
 use plumbline::service::{
@@ -69,8 +69,27 @@ fn cantilever_column_tip_drift_is_p_h3_over_3ei() {
     let r = run(f.model, &[service("W", &[(w, 1.0)])], &limits(None));
     let exact = p * h.powi(3) / (3.0 * E * i);
     let s = &r.cases[0].stories[0];
-    assert!((s.drift_first_order - exact).abs() <= 1e-6 * exact, "{s:?}");
-    assert!((s.drift_second_order.unwrap() - exact).abs() <= 1e-6 * exact);
+    let src = "closed form δ = P·h³/(3EI): Roark 8th ed., Table 8.1 case 1a (from memory)";
+    let q = "cantilever column tip drift under a tip load, first order";
+    verify::check(
+        "serviceability/cantilever-drift/first-order",
+        q,
+        "m",
+        src,
+        exact,
+        s.drift_first_order,
+        1e-6,
+    );
+    let q = "cantilever column tip drift under a tip load, second order without axial load";
+    verify::check(
+        "serviceability/cantilever-drift/second-order",
+        q,
+        "m",
+        src,
+        exact,
+        s.drift_second_order.unwrap(),
+        1e-6,
+    );
     // Verdict against h/400: ratio = δ / (h/400).
     let g = r.stories[0].governing.as_ref().unwrap();
     assert!((g.ratio - exact / (h / 400.0)).abs() <= 1e-6 * g.ratio);
@@ -100,8 +119,34 @@ fn seismic_drift_is_cd_times_elastic_drift_over_ie() {
     );
     let delta_xe = p * h.powi(3) / (3.0 * E * i);
     let s = &r.seismic[0];
-    assert!((s.delta_xe - delta_xe).abs() <= 1e-6 * delta_xe);
-    assert!((s.delta - 5.5 * delta_xe / 1.25).abs() <= 1e-6 * s.delta);
+    let src = "ASCE/SEI 7-16 §12.8.6 eq. (12.8-15), Table 12.12-1 (from memory); δxe = P·h³/(3EI)";
+    verify::check(
+        "serviceability/seismic-drift/delta-xe",
+        "elastic seismic drift δxe of a flagpole",
+        "m",
+        src,
+        delta_xe,
+        s.delta_xe,
+        1e-6,
+    );
+    verify::check(
+        "serviceability/seismic-drift/delta-x",
+        "design story drift δx = Cd·δxe/Ie, Cd = 5.5, Ie = 1.25",
+        "m",
+        src,
+        5.5 * delta_xe / 1.25,
+        s.delta,
+        1e-6,
+    );
+    verify::check(
+        "serviceability/seismic-drift/allowable",
+        "allowable drift Δa = 0.015·hsx, risk category III",
+        "m",
+        src,
+        0.015 * h,
+        s.allowable,
+        1e-9,
+    );
     assert!((s.allowable - 0.015 * h).abs() <= 1e-12);
     assert!((s.ratio - s.delta / s.allowable).abs() <= 1e-12 * s.ratio);
 }
@@ -124,7 +169,15 @@ fn fixed_base_portal_drift_by_slope_deflection() {
         let exact = hforce * h.powi(3) * (2.0 + 3.0 * k) / (12.0 * E * ic * (1.0 + 6.0 * k));
         let d = r.cases[0].stories[0].drift_first_order;
         // Axial shortening (A = 10 m²) is outside the closed form: a few parts in 10⁶.
-        assert!((d - exact).abs() <= 1e-4 * exact, "k = {k}: {d} vs {exact}");
+        verify::check(
+            &format!("serviceability/portal-drift/k={k}"),
+            &format!("fixed-base portal sway under H, k = (Ib/Ic)(h/L) = {k}"),
+            "m",
+            "closed form by slope-deflection: Δ = H·h³(2 + 3k)/(12EIc(1 + 6k))",
+            exact,
+            d,
+            1e-4,
+        );
     }
 }
 
@@ -142,7 +195,15 @@ fn simply_supported_beam_deflection_is_5wl4_over_384ei() {
     let r = run(f.model, &[service("L", &[(live, 1.0)])], &limits(None));
     let exact = 5.0 * w * l.powi(4) / (384.0 * E * ib);
     let beam = &r.cases[0].beams[0];
-    assert!((beam.total.abs() - exact).abs() <= 1e-9 * exact, "{beam:?}");
+    verify::check(
+        "serviceability/beam-deflection/simple-span",
+        "simply supported beam mid-span deflection 5wL⁴/(384EI)",
+        "m",
+        "closed form: Roark 8th ed., Table 8.1 case 2e (from memory)",
+        exact,
+        beam.total.abs(),
+        1e-9,
+    );
     assert!((beam.total_x - l / 2.0).abs() <= 1e-6 * l);
     // All of it is live load: the live part is the same figure.
     assert!((beam.live - beam.total).abs() <= 1e-12 * exact);
@@ -185,7 +246,15 @@ fn fixed_fixed_beam_deflection_relative_to_its_chord_is_wl4_over_384ei() {
     let stiffness = member_stiffness(&model);
     let (v, x) = beam_deflection(&model, &stiffness, &s, &[(live, 1.0)], m, None);
     let exact = w * l.powi(4) / (384.0 * E * ib);
-    assert!((v.abs() - exact).abs() <= 1e-9 * exact, "{v} vs {exact}");
+    verify::check(
+        "serviceability/beam-deflection/fixed-fixed",
+        "fixed-ended beam mid-span deflection relative to its chord wL⁴/(384EI)",
+        "m",
+        "closed form: Roark 8th ed., Table 8.1 case 2e, both ends fixed (from memory)",
+        exact,
+        v.abs(),
+        1e-9,
+    );
     assert!((x - l / 2.0).abs() <= 1e-6 * l);
 }
 
@@ -215,9 +284,14 @@ fn cantilever_beam_tip_deflection_and_its_2l_limit() {
     let b = &r.cases[0].beams[0];
     assert!(b.cantilever);
     // Axial shortening of the column (A = 10 m²) moves root and tip alike.
-    assert!(
-        (b.total.abs() - exact).abs() <= 1e-9 * exact,
-        "{b:?} vs {exact}"
+    verify::check(
+        "serviceability/beam-deflection/cantilever",
+        "cantilever beam tip deflection wL⁴/(8EI) + root rotation θ·L",
+        "m",
+        "closed form: Roark 8th ed., Table 8.1 case 2a (from memory)",
+        exact,
+        b.total.abs(),
+        1e-9,
     );
     let v = &r.beams[0];
     assert!((v.limit_length - 2.0 * l).abs() <= 1e-12);
@@ -252,14 +326,24 @@ fn flagpole_p_delta_drift_against_the_amplifier_1_over_1_minus_p_over_pcr() {
         let u = (p / (E * i)).sqrt() * h;
         let exact = 3.0 * (u.tan() - u) / u.powi(3);
         // The P-Δ/P-δ analysis (8 elements, consistent geometric stiffness) to 0.1 %.
-        assert!(
-            (amp - exact).abs() <= 1e-3 * exact,
-            "P/Pcr {ratio}: {amp} vs {exact}"
+        verify::check(
+            &format!("serviceability/flagpole-amplifier/P-over-Pcr={ratio}/exact"),
+            &format!("drift amplification Δ2nd/Δ1st of a flagpole, P/Pcr = {ratio}"),
+            "-",
+            "closed form 3(tan u − u)/u³: reference notes §5 Case 2 [X]; Timoshenko & Gere §1.11 (from memory)",
+            exact,
+            amp,
+            1e-3,
         );
         let approx = 1.0 / (1.0 - ratio);
-        assert!(
-            (amp - approx).abs() <= 0.01 * approx,
-            "P/Pcr {ratio}: {amp} vs {approx}"
+        verify::check(
+            &format!("serviceability/flagpole-amplifier/P-over-Pcr={ratio}/approx"),
+            &format!("drift amplification against 1/(1 − P/Pcr), P/Pcr = {ratio}"),
+            "-",
+            "AISC 360-16 Commentary App. 8, amplifier 1/(1 − P/Pcr) (from memory)",
+            approx,
+            amp,
+            0.01,
         );
         // The service drift is the second-order one.
         assert!((s.drift() - s.drift_first_order * amp).abs() <= 1e-9 * s.drift().abs());
@@ -303,6 +387,7 @@ fn random_frames_service_drift_is_gross_first_order_drift_times_the_second_order
                 .max(1e-300);
             for ((s, st), d) in c.stories.iter().zip(&stories).zip(&drifts) {
                 let tol = 1e-7 * scale * st.height();
+                verify::observe((s.drift_first_order - d).abs() / (scale * st.height()));
                 assert!(
                     (s.drift_first_order - d).abs() <= tol,
                     "seed {seed} case {} story {}: {} vs gross {d}",
@@ -322,6 +407,15 @@ fn random_frames_service_drift_is_gross_first_order_drift_times_the_second_order
             }
         }
     }
+    verify::property(
+        "serviceability/random_frames_service_drift_is_gross_first_order_drift_times_the_second_order_ratio",
+        "each story's service drift is the gross-section first-order drift of the case (and, \
+         where P-Δ is run, times the case's Δ2nd/Δ1st)",
+        FRAMES as usize,
+        "largest first-order drift difference / (largest drift ratio × story height)",
+        verify::observed(),
+        "1e-7",
+    );
 }
 
 #[test]
@@ -353,6 +447,7 @@ fn random_frames_chord_relative_deflection_equals_dense_sampling() {
                     .iter()
                     .map(|p| (p.deflection - (vi + (vj - vi) * p.x / l)).abs())
                     .fold(0.0, f64::max);
+                verify::observe((sampled - b.total.abs()).abs() / scale);
                 assert!(
                     sampled <= b.total.abs() + 1e-9 * scale,
                     "seed {seed} {} {}: sample {sampled} above the extreme {}",
@@ -370,6 +465,15 @@ fn random_frames_chord_relative_deflection_equals_dense_sampling() {
             }
         }
     }
+    verify::property(
+        "serviceability/random_frames_chord_relative_deflection_equals_dense_sampling",
+        "each beam's exact deflection relative to its chord bounds a 4001-station sample and \
+         the sample comes within (L/4000)²·|v''|/2 of it",
+        FRAMES as usize,
+        "largest |sampled − exact| / the case's largest beam deflection",
+        verify::observed(),
+        "above: 1e-9; below: 1e-4",
+    );
 }
 
 /// `check` of a shipped example with `args` (format and options), as one text.

@@ -3,9 +3,8 @@
 
 mod common;
 
-use common::strength;
+use common::{strength, verify};
 
-use approx::assert_relative_eq;
 use common::Frame;
 use plumbline::check::story::StiffnessSource;
 use plumbline::check::{CheckReport, Classification, check};
@@ -68,6 +67,7 @@ fn issue_frame_under_1_4d_is_not_unstable() {
     // roof load pushes the roof one way, the floor the other), so story 1's own net shear
     // is almost zero while it drifts. The stiffness must come from a same-signed pattern,
     // and the case is not unstable: the buckling analysis gives α_cr far above 1.
+    verify::source("AISC 360-16 App. 8 eq. A-8-7 (from memory): H/ΔH of the pattern");
     let (mut model, d) = issue_frame();
     for method in [
         SecondOrderMethod::AiscB1B2,
@@ -91,10 +91,12 @@ fn issue_frame_under_1_4d_is_not_unstable() {
                 assert!(s.stiffness.is_finite() && s.stiffness > 0.0);
                 // H/Δ is exactly the pattern's shear over its drift (AISC 360-16 A-8-7
                 // writes Pe,story with H/ΔH, from memory).
-                assert_relative_eq!(
+                verify::close(
+                    "story stiffness H/Δ against the pattern's shear over its drift",
+                    "N/m",
                     s.stiffness,
                     s.stiffness_shear / s.stiffness_drift,
-                    max_relative = 1e-12
+                    1e-12,
                 );
             }
         }
@@ -103,6 +105,9 @@ fn issue_frame_under_1_4d_is_not_unstable() {
 
 #[test]
 fn issue_frame_story_one_uses_a_reference_pattern_and_b2_follows_a_8_6() {
+    verify::source(
+        "AISC 360-16 App. 8 eqs. A-8-6, A-8-7 (from memory), by hand from the reported figures",
+    );
     let (mut model, d) = issue_frame();
     model.analysis.notional = NotionalLoads::None;
     model.analysis.method = SecondOrderMethod::AiscB1B2;
@@ -119,9 +124,15 @@ fn issue_frame_story_one_uses_a_reference_pattern_and_b2_follows_a_8_6() {
     // Pe,story = RM·(H/ΔH)·L, B2 = 1/(1 − α·Pstory/Pe,story) with α = 1.0 (LRFD).
     for s in &c.stories {
         let p_e = s.r_m * s.stiffness * s.height;
-        assert_relative_eq!(s.p_e_story, p_e, max_relative = 1e-12);
+        verify::close("Pe,story = RM·(H/ΔH)·L", "N", s.p_e_story, p_e, 1e-12);
         let b2 = 1.0 / (1.0 - s.sum_p / p_e);
-        assert_relative_eq!(s.b2.unwrap(), b2.max(1.0), max_relative = 1e-12);
+        verify::close(
+            "B2 = 1/(1 − α·Pstory/Pe,story)",
+            "-",
+            s.b2.unwrap(),
+            b2.max(1.0),
+            1e-12,
+        );
         // The frame's buckling load factor is far above 1, and B2 must be consistent with
         // it: B2 ≈ 1/(1 − 1/α_cr) within the RM factor (AISC 360-16 Commentary App. 8,
         // from memory; 1/α_cr ≤ ΣP/Pe,story·(1/0.85) for this sway mode).
@@ -140,6 +151,7 @@ fn own_lateral_forces_are_used_where_they_push_every_story_the_same_way() {
     // A wind-like case with the same sign at both levels: the case's own forces are a valid
     // pattern for both stories (issue 7 item 1: "the case's own lateral loads where they push
     // every story the same way").
+    verify::source("closed form: statics, story shear of same-signed level forces");
     let (mut f, d) = {
         let (m, d) = issue_frame();
         (Frame { model: m }, d)
@@ -153,7 +165,13 @@ fn own_lateral_forces_are_used_where_they_push_every_story_the_same_way() {
         assert_eq!(s.stiffness_source, StiffnessSource::CaseSway, "{s:?}");
         // The story's own shear is the pattern's: 30 kN and 10 kN plus the holding forces of
         // the gravity part (closed form: story shear = sum of level forces above).
-        assert_relative_eq!(s.shear, s.stiffness_shear, max_relative = 1e-12);
+        verify::close(
+            "story shear of the case against the stiffness pattern's shear",
+            "N",
+            s.shear,
+            s.stiffness_shear,
+            1e-12,
+        );
     }
 }
 
@@ -210,16 +228,29 @@ fn leaning_column_is_left_out_of_pmf_however_it_is_modelled() {
     // carries 300 kN here by statics (its load is applied on its top node and the link is
     // pinned onto it and unloaded, so it carries no shear; closed form), the frame columns 200 kN
     // together: Pmf = 200 kN, Pstory = 500 kN, RM = 1 − 0.15·0.4 = 0.94.
+    verify::source("AISC 360-16 App. 8 eq. A-8-8 (from memory): RM = 1 − 0.15·Pmf/Pstory; statics");
     for how in 0..3 {
         let (model, d) = leaning_portal(how);
         let report = run(&model, &strength("1.0D", &[(d, 1.0)]));
         let s = &report.cases[0].stories[0];
-        assert_relative_eq!(s.sum_p, 500e3, max_relative = 1e-6);
+        verify::close(
+            &format!("ΣP of the story, leaning column modelled way {how}"),
+            "N",
+            s.sum_p,
+            500e3,
+            1e-6,
+        );
         // The columns shorten unequally (300 kN against 100 kN on equal sections), so the
         // beam between the frame columns shifts a little load: 1e-3 covers it (the 200 kN
         // vs 300 kN split is exact only with axially rigid columns, closed form).
-        assert_relative_eq!(s.p_mf, 200e3, max_relative = 1e-3);
-        assert_relative_eq!(s.r_m, 0.94, max_relative = 1e-4);
+        verify::close(
+            &format!("Pmf, leaning column left out, modelled way {how}"),
+            "N",
+            s.p_mf,
+            200e3,
+            1e-3,
+        );
+        verify::close(&format!("RM, modelled way {how}"), "-", s.r_m, 0.94, 1e-4);
     }
 }
 
@@ -230,6 +261,7 @@ fn second_order_drifts_sit_beside_the_first_order_ones() {
     // compression amplifies the sway, so the second-order drift is larger than the
     // first-order one and of the same sign (AISC 360-16 Commentary App. 8, from memory), and
     // Δ2nd/Δ1st is their ratio by definition.
+    verify::source("closed form: the top drift is the sum of the interstory drifts");
     let (m, d) = issue_frame();
     let mut f = Frame { model: m };
     let w = f.case("W", ActionCategory::Wind);
@@ -238,22 +270,42 @@ fn second_order_drifts_sit_beside_the_first_order_ones() {
     let report = run(&f.model, &strength("1.2D+1.0W", &[(d, 1.2), (w, 1.0)]));
     let c = &report.cases[0];
     let sum1: f64 = c.stories.iter().map(|s| s.drift_first_order).sum();
-    assert_relative_eq!(c.top_drift_first_order, sum1, max_relative = 1e-9);
+    verify::close(
+        "top drift, first order, against Σ story drifts",
+        "m",
+        c.top_drift_first_order,
+        sum1,
+        1e-9,
+    );
     let sum2: f64 = c
         .stories
         .iter()
         .map(|s| s.drift_second_order.unwrap())
         .sum();
-    assert_relative_eq!(c.top_drift_second_order.unwrap(), sum2, max_relative = 1e-9);
+    verify::close(
+        "top drift, second order, against Σ story drifts",
+        "m",
+        c.top_drift_second_order.unwrap(),
+        sum2,
+        1e-9,
+    );
     assert!(c.top_drift_second_order.unwrap() > c.top_drift_first_order);
     assert!(c.top_drift_first_order > 0.0);
     for s in &c.stories {
         let (d1, d2) = (s.drift_first_order, s.drift_second_order.unwrap());
-        assert_relative_eq!(s.drift, d1, max_relative = 1e-9);
-        assert_relative_eq!(
+        verify::close(
+            "story drift (governing) = first-order drift",
+            "m",
+            s.drift,
+            d1,
+            1e-9,
+        );
+        verify::close(
+            "Δ2nd/Δ1st by definition",
+            "-",
             s.drift_amplification.unwrap(),
             d2 / d1,
-            max_relative = 1e-12
+            1e-12,
         );
     }
 }

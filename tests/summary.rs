@@ -6,6 +6,10 @@
 
 use std::path::{Path, PathBuf};
 
+mod common;
+
+use common::verify;
+
 use plumbline::app::{CheckArgs, emit_check, render_check, run_check};
 use plumbline::envelope::{Location, MemberEnvelope};
 use plumbline::report::CheckFormat;
@@ -148,6 +152,10 @@ fn close(a: f64, b: f64) -> bool {
 
 #[test]
 fn summary_of_a_two_case_model_equals_the_hand_maxima() {
+    verify::source(
+        "closed form: statics of a determinate frame, hand calculation (w = 10 kN/m, L = 6 m, \
+         h = 4 m, H = 5 kN); EN 1993-1-1:2005 §5.2.1(3), α_cr ≥ 10",
+    );
     let path = write_model("hand");
     let run = run_check(&path, &CheckArgs::default(), &mut |_, _| {}).unwrap();
     let env = &run.envelope;
@@ -173,11 +181,17 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
     let span = &beam.sections[1];
     assert_eq!(span.location, Location::Span);
     let p = span.positive.as_ref().expect("sagging beam moment");
-    assert!(close(p.moment, 63e3), "{}", p.moment);
-    assert!(close(p.x, 3.0), "{}", p.x);
+    verify::close(
+        "beam span moment, T-1: 1.4·wL²/8",
+        "N·m",
+        p.moment,
+        63e3,
+        1e-6,
+    );
+    verify::close("position of the span moment, L/2", "m", p.x, 3.0, 1e-6);
     assert_eq!(p.case, "T-1");
     assert_eq!(p.expression, "1.4D");
-    assert!(close(p.shear, 42e3), "{}", p.shear);
+    verify::close("beam end shear, T-1: 1.4·wL/2", "N", p.shear, 42e3, 1e-6);
     assert_eq!(p.governs, "no-sway");
     for s in &beam.sections {
         assert!(s.negative.is_none(), "{:?}", s.location);
@@ -187,15 +201,33 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
     let base = &col.sections[0];
     assert_eq!(base.location, Location::EndI);
     let n = base.negative.as_ref().expect("base moment");
-    assert!(close(n.moment, -32e3), "{}", n.moment);
+    verify::close(
+        "column base moment, T-2: −1.6·H·h",
+        "N·m",
+        n.moment,
+        -32e3,
+        1e-6,
+    );
     assert_eq!(n.case, "T-2");
-    assert!(close(n.axial, -36e3), "{}", n.axial);
-    assert!(close(n.p_r, 36e3), "{}", n.p_r);
-    assert!(close(n.shear, 8e3), "{}", n.shear);
+    verify::close(
+        "column axial force, T-2: −1.2·wL/2",
+        "N",
+        n.axial,
+        -36e3,
+        1e-6,
+    );
+    verify::close("column Pr, T-2", "N", n.p_r, 36e3, 1e-6);
+    verify::close("column base shear, T-2: 1.6·H", "N", n.shear, 8e3, 1e-6);
     assert!(base.positive.is_none());
     assert!(col.sections[2].positive.is_none() && col.sections[2].negative.is_none());
     let c = col.compression.as_ref().expect("column compression");
-    assert!(close(c.p_r, 42e3), "{}", c.p_r);
+    verify::close(
+        "largest column compression, T-1: 1.4·wL/2",
+        "N",
+        c.p_r,
+        42e3,
+        1e-6,
+    );
     assert_eq!(c.case, "T-1");
     assert!(col.tension.is_none());
 
@@ -203,10 +235,12 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
     // δ = P·h³/(3EI) with P = 8 kN, EI = 200e9 × 1e-4 = 2e7 N·m²).
     let story = &env.stories[0];
     let drift = story.drift_ratio.as_ref().unwrap();
-    assert!(
-        close(drift.value, 8e3 * 64.0 / (3.0 * 2e7) / 4.0),
-        "{}",
-        drift.value
+    verify::close(
+        "story drift ratio δ/h, T-2: P·h³/(3EI)/h",
+        "-",
+        drift.value,
+        8e3 * 64.0 / (3.0 * 2e7) / 4.0,
+        1e-6,
     );
     assert_eq!(drift.case, "T-2");
     // Both cases govern something.

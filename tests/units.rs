@@ -6,6 +6,9 @@
 //! from NIST SP 811 App. B.9 below are tagged "from memory" (recalled, not re-read); the
 //! exact checks do not depend on them.
 
+mod common;
+
+use common::verify;
 use plumbline::units::{Dimension, UnitError, UnitSystem, parse_quantity, parse_unit};
 
 const IN: f64 = 0.0254;
@@ -26,6 +29,25 @@ fn lengths_are_exact() {
     // 1959 agreement: 1 in = 25.4 mm, 1 ft = 0.3048 m.
     assert_eq!(q("1 in", Dimension::Length), IN);
     assert_eq!(q("1 ft", Dimension::Length), FT);
+    let src = "international yard and pound agreement (1959): 1 yd = 0.9144 m exactly";
+    verify::check(
+        "units/exact/in",
+        "1 in in SI",
+        "m",
+        src,
+        0.0254,
+        q("1 in", Dimension::Length),
+        0.0,
+    );
+    verify::check(
+        "units/exact/ft",
+        "1 ft in SI",
+        "m",
+        src,
+        0.3048,
+        q("1 ft", Dimension::Length),
+        0.0,
+    );
     assert_eq!(q("25.4 mm", Dimension::Length), 0.0254);
     assert_eq!(q("100 cm", Dimension::Length), 1.0);
     assert_eq!(q("4.5 m", Dimension::Length), 4.5);
@@ -39,13 +61,30 @@ fn lengths_are_exact() {
 fn forces_are_exact() {
     // NIST SP 811 App. B: 1 lbf = 4.4482216152605 N (exact); 1 kip = 1000 lbf.
     assert_eq!(q("1 lbf", Dimension::Force), LBF);
+    verify::check(
+        "units/exact/lbf",
+        "1 lbf in SI, 0.45359237 kg × 9.80665 m/s²",
+        "N",
+        "NIST SP 811 (2008) App. B, exact",
+        0.453_592_37 * 9.806_65,
+        q("1 lbf", Dimension::Force),
+        1e-15,
+    );
     assert_eq!(q("1 lb", Dimension::Force), LBF);
     assert_eq!(q("1 kip", Dimension::Force), 1000.0 * LBF);
     assert_eq!(q("2 kips", Dimension::Force), 2000.0 * LBF);
     assert_eq!(q("25 kN", Dimension::Force), 25_000.0);
     assert_eq!(q("1.5 MN", Dimension::Force), 1.5e6);
     // NIST SP 811 B.9: kip → N 4.448 222 E+03 (from memory), to its 7 digits.
-    assert!((q("1 kip", Dimension::Force) / 4.448_222e3 - 1.0).abs() < 1e-6);
+    verify::check(
+        "units/nist/kip",
+        "1 kip in SI",
+        "N",
+        "NIST SP 811 (2008) App. B.9, rounded factor (from memory)",
+        4.448_222e3,
+        q("1 kip", Dimension::Force),
+        1e-6,
+    );
 }
 
 #[test]
@@ -70,8 +109,24 @@ fn stresses_follow_their_definitions() {
     assert_eq!(q("2 kPa", Dimension::Stress), 2000.0);
     assert_eq!(q("2 kN/m^2", Dimension::Stress), 2000.0);
     // NIST SP 811 B.9 (from memory): psi → Pa 6.894 757 E+03; psf → Pa 4.788 026 E+01.
-    assert!((q("1 psi", Dimension::Stress) / 6.894_757e3 - 1.0).abs() < 1e-6);
-    assert!((q("1 psf", Dimension::Stress) / 4.788_026e1 - 1.0).abs() < 1e-6);
+    verify::check(
+        "units/nist/psi",
+        "1 psi in SI",
+        "Pa",
+        "NIST SP 811 (2008) App. B.9, rounded factor (from memory)",
+        6.894_757e3,
+        q("1 psi", Dimension::Stress),
+        1e-6,
+    );
+    verify::check(
+        "units/nist/psf",
+        "1 psf in SI",
+        "Pa",
+        "NIST SP 811 (2008) App. B.9, rounded factor (from memory)",
+        4.788_026e1,
+        q("1 psf", Dimension::Stress),
+        1e-6,
+    );
 }
 
 #[test]
@@ -89,7 +144,15 @@ fn section_properties() {
     assert!(close(q("8000 cm^4", Dimension::SecondMoment), 8000e-8));
     assert!(close(q("14900 mm²", Dimension::Area), 14900e-6));
     // NIST SP 811 B.9 (from memory): in⁴ → m⁴ 4.162 314 E−07.
-    assert!((q("1 in^4", Dimension::SecondMoment) / 4.162_314e-7 - 1.0).abs() < 1e-6);
+    verify::check(
+        "units/nist/in4",
+        "1 in⁴ in SI",
+        "m⁴",
+        "NIST SP 811 (2008) App. B.9, rounded factor (from memory)",
+        4.162_314e-7,
+        q("1 in^4", Dimension::SecondMoment),
+        1e-6,
+    );
 }
 
 #[test]
@@ -100,7 +163,15 @@ fn line_loads_moments_unit_weights_springs() {
     ));
     assert_eq!(q("12 kN/m", Dimension::LineLoad), 12_000.0);
     // NIST SP 811 B.9 (from memory): lbf/ft → N/m 1.459 390 E+01.
-    assert!((q("1 lbf/ft", Dimension::LineLoad) / 1.459_390e1 - 1.0).abs() < 1e-6);
+    verify::check(
+        "units/nist/lbf-per-ft",
+        "1 lbf/ft in SI",
+        "N/m",
+        "NIST SP 811 (2008) App. B.9, rounded factor (from memory)",
+        1.459_390e1,
+        q("1 lbf/ft", Dimension::LineLoad),
+        1e-6,
+    );
     assert!(close(
         q("30 kip*ft", Dimension::Moment),
         30_000.0 * LBF * FT
@@ -111,7 +182,15 @@ fn line_loads_moments_unit_weights_springs() {
     ));
     assert_eq!(q("40 kN*m", Dimension::Moment), 40_000.0);
     // NIST SP 811 B.9 (from memory): lbf·ft → N·m 1.355 818 E+00.
-    assert!((q("1 lbf*ft", Dimension::Moment) / 1.355_818 - 1.0).abs() < 1e-6);
+    verify::check(
+        "units/nist/lbf-ft",
+        "1 lbf·ft in SI",
+        "N·m",
+        "NIST SP 811 (2008) App. B.9, rounded factor (from memory)",
+        1.355_818,
+        q("1 lbf*ft", Dimension::Moment),
+        1e-6,
+    );
     assert!(close(
         q("490 lbf/ft^3", Dimension::UnitWeight),
         490.0 * LBF / FT.powi(3)

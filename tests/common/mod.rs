@@ -3,6 +3,7 @@
 #![allow(dead_code)]
 
 pub mod random_frame;
+pub mod verify;
 
 use plumbline::model::*;
 use plumbline::units::{Unit, UnitSystem};
