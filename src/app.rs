@@ -17,6 +17,8 @@ use crate::model::{Model, SecondOrderMethod};
 use crate::report::summary::{self, Selection, Setting, Summary, TableInfo};
 use crate::report::{CheckFormat, OutputFormat};
 use crate::solve::SystemError;
+pub use crate::report::solve::stiffness_words;
+pub use crate::report::starter::NewArgs;
 
 /// Why a command failed; rendered for people by `miette` at the edge.
 #[derive(Debug, thiserror::Error, miette::Diagnostic)]
@@ -457,21 +459,6 @@ fn origin_source(o: crate::model::SettingOrigin, key: &str, method: SecondOrderM
         crate::model::SettingOrigin::Model => format!("model file ({key})"),
         crate::model::SettingOrigin::MethodDefault => format!("method default ({method})"),
         crate::model::SettingOrigin::CommandLine => "command line".into(),
-    }
-}
-
-/// Plain words for a stiffness preset, with its clause.
-pub fn stiffness_words(p: crate::model::StiffnessPreset) -> &'static str {
-    use crate::model::StiffnessPreset;
-    match p {
-        StiffnessPreset::Gross => "gross: gross section properties",
-        StiffnessPreset::AciCracked => {
-            "aci-cracked: ACI 318-19 Table 6.6.3.1.1(a), 0.70 Ig columns, 0.35 Ig beams, 1.0 Ag"
-        }
-        StiffnessPreset::AiscDirect => {
-            "aisc-direct: AISC 360-16 §C2.3 direct-analysis rules, 0.8·τb·EI with τb = 1.0, 0.8·EA"
-        }
-        StiffnessPreset::AciService => crate::service::stiffness_words(p),
     }
 }
 
@@ -1333,19 +1320,6 @@ pub fn report(
 ) -> Result<String, AppError> {
     let run = run_check(model_path, args, progress)?;
     Ok(crate::report::html::render(&run.summary(), &run.cases))
-}
-
-/// Options of [`new_model`].
-#[derive(Debug, Clone)]
-pub struct NewArgs {
-    /// Bay widths, left to right, in the preset's length unit.
-    pub bays: Vec<f64>,
-    /// Story heights, bottom up.
-    pub stories: Vec<f64>,
-    /// Unit preset name (`kN-m`, `kip-ft`, `kip-in`, `N-mm`).
-    pub units: String,
-    /// `fixed` or `pinned`.
-    pub base: String,
 }
 
 /// `plumbline new FILE --bays … --stories …`: a commented starter model of a regular frame,
