@@ -14,11 +14,11 @@ use crate::diag::FileError;
 use crate::envelope::Envelope;
 use crate::input::load_model;
 use crate::model::{Model, SecondOrderMethod};
+pub use crate::report::solve::stiffness_words;
+pub use crate::report::starter::NewArgs;
 use crate::report::summary::{self, Selection, Setting, Summary, TableInfo};
 use crate::report::{CheckFormat, OutputFormat};
 use crate::solve::SystemError;
-pub use crate::report::solve::stiffness_words;
-pub use crate::report::starter::NewArgs;
 
 /// Why a command failed; rendered for people by `miette` at the edge.
 #[derive(Debug, thiserror::Error, miette::Diagnostic)]
