@@ -603,7 +603,7 @@ impl Context<'_> {
                         .collect()
                 });
                 match model.analysis.method {
-                    SecondOrderMethod::Ec3AlphaCr => ec3::judge_structure(
+                    SecondOrderMethod::Ec3AlphaCr => story::judge_structure(
                         &mut figures,
                         buckling.as_ref().map(|b| b.alpha_cr),
                         mode.as_deref(),
