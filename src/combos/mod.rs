@@ -17,6 +17,7 @@ mod expand;
 pub mod expr;
 pub mod levels;
 mod render;
+mod settings;
 mod table;
 
 use std::path::Path;
@@ -31,14 +32,15 @@ use crate::model::LoadCase;
 use crate::model::{ActionCategory, LoadLevel};
 
 pub use expand::{
-    Expansion, FactoredCase, MAX_FACTORED_CASES, Merged, Notice, Settings, Skipped, Unplaced,
-    expand, expand_with, param_values,
+    Expansion, FactoredCase, MAX_FACTORED_CASES, Merged, Skipped, Unplaced, expand, expand_with,
+    param_values,
 };
 pub use expr::Expr;
 pub use render::{
     OutputFormat, cases_report, cases_report_with, csv_caution, expansion_summary,
     render_expansion, render_table, render_table_list, term_text,
 };
+pub use settings::{Notice, Settings};
 pub use table::parse_table;
 
 /// The design basis of a table's combinations.

@@ -5,8 +5,8 @@ use std::collections::BTreeMap;
 
 use serde::Serialize;
 
-use super::expand::format_factor;
 use super::expr::{Expr, resolve};
+use super::settings::format_factor;
 use super::{
     ActionFactor, ComboTable, Expansion, Factor, Settings, Term, TermKind, expand, expand_with,
     parse_table, shipped_tables,
