@@ -33,7 +33,9 @@ use serde::Serialize;
 use super::expr::{EvalError, resolve};
 use super::levels::{CaseScale, case_scales};
 use super::settings::{Notice, Settings, format_factor};
-use super::{ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Term, TermKind};
+use super::types::{
+    ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Term, TermKind,
+};
 use crate::diag::FileError;
 use crate::model::{ActionCategory, LoadCase, ModelSpans};
 

@@ -7,7 +7,7 @@ use std::collections::BTreeMap;
 
 use serde::Serialize;
 
-use super::ComboTable;
+use super::types::ComboTable;
 use crate::model::{ActionCategory, ComboChoice, LevelConversion, LoadLevel, Model, ModelSpans};
 
 /// A warning about the model, located in the model file where possible.
