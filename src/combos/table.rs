@@ -191,7 +191,7 @@ pub fn parse_table(text: &str, file: &str) -> Result<ComboTable, FileError> {
     };
     let doc = DeTable::parse(text).map_err(|e| {
         let span = e.span().unwrap_or(0..0);
-        let field = crate::input::key_on_line(text, span.start);
+        let field = crate::diag::key_on_line(text, span.start);
         let message = e.message().trim().trim_end_matches('.').replace('\n', " ");
         ctx.err(span, &field, format!("not valid TOML: {message}"))
     })?;
