@@ -284,6 +284,78 @@ impl SourceCode for FileError {
     }
 }
 
+/// The name of a table header line, without its trailing comment: `frame` for `[frame]`,
+/// and with 1-based indices for arrays of tables, counted over the text `before` it:
+/// `section[2]` for the second `[[section]]`, `case[3].member_load[1]` for the first
+/// `[[case.member_load]]` of the third `[[case]]`.
+fn header_path(before: &str, line: &str) -> String {
+    let name = |l: &str| -> Option<(bool, String)> {
+        let l = l.split('#').next().unwrap_or("").trim();
+        let array = l.starts_with("[[");
+        let inner = l
+            .strip_prefix('[')?
+            .split(']')
+            .next()?
+            .trim_start_matches('[');
+        let parts: Vec<&str> = inner
+            .split('.')
+            .map(|p| p.trim().trim_matches('"'))
+            .collect();
+        Some((array, parts.join(".")))
+    };
+    let Some((array, path)) = name(line) else {
+        return "(toml)".to_string();
+    };
+    if !array {
+        return path;
+    }
+    // Count the array-of-tables headers before this one; a header resets the counts of the
+    // tables nested under it.
+    let mut counts: std::collections::HashMap<String, usize> = std::collections::HashMap::new();
+    let mut bump = |p: &str| {
+        *counts.entry(p.to_string()).or_default() += 1;
+        let nested = format!("{p}.");
+        counts.retain(|k, _| !k.starts_with(&nested));
+    };
+    for l in before.lines().filter(|l| l.trim_start().starts_with("[[")) {
+        if let Some((true, p)) = name(l) {
+            bump(&p);
+        }
+    }
+    bump(&path);
+    let parts: Vec<&str> = path.split('.').collect();
+    (1..=parts.len())
+        .map(|n| {
+            let prefix = parts[..n].join(".");
+            match counts.get(&prefix) {
+                Some(c) => format!("{}[{c}]", parts[n - 1]),
+                None => parts[n - 1].to_string(),
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(".")
+}
+
+/// The key assigned on the line holding byte `pos` (`key = ...`), or the table header
+/// (`[frame]`, `[[case.member_load]]`), or `(toml)`.
+pub(crate) fn key_on_line(text: &str, pos: usize) -> String {
+    let pos = text.floor_char_boundary(pos.min(text.len()));
+    let start = text[..pos].rfind('\n').map_or(0, |k| k + 1);
+    let line = text[start..].lines().next().unwrap_or("").trim();
+    let is_key = |k: &str| {
+        !k.is_empty()
+            && k.chars()
+                .all(|c| c.is_alphanumeric() || matches!(c, '_' | '-' | '.' | '"'))
+    };
+    if line.starts_with('[') {
+        return header_path(&text[..start], line);
+    }
+    match line.split_once('=') {
+        Some((k, _)) if is_key(k.trim()) => k.trim().to_string(),
+        _ => "(toml)".to_string(),
+    }
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

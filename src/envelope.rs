@@ -13,7 +13,10 @@
 
 use serde::{Deserialize, Serialize};
 
+mod extreme;
 mod handoff;
+pub use extreme::Location;
+use extreme::keep;
 pub use handoff::{
     AxialEnvelope, AxialRow, COMPONENTS, ComponentEnvelope, ReactionRow, ShearRow, SupportEnvelope,
     axial_envelopes, reaction_envelopes, shear_envelopes,
@@ -21,21 +24,6 @@ pub use handoff::{
 
 use crate::check::{CaseCheck, CheckReport, MemberCheck, MomentCheck};
 use crate::model::Role;
-
-/// Where along a member a moment acts.
-#[derive(
-    Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize, Deserialize, strum::Display,
-)]
-#[serde(rename_all = "kebab-case")]
-#[strum(serialize_all = "kebab-case")]
-pub enum Location {
-    /// End i.
-    EndI,
-    /// Within the span.
-    Span,
-    /// End j.
-    EndJ,
-}
 
 /// The sign of an enveloped moment.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize, strum::Display)]
@@ -207,14 +195,6 @@ pub struct Envelope {
     /// Per support and restrained component, the largest and smallest design reaction.
     #[serde(default)]
     pub reactions: Vec<SupportEnvelope>,
-}
-
-/// Replace `slot` by `candidate` when it is empty or `better(candidate, current)`.
-fn keep<T>(slot: &mut Option<T>, candidate: T, better: impl Fn(&T, &T) -> bool) {
-    match slot {
-        Some(cur) if !better(&candidate, cur) => {}
-        _ => *slot = Some(candidate),
-    }
 }
 
 /// The sections of a member in one case at which moments are enveloped: the two ends;

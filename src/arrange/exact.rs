@@ -14,7 +14,7 @@
 
 use std::collections::BTreeMap;
 
-use super::{Arranged, Pattern};
+use super::spans::{Arranged, Pattern, loaded_spans};
 use crate::model::{LocalLoad, Model};
 use crate::solve::beam::internal_forces;
 use crate::solve::first_order::{FirstOrder, Solution};
@@ -222,7 +222,7 @@ pub fn exact_patterns(
     cap: usize,
 ) -> Result<Vec<Pattern>, ExactError> {
     let model = &arranged.model;
-    let loaded = super::loaded_spans(model, &arranged.spans);
+    let loaded = loaded_spans(model, &arranged.spans);
     let all: Vec<usize> = loaded.iter().copied().collect();
     let mut out = vec![Pattern {
         tag: "full".into(),

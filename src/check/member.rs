@@ -22,6 +22,10 @@ use crate::solve::forces::EndForces;
 use crate::solve::mesh::MemberStiffness;
 use crate::stories::{Story, member_stories};
 
+/// A converged direct second-order solution at the case's load level and the extreme
+/// moments along each member.
+pub type DirectSolution = (Solution, Vec<SpanExtremes>);
+
 /// Which part of the design moment is larger at the governing section.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, strum::Display)]
 #[serde(rename_all = "kebab-case")]
@@ -129,7 +133,7 @@ pub struct MemberInput<'a> {
     pub figures: &'a [StoryFigures],
     /// The direct second-order solution (scaled back to the case's loads) and its span
     /// extremes, when it converged.
-    pub direct: Option<&'a super::DirectSolution>,
+    pub direct: Option<&'a DirectSolution>,
     pub alpha: f64,
     /// The largest first-order end moment of any member in the case, N·m: below
     /// [`ROUND_OFF`] of it a moment is round-off.

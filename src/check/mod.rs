@@ -39,6 +39,7 @@ use crate::solve::sway::{SwayParts, SwaySplit};
 use crate::solve::{Solution, SystemError};
 use crate::stories::{Story, StoryError, stories};
 
+pub use member::DirectSolution;
 pub use member::{MemberCheck, MomentCheck, Part};
 pub use story::{Classification, StoryFigures};
 
@@ -85,10 +86,6 @@ pub struct DirectStatus {
     pub iterations: usize,
     pub reason: Option<String>,
 }
-
-/// A converged direct second-order solution at the case's load level and the extreme
-/// moments along each member.
-pub type DirectSolution = (Solution, Vec<SpanExtremes>);
 
 /// Everything `check` found for one factored case (one notional-load direction).
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -603,7 +600,7 @@ impl Context<'_> {
                         .collect()
                 });
                 match model.analysis.method {
-                    SecondOrderMethod::Ec3AlphaCr => ec3::judge_structure(
+                    SecondOrderMethod::Ec3AlphaCr => story::judge_structure(
                         &mut figures,
                         buckling.as_ref().map(|b| b.alpha_cr),
                         mode.as_deref(),

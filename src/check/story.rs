@@ -622,7 +622,7 @@ fn negligible(f: &StoryFigures) -> String {
 /// * ACI 318-19 6.6.4: non-sway (first-order moments) when Q ≤ 0.05 (6.6.4.3(b)); δs by the
 ///   Q method within its range δs ≤ 1.5 (6.6.4.6.2(a)); beyond it the moments of the
 ///   second-order analysis (6.6.4.6.2(c)).
-/// * EN 1993-1-1: by one structure α_cr, in [`super::ec3::judge_structure`].
+/// * EN 1993-1-1: by one structure α_cr, in [`judge_structure`].
 /// * Direct analysis (AISC 360-16 Ch. C): always the analysis's own moments; the verdict
 ///   is Δ2nd/Δ1st ≤ 1.1 where the drift is significant, else B2 (A-8-6, which estimates
 ///   Δ2nd/Δ1st; from memory).
@@ -738,6 +738,107 @@ pub fn sway_in_mode_shape(
     let h: Vec<f64> = figures.iter().map(|f| f.height).collect();
     let significant: Vec<bool> = figures.iter().map(|f| !f.drift_negligible).collect();
     ec3::amplified_method_conditions(&first, mode, &h, &significant)
+}
+
+/// EN 1993-1-1: judge the whole structure by one α_cr ([`ec3::structure_alpha_cr`]) and give every story the
+/// same verdict (EN 1993-1-1 §5.2.1(3)/(4)B, §5.2.2(5)B/(6)B, from memory):
+/// * α_cr ≥ 10: first-order analysis suffices, sway effects × 1.0 (5.1);
+/// * 3 ≤ α_cr < 10: all sway effects × 1/(1 − 1/α_cr) (amplified sway method) where the
+///   case's first-order sway fits the method ([`ec3::amplified_method_conditions`]); where it
+///   does not, the moments of the second-order analysis, and the criterion says why;
+/// * α_cr < 3: a second-order analysis is required (§5.2.2(5)B): its moments, or the
+///   structure is unstable when that analysis did not converge.
+///
+/// `buckling` is the lowest sway mode's α_cr and `mode` its story drifts. A case with no
+/// significant first-order sway keeps its first-order verdict ([`classify`]).
+pub fn judge_structure(
+    figures: &mut [StoryFigures],
+    buckling: Option<f64>,
+    mode: Option<&[f64]>,
+    direct_converged: bool,
+) {
+    let lowest_story = figures
+        .iter()
+        .map(|f| f.alpha_cr_story)
+        .min_by(f64::total_cmp);
+    let Some(a) = ec3::structure_alpha_cr(lowest_story, buckling) else {
+        return;
+    };
+    let largest = largest_drift_ratio(figures);
+    if largest < DRIFT_NEGLIGIBLE_RATIO
+        && direct_converged
+        && figures
+            .iter()
+            .all(|f| f.classification != Classification::Unstable)
+    {
+        for f in figures.iter_mut() {
+            Verdict::first_order(format!(
+                "structure α_cr = {a:.2}; no significant first-order sway under this case \
+                 (largest drift {largest:.1e}·h): no sway effects to amplify"
+            ))
+            .apply(f);
+        }
+        return;
+    }
+    let source = match (lowest_story, buckling) {
+        (Some(s), Some(b)) if b < s => {
+            format!("lowest sway mode {b:.2} < lowest story value {s:.2}")
+        }
+        (Some(s), Some(b)) => format!("lowest story value {s:.2}; lowest sway mode {b:.2}"),
+        (Some(s), None) => format!("lowest story value {s:.2}"),
+        (None, _) => "lowest sway mode".to_string(),
+    };
+    // The first sway mode governs the case's sway only if the growth the second-order
+    // analysis measures in every story (significant Δ2nd/Δ1st) agrees with the amplifier.
+    let conditions = sway_in_mode_shape(figures, mode).and_then(|why| {
+        let amp = ec3::sway_amplifier(a);
+        let off = figures.iter().find_map(|f| {
+            let (amp, r) = (amp?, f.drift_amplification?);
+            (!amplifiers_agree(amp, r)).then_some((f.story, amp, r))
+        });
+        match off {
+            Some((story, amp, r)) => Err(format!(
+                "1/(1 − 1/α_cr) = {amp:.3} against Δ2nd/Δ1st = {r:.3} of story {story} in the \
+                 second-order analysis: the first sway mode does not govern this case's sway"
+            )),
+            None => Ok(why),
+        }
+    });
+    let verdict = if a >= ec3::ALPHA_CR_FIRST_ORDER {
+        Verdict::first_order(format!(
+            "structure α_cr = {a:.2} ≥ 10 ({source}): first-order analysis suffices (EN 1993-1-1 (5.1), 5.2.1(3))"
+        ))
+    } else if !direct_converged {
+        Verdict::unstable(format!(
+            "structure α_cr = {a:.2} < 10 ({source}) and the direct second-order analysis did not converge"
+        ))
+    } else if let Some(amp) = ec3::sway_amplifier(a) {
+        match conditions {
+            Ok(why) => Verdict::amplified(
+                amp,
+                Classification::Sway,
+                format!(
+                    "structure α_cr = {a:.2} < 10 ({source}); {why}: all sway effects × 1/(1 − 1/α_cr) = {amp:.3} (EN 1993-1-1 5.2.2(5)B, (6)B)"
+                ),
+            ),
+            Err(why) => Verdict::second_order(
+                Classification::Sway,
+                format!(
+                    "structure α_cr = {a:.2} < 10 ({source}); amplified sway method outside EN 1993-1-1 5.2.2(6)B: {why}; design moments from the second-order analysis"
+                ),
+            ),
+        }
+    } else {
+        Verdict::second_order(
+            Classification::Sway,
+            format!(
+                "structure α_cr = {a:.2} < 3 ({source}): second-order analysis required (EN 1993-1-1 5.2.2(5)B); design moments from it"
+            ),
+        )
+    };
+    for f in figures.iter_mut() {
+        verdict.clone().apply(f);
+    }
 }
 
 /// Send every amplified story to the second-order route, saying why.
@@ -887,7 +988,7 @@ fn method_verdict(
                 ))
             }
         }
-        // Judged for the whole structure afterwards (ec3::judge_structure); the story value
+        // Judged for the whole structure afterwards (judge_structure); the story value
         // alone here.
         SecondOrderMethod::Ec3AlphaCr => {
             let a = f.alpha_cr_story;

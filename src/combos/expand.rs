@@ -32,11 +32,12 @@ use serde::Serialize;
 
 use super::expr::{EvalError, resolve};
 use super::levels::{CaseScale, case_scales};
-use super::{ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Term, TermKind};
-use crate::diag::FileError;
-use crate::model::{
-    ActionCategory, ComboChoice, LevelConversion, LoadCase, LoadLevel, Model, ModelSpans,
+use super::settings::{Notice, Settings, format_factor};
+use super::types::{
+    ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Term, TermKind,
 };
+use crate::diag::FileError;
+use crate::model::{ActionCategory, LoadCase, ModelSpans};
 
 /// The most factored cases one combination (and a whole table) may give for a model,
 /// counted before merging. Beyond it, expansion stops with an error that names the
@@ -95,14 +96,6 @@ pub struct Unplaced {
     pub cases: Vec<String>,
 }
 
-/// A warning about the model, located in the model file where possible.
-#[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct Notice {
-    /// `file:line:column` (or the file name) the warning refers to.
-    pub at: String,
-    pub message: String,
-}
-
 /// The result of [`expand`].
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Expansion {
@@ -112,56 +105,6 @@ pub struct Expansion {
     pub warnings: Vec<Unplaced>,
     /// Located warnings: a lateral load given from one side only, a load level assumed.
     pub notices: Vec<Notice>,
-}
-
-/// What the model file and the command line say about a table's use, with where they said
-/// it: parameter values, load-level conversions and the levels of load cases that state
-/// none. [`Settings::default`] is "nothing said" (parameters at their defaults).
-#[derive(Debug, Clone, Default)]
-pub struct Settings {
-    /// Parameter values from the model file's `[combinations] params`.
-    pub model_params: BTreeMap<String, f64>,
-    /// Parameter values from the command line (`--set`); they win over the model's.
-    pub sets: BTreeMap<String, f64>,
-    /// Conversions between load levels stated in the model.
-    pub conversions: Vec<LevelConversion>,
-    /// The model's own table (`[combinations] table`) and the level it expects per
-    /// category: the level of a load case that states none.
-    pub assumed_levels: Option<(String, BTreeMap<ActionCategory, LoadLevel>)>,
-    /// Where the model wrote all this (for located errors).
-    pub written: ModelSpans,
-}
-
-impl Settings {
-    /// Parameters given on the command line only (library callers, tests).
-    pub fn with_sets(sets: &BTreeMap<String, f64>) -> Settings {
-        Settings {
-            sets: sets.clone(),
-            ..Settings::default()
-        }
-    }
-
-    /// The settings of `model`, its own table `own` (when the model names one) and the
-    /// command line's `sets`.
-    pub fn for_model(
-        model: &Model,
-        own: Option<&ComboTable>,
-        sets: &BTreeMap<String, f64>,
-    ) -> Settings {
-        let ComboChoice {
-            params,
-            conversions,
-            written,
-            ..
-        } = &model.combos;
-        Settings {
-            model_params: params.clone(),
-            sets: sets.clone(),
-            conversions: conversions.clone(),
-            assumed_levels: own.map(|t| (t.file.clone(), t.expected_levels())),
-            written: written.clone(),
-        }
-    }
 }
 
 /// One action with its signed factor inside a variant.
@@ -1107,17 +1050,6 @@ fn alternative_label(
         }
     }
     names.join("+")
-}
-
-/// A factor as the standards print it: at most four decimals, at least one (`1.0`, `1.35`).
-pub fn format_factor(x: f64) -> String {
-    let s = format!("{x:.4}");
-    let s = s.trim_end_matches('0');
-    if s.ends_with('.') {
-        format!("{s}0")
-    } else {
-        s.to_string()
-    }
 }
 
 /// Two factor lists are the same case (relative tolerance 1e-9).

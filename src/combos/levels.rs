@@ -16,8 +16,8 @@ use std::collections::BTreeMap;
 
 use serde::Deserialize;
 
-use super::ComboTable;
-use super::expand::{Notice, Settings, format_factor};
+use super::settings::{Notice, Settings, format_factor};
+use super::types::ComboTable;
 use crate::diag::FileError;
 use crate::model::{ActionCategory, LoadCase, LoadLevel};
 

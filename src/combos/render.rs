@@ -5,12 +5,12 @@ use std::collections::BTreeMap;
 
 use serde::Serialize;
 
-use super::expand::format_factor;
+use super::expand::{Expansion, expand, expand_with};
 use super::expr::{Expr, resolve};
-use super::{
-    ActionFactor, ComboTable, Expansion, Factor, Settings, Term, TermKind, expand, expand_with,
-    parse_table, shipped_tables,
-};
+use super::settings::Settings;
+use super::settings::format_factor;
+use super::table::{parse_table, shipped_tables};
+use super::types::{ActionFactor, ComboTable, Factor, Term, TermKind};
 use crate::diag::FileError;
 use crate::model::LoadCase;
 

@@ -6,6 +6,7 @@
 
 use std::collections::{BTreeMap, BTreeSet};
 use std::ops::Range;
+use std::path::Path;
 use std::str::FromStr;
 use std::sync::Arc;
 
@@ -13,7 +14,7 @@ use toml::Spanned;
 use toml::de::{DeTable, DeValue};
 
 use super::expr::{Expr, find_cycle};
-use super::{
+use super::types::{
     Action, ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Param, Term, TermKind,
 };
 use crate::diag::FileError;
@@ -190,7 +191,7 @@ pub fn parse_table(text: &str, file: &str) -> Result<ComboTable, FileError> {
     };
     let doc = DeTable::parse(text).map_err(|e| {
         let span = e.span().unwrap_or(0..0);
-        let field = crate::input::key_on_line(text, span.start);
+        let field = crate::diag::key_on_line(text, span.start);
         let message = e.message().trim().trim_end_matches('.').replace('\n', " ");
         ctx.err(span, &field, format!("not valid TOML: {message}"))
     })?;
@@ -788,4 +789,116 @@ fn action_factor(
         reversible,
         allow_negative,
     })
+}
+
+/// A table shipped inside the binary.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub struct ShippedTable {
+    /// File stem, e.g. `asce7-16-strength`.
+    pub name: &'static str,
+    /// The TOML text.
+    pub text: &'static str,
+}
+
+macro_rules! shipped {
+    ($($name:literal),* $(,)?) => {
+        &[$(ShippedTable {
+            name: $name,
+            text: include_str!(concat!("../../combos/", $name, ".toml")),
+        }),*]
+    };
+}
+
+static SHIPPED: &[ShippedTable] = shipped![
+    "asce7-16-strength",
+    "asce7-16-asd",
+    "asce7-22-strength",
+    "asce7-22-asd",
+    "en1990-6.10",
+    "en1990-6.10ab",
+    "en1990-sls-characteristic",
+    "en1990-sls-frequent",
+    "en1990-sls-quasi-permanent",
+    "asce7-16-service",
+    "nbcc-2020",
+    "asnzs1170-0-2002",
+];
+
+/// The tables shipped with plumbline, in a fixed order.
+pub fn shipped_tables() -> &'static [ShippedTable] {
+    SHIPPED
+}
+
+/// Read a table by shipped name or by path. A relative path is taken against `base_dir`
+/// (the model file's folder) when given. A name that is neither a shipped table nor an
+/// existing file gives an error that names it as written (not as a path), with the nearest
+/// shipped names; the caller locates it (model file or command line).
+pub fn load_table(name_or_path: &str, base_dir: Option<&Path>) -> Result<ComboTable, FileError> {
+    if let Some(t) = SHIPPED.iter().find(|t| t.name == name_or_path) {
+        return parse_table(t.text, t.name);
+    }
+    let p = Path::new(name_or_path);
+    let path = match base_dir {
+        Some(b) if p.is_relative() => b.join(p),
+        _ => p.to_path_buf(),
+    };
+    let looks_like_path = name_or_path.contains(['/', '\\']) || name_or_path.ends_with(".toml");
+    if !looks_like_path && !path.is_file() {
+        return Err(FileError {
+            file: name_or_path.to_string(),
+            line: 0,
+            column: 0,
+            field: "table".to_string(),
+            message: format!("`{name_or_path}` is not a shipped combination table"),
+            help: Some(shipped_help(name_or_path)),
+            span: None,
+            source_text: None,
+        });
+    }
+    match std::fs::metadata(&path) {
+        // Read whole, at most MAX_FILE_BYTES, UTF-8 (errors name the line and byte).
+        Ok(_) => parse_table(
+            &crate::diag::read_input(&path, "combination table")?,
+            &path.display().to_string(),
+        ),
+        Err(e) => Err(FileError {
+            file: path.display().to_string(),
+            line: 0,
+            column: 0,
+            field: "table".to_string(),
+            message: format!("cannot read the combination table file: {e}"),
+            help: Some(shipped_help(name_or_path)),
+            span: None,
+            source_text: None,
+        }),
+    }
+}
+
+/// The shipped names closest to `name` first (sharing its longest prefix), then the rest.
+fn shipped_help(name: &str) -> String {
+    let common = |t: &str| {
+        t.chars()
+            .zip(name.chars())
+            .take_while(|(a, b)| a == b)
+            .count()
+    };
+    let best = SHIPPED.iter().map(|t| common(t.name)).max().unwrap_or(0);
+    let near: Vec<&str> = SHIPPED
+        .iter()
+        .filter(|t| best >= 3 && common(t.name) == best)
+        .map(|t| t.name)
+        .collect();
+    let all: Vec<&str> = SHIPPED.iter().map(|t| t.name).collect();
+    if near.is_empty() {
+        format!(
+            "shipped tables: {}; or give the path of a table file",
+            all.join(", ")
+        )
+    } else {
+        format!(
+            "did you mean {}? Shipped tables: {}; or give the path of a table file",
+            near.join(" or "),
+            all.join(", ")
+        )
+    }
 }

@@ -9,7 +9,7 @@
 
 use serde::{Deserialize, Serialize};
 
-use super::{Location, keep};
+use super::extreme::{Location, keep};
 use crate::check::{CheckReport, MemberCheck};
 
 /// Values smaller than this fraction of the case's largest of their kind are round-off.

@@ -15,7 +15,7 @@
 //! columns); `beam_hinges` grid lines where the beam ends framing into them are hinged.
 
 use super::raw::{RawFrame, S};
-use super::validate::{Ctx, MemberDef, NodeDef, Ref, SupportDef};
+use super::validate::values::{Ctx, MemberDef, NodeDef, Ref, SupportDef};
 use crate::diag::FileError;
 use crate::limits::{MAX_MEMBERS, MAX_NODES, exceeded};
 use crate::model::Restraint;

@@ -1,9 +1,9 @@
 //! The approximate check beside the stiffness solution: one table per factored case in the
 //! model's units (text), one table for CSV, or a JSON value in SI base units.
 
+use super::page::Table;
 use crate::approx::{ApproxReport, CaseEstimate, Flag, Location, MemberEstimate};
 use crate::model::Model;
-use crate::report::summary::Table;
 use crate::report::{num, table_of};
 use crate::units::Dimension;
 

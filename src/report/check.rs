@@ -1,7 +1,7 @@
 //! Report of `plumbline check`: the stories, then for each factored case the story figures
 //! and the per-member moments (no-sway part, sway part, amplifiers, design value).
 
-use super::summary::Table;
+use super::page::Table;
 use super::{num, opt, table_fitting, table_of, text_width};
 use crate::check::story::StiffnessSource;
 use crate::check::{CaseCheck, CheckReport, MemberCheck, StoryFigures};

@@ -4,7 +4,7 @@
 //! CSV (`tidy`: every row and the concurrent values, more decimals).
 
 use super::num;
-use super::summary::{Setting, Summary, Table};
+use super::page::{Setting, Summary, Table};
 use crate::envelope::{AxialEnvelope, COMPONENTS, ComponentEnvelope, Location};
 use crate::model::SecondOrderMethod;
 use crate::units::Dimension;

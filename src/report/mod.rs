@@ -10,6 +10,7 @@ pub mod diagram;
 pub mod handoff;
 pub mod html;
 pub mod json;
+pub mod page;
 pub mod service;
 pub mod solve;
 pub mod starter;

@@ -3,7 +3,7 @@
 //! and CSV tables in the model's units (JSON carries [`ServiceReport`] in SI).
 
 use super::num;
-use super::summary::Table;
+use super::page::Table;
 use crate::model::Model;
 use crate::service::{Governing, ServiceReport};
 use crate::units::Dimension;

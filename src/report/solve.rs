@@ -157,7 +157,7 @@ fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
         title: &model.title,
         case,
         stiffness: model.analysis.stiffness.to_string(),
-        stiffness_description: crate::app::stiffness_words(model.analysis.stiffness),
+        stiffness_description: stiffness_words(model.analysis.stiffness),
         units: SI,
         displacements: model
             .nodes
@@ -357,7 +357,7 @@ fn text(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
     let mut out = format!(
         "{}\nLoad case {case}: first-order solution, stiffness {}\n",
         model.title,
-        crate::app::stiffness_words(model.analysis.stiffness)
+        stiffness_words(model.analysis.stiffness)
     );
     for t in tables(model, s, loads) {
         out.push_str(&format!("\n{}\n{}\n", t.title, table_of(&t.header, t.rows)));
@@ -367,4 +367,19 @@ fn text(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
         s.residual.relative()
     ));
     out
+}
+
+/// Plain words for a stiffness preset, with its clause.
+pub fn stiffness_words(p: crate::model::StiffnessPreset) -> &'static str {
+    use crate::model::StiffnessPreset;
+    match p {
+        StiffnessPreset::Gross => "gross: gross section properties",
+        StiffnessPreset::AciCracked => {
+            "aci-cracked: ACI 318-19 Table 6.6.3.1.1(a), 0.70 Ig columns, 0.35 Ig beams, 1.0 Ag"
+        }
+        StiffnessPreset::AiscDirect => {
+            "aisc-direct: AISC 360-16 §C2.3 direct-analysis rules, 0.8·τb·EI with τb = 1.0, 0.8·EA"
+        }
+        StiffnessPreset::AciService => crate::service::stiffness_words(p),
+    }
 }

@@ -4,7 +4,18 @@
 //! heights, which are in the preset's length unit as given on the command line. The
 //! section properties and loads are placeholders to replace, and say so.
 
-use crate::app::NewArgs;
+/// Options of [`crate::app::new_model`].
+#[derive(Debug, Clone)]
+pub struct NewArgs {
+    /// Bay widths, left to right, in the preset's length unit.
+    pub bays: Vec<f64>,
+    /// Story heights, bottom up.
+    pub stories: Vec<f64>,
+    /// Unit preset name (`kN-m`, `kip-ft`, `kip-in`, `N-mm`).
+    pub units: String,
+    /// `fixed` or `pinned`.
+    pub base: String,
+}
 
 /// Illustrative values for one unit family: material, two sections, loads, table, method.
 struct Starter {

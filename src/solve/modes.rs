@@ -1045,6 +1045,20 @@ fn interpolate(
     y
 }
 
+impl SecondOrderModel {
+    /// Elastic buckling of `loads` sorted into the frame's lowest SWAY mode and the lowest
+    /// MEMBER mode below it, with critical load factors on the safe side of the mesh error
+    /// (see [`crate::solve::modes`] for the classification, the search above member modes and
+    /// the nested mesh). `None` when no element is in compression.
+    pub fn buckling(
+        &self,
+        model: &Model,
+        loads: &MeshLoads,
+    ) -> Result<Option<FrameBuckling>, SystemError> {
+        frame_buckling(self, model, loads)
+    }
+}
+
 /// See [`SecondOrderModel::buckling`].
 pub(super) fn frame_buckling(
     so: &SecondOrderModel,

@@ -34,7 +34,6 @@ use super::element::{elastic_stiffness, geometric_stiffness, released_rotations,
 use super::first_order::Solution;
 use super::linear::{MeshLoads, Response, equivalent_nodal_loads, recover};
 use super::mesh::{MemberStiffness, Mesh};
-use super::modes::FrameBuckling;
 use super::skyline::{PIVOT_TOL, SkylineFactor, SkylineMatrix};
 use super::system::{
     Direction, Dof, FreeDirection, Restraints, SystemError, assemble_with, element_equations,
@@ -564,18 +563,6 @@ impl SecondOrderModel {
                 alpha_cr,
                 shape: self.node_shape(&x),
             }))
-    }
-
-    /// Elastic buckling of `loads` sorted into the frame's lowest SWAY mode and the lowest
-    /// MEMBER mode below it, with critical load factors on the safe side of the mesh error
-    /// (see [`super::modes`] for the classification, the search above member modes and the
-    /// nested mesh). `None` when no element is in compression.
-    pub fn buckling(
-        &self,
-        model: &Model,
-        loads: &MeshLoads,
-    ) -> Result<Option<FrameBuckling>, SystemError> {
-        super::modes::frame_buckling(self, model, loads)
     }
 
     /// The lowest mode of the element axial forces `axial` (see [`Self::critical_factor`]):
