@@ -574,8 +574,8 @@ impl Outcome {
         self.envelope.unstable.is_empty()
     }
 
-    /// The caution every output of these results must carry ([`crate::CAUTION`]).
+    /// The caution every output of these results must carry ([`crate::caution::CAUTION`]).
     pub fn caution(&self) -> &'static str {
-        crate::CAUTION
+        crate::caution::CAUTION
     }
 }

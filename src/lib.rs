@@ -70,10 +70,8 @@
 // once per run, so their size does not matter.
 #![allow(clippy::result_large_err)]
 
-/// The caution every summary, report and listing of this crate carries.
-pub const CAUTION: &str = "Results assist a licensed engineer and do not replace one: final \
-design belongs to a licensed engineer under the local building code, and the adopted edition \
-of each standard governs.";
+pub mod caution;
+pub use caution::CAUTION;
 
 pub mod api;
 pub mod app;

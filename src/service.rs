@@ -23,7 +23,7 @@ use std::collections::BTreeMap;
 
 use serde::{Deserialize, Serialize};
 
-use crate::CAUTION;
+use crate::caution::CAUTION;
 use crate::check::CheckError;
 use crate::check::story::{drift_is_significant, drift_of};
 use crate::combos::FactoredCase;

@@ -601,7 +601,7 @@ fn empty_report(model: &Model) -> CheckReport {
         supports: crate::check::support_info(model),
         service_reactions: Vec::new(),
         warnings: Vec::new(),
-        caution: crate::CAUTION.to_string(),
+        caution: crate::caution::CAUTION.to_string(),
     }
 }
 
@@ -684,7 +684,7 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
             if detail {
                 let width = crate::report::text_width();
                 let d = crate::report::check::detail_text(&run.model, &run.report);
-                let d = crate::report::fit_lines(&format!("{d}{}", crate::CAUTION), width);
+                let d = crate::report::fit_lines(&format!("{d}{}", crate::caution::CAUTION), width);
                 let rule = "=".repeat(DETAIL_HEADING.chars().count());
                 text = format!("{text}\n{DETAIL_HEADING}\n{rule}\n\n{d}");
             }
@@ -696,7 +696,7 @@ pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Render
                 text.push_str(&format!(
                     "\n## {DETAIL_HEADING}\n\n```text\n{}```\n\n{}\n",
                     crate::report::check::detail_text(&run.model, &run.report),
-                    crate::CAUTION
+                    crate::caution::CAUTION
                 ));
             }
             Rendered::text(text)

@@ -43,7 +43,7 @@ pub use member::DirectSolution;
 pub use member::{MemberCheck, MomentCheck, Part};
 pub use story::{Classification, StoryFigures};
 
-pub use crate::CAUTION;
+pub use crate::caution::CAUTION;
 
 /// Why `check` could not run.
 #[derive(Debug, thiserror::Error)]

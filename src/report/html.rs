@@ -14,7 +14,7 @@ use super::summary::{
     story_table,
 };
 use super::svg::{self, Curve, Label, esc};
-use crate::CAUTION;
+use crate::caution::CAUTION;
 use crate::combos::FactoredCase;
 use crate::envelope::{Location, Sign};
 use crate::model::{LocalLoad, Model};

@@ -24,7 +24,7 @@ use tabled::builder::Builder;
 use tabled::settings::Style;
 use tabled::settings::style::HorizontalLine;
 
-pub use crate::CAUTION;
+pub use crate::caution::CAUTION;
 
 /// Output format of a report.
 #[derive(

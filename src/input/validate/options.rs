@@ -30,7 +30,7 @@ pub const SERVICE_STIFFNESS_NAMES: [&str; 2] = ["gross", "aci-service"];
 /// Names accepted for [`Role`].
 pub const ROLE_NAMES: [&str; 3] = ["column", "beam", "brace"];
 
-/// Names accepted for [`LoadDirection`].
+/// Names accepted for [`LoadDirection`](crate::model::LoadDirection).
 pub const DIRECTION_NAMES: [&str; 5] = ["local-x", "local-y", "global-x", "global-y", "down"];
 
 /// AISC 360-16 §C2.2b(1): notional load Ni = 0.002·α·Yi; the default coefficient.
