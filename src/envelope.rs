@@ -434,12 +434,15 @@ pub fn largest_residual(report: &CheckReport) -> Option<ResidualPeak> {
     best
 }
 
-/// Stable cases behind no member envelope value, no column axial extreme, and no story's
-/// largest sway amplifier or smallest α_cr.
+/// Stable cases behind no member envelope value, no column axial extreme, no story's
+/// largest sway amplifier or smallest α_cr, and no axial, shear or reaction extreme.
 fn never_governing(
     report: &CheckReport,
     members: &[MemberEnvelope],
     stories: &[StoryEnvelope],
+    axial: &[AxialEnvelope],
+    shear: &[ShearRow],
+    reactions: &[SupportEnvelope],
 ) -> Vec<String> {
     let mut used: std::collections::BTreeSet<&str> = std::collections::BTreeSet::new();
     for m in members {
@@ -457,6 +460,21 @@ fn never_governing(
             used.insert(&p.case);
         }
     }
+    // The hand-off envelopes (issue 17): axial extremes, end shears, reactions.
+    for r in axial
+        .iter()
+        .flat_map(|a| [&a.tension, &a.compression])
+        .flatten()
+    {
+        used.insert(&r.case);
+    }
+    used.extend(shear.iter().map(|r| r.case.as_str()));
+    let reaction_rows = reactions
+        .iter()
+        .flat_map(|s| &s.components)
+        .flat_map(|c| [&c.max, &c.min])
+        .flatten();
+    used.extend(reaction_rows.map(|r| r.case.as_str()));
     report
         .cases
         .iter()
@@ -472,25 +490,7 @@ pub fn envelope(report: &CheckReport) -> Envelope {
     let axial = axial_envelopes(report);
     let shear = shear_envelopes(report);
     let reactions = reaction_envelopes(report);
-    let used: Vec<&str> = axial
-        .iter()
-        .flat_map(|a| [&a.tension, &a.compression])
-        .flatten()
-        .map(|r| r.case.as_str())
-        .chain(shear.iter().map(|r| r.case.as_str()))
-        .chain(
-            reactions
-                .iter()
-                .flat_map(|s| &s.components)
-                .flat_map(|c| [&c.max, &c.min])
-                .flatten()
-                .map(|r| r.case.as_str()),
-        )
-        .collect();
-    let never_govern = never_governing(report, &members, &stories)
-        .into_iter()
-        .filter(|c| !used.contains(&c.as_str()))
-        .collect();
+    let never_govern = never_governing(report, &members, &stories, &axial, &shear, &reactions);
     Envelope {
         cases: report.cases.iter().map(|c| c.id.clone()).collect(),
         unstable: report
