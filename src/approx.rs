@@ -5,7 +5,8 @@
 //! Methods (all common practice, no source; written as the textbooks of approximate
 //! analysis write them):
 //! * **Beams under gravity**: inflection points at [`INFLECTION`]·L from each continuous
-//!   end (none at a released end). The part between them is simply supported, the end parts
+//!   end (none at a released end; [`INFLECTION_PROPPED`]·L from the continuous end of a
+//!   span released at its other end). The part between them is simply supported, the end parts
 //!   are cantilevers carrying it: with both ends continuous the end moments are
 //!   −0.045 wL² and the mid-span moment +0.08 wL² ([`beam_gravity`]). A beam's loads are
 //!   taken as their total transverse load spread uniformly over the span.
@@ -14,6 +15,11 @@
 //!   to their stiffness EI/L, and each column carries half of its share to its other end
 //!   (carry-over factor 1/2: a fixed base, or the joint above or below, one cycle of
 //!   moment distribution); a pinned base or released end takes none.
+//! * **Columns under gravity, sway**: in an unsymmetric frame the column shears of that
+//!   no-sway estimate do not add up to zero in a story; the sum is the force that held the
+//!   story. In a story without a brace, the frame carries it back (the story sways under
+//!   gravity alone): its reverse is shared by the portal method below and added to the
+//!   gravity part ([`gravity_sway_shears`]). A braced story's brace holds it.
 //! * **Lateral load, portal method**: each story's shear is shared by its columns, an
 //!   interior column taking twice the share of an exterior one ([`portal_shares`]);
 //!   inflection points at mid-height of the columns give end moments V·h/2 (at a pinned
@@ -44,6 +50,16 @@ use crate::stories::{LEVEL_TOLERANCE, Story, StoryError, stories};
 /// fixed ends under uniform load).
 pub const INFLECTION: f64 = 0.1;
 
+/// Inflection point of a propped span (one end released) from its continuous end, as a
+/// fraction of the span: the same fraction of the closed-form position as [`INFLECTION`]
+/// is of a fixed-ended beam's. Closed forms under uniform load: fixed at both ends,
+/// `(3 − √3)/6 = 0.2113·L` from each end; fixed at one end and pinned at the other,
+/// `L/4` from the fixed end. So `0.1 · 0.25 / 0.2113 = 0.118` (common practice, no source:
+/// the hand rule scaled to the propped span; with 0.1 a propped span's end moment,
+/// −0.050 wL², is under half the −0.125 wL² of its fixed end, while a continuous span's
+/// −0.045 wL² is over half the −0.083 wL² of its fixed ends).
+pub const INFLECTION_PROPPED: f64 = INFLECTION * 0.25 / ((3.0 - 1.732_050_807_568_877_2) / 6.0);
+
 /// When a member is flagged.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Thresholds {
@@ -51,9 +67,11 @@ pub struct Thresholds {
     /// the largest computed moment of the case's members of the same role (where the hand
     /// method says "small", as for interior columns under gravity, it is not judged).
     pub significant: f64,
-    /// Ratio computed/approximate flagged above this or below its inverse. Not judged where
-    /// the estimate's gravity and lateral parts cancel to less than half their sum.
+    /// Ratio computed/approximate flagged above this or below its inverse.
     pub ratio: f64,
+    /// A location is judged only where the estimate's gravity and lateral parts do not
+    /// cancel: `|gravity + lateral| ≥ parts · (|gravity| + |lateral|)`.
+    pub parts: f64,
     /// A beam's downward load per length flagged when it is more than this many times the
     /// median of the case's loaded beams, less than the median over it, or of the opposite
     /// sense.
@@ -61,18 +79,22 @@ pub struct Thresholds {
 }
 
 impl Default for Thresholds {
-    /// 0.25, 4 and 10 (common practice, no source): the hand methods are within a factor
+    /// 0.25, 4, 0.6 and 10 (common practice, no source): the hand methods are within a factor
     /// of about 2 of the stiffness solution on regular frames (on seeded random frames with
     /// unequal bays 4–9 m, point loads and releases, about 1 % of the judged member results
     /// are flagged: `tests/approx.rs`), and roof beams carry down to
     /// about a sixth of a floor beam's load, while the usual unit mistakes change a load by
     /// 1000 (N for kN, kN/mm for kN/m) or 12 (per inch for per foot). Mistakes by 9.81,
     /// 4.45 (kip for kN) or 3.28 (ft for m) are within the spread of real loads and are
-    /// not caught by the load test.
+    /// not caught by the load test. With each part within a factor of 2, a sum of parts of
+    /// opposite signs keeps its sign only where the larger part is over 4 times the smaller
+    /// one, i.e. where `|g + l| ≥ (4 − 1)/(4 + 1) · (|g| + |l|) = 0.6 · (|g| + |l|)`
+    /// (closed form of that bound).
     fn default() -> Self {
         Thresholds {
             significant: 0.25,
             ratio: 4.0,
+            parts: 0.6,
             load: 10.0,
         }
     }
@@ -180,6 +202,8 @@ pub struct CaseEstimate {
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct ApproxReport {
     pub inflection: f64,
+    /// [`INFLECTION_PROPPED`].
+    pub inflection_propped: f64,
     pub thresholds: Thresholds,
     pub cases: Vec<CaseEstimate>,
     /// One line on what usually causes a flag.
@@ -282,8 +306,17 @@ pub fn approximate(
         let l = model.length(m);
         let w = -local_total(model, m, &loads[m]).1 / l;
         let mem = &model.members[m];
-        let a = |released: bool| if released { 0.0 } else { INFLECTION };
-        let (mi, mid, mj, x) = beam_gravity(w, l, a(mem.release_i), a(mem.release_j));
+        let a = |released: bool, other_released: bool| match (released, other_released) {
+            (true, _) => 0.0,
+            (false, true) => INFLECTION_PROPPED,
+            (false, false) => INFLECTION,
+        };
+        let (mi, mid, mj, x) = beam_gravity(
+            w,
+            l,
+            a(mem.release_i, mem.release_j),
+            a(mem.release_j, mem.release_i),
+        );
         // Internal M(0) = −Mz_i, M(L) = +Mz_j (DEVELOPERS.md, sign convention).
         mz[m] = [-mi, mj];
         span[m] = Some((x, mid));
@@ -325,20 +358,62 @@ pub fn approximate(
             }
         }
     }
-    let lateral = portal(model, stories, factors, &loads);
+    let sway = portal(model, stories, &gravity_sway_shears(model, stories, &mz));
+    let fx = lateral_at_nodes(model, factors, &loads);
+    let lateral = portal(model, stories, &applied_story_shears(model, stories, &fx));
+    // Portal moments are linear along a member (zero at a beam's mid-span).
+    let at = |ends: (f64, f64), x: f64, l: f64| ends.0 + (ends.1 - ends.0) * x / l;
     (0..nm)
         .map(|m| {
             let l = model.length(m);
             let mut rows = vec![
-                (Location::EndI, 0.0, -mz[m][0], lateral[m].0),
-                (Location::EndJ, l, mz[m][1], lateral[m].1),
+                (Location::EndI, 0.0, -mz[m][0] + sway[m].0, lateral[m].0),
+                (Location::EndJ, l, mz[m][1] + sway[m].1, lateral[m].1),
             ];
             if let Some((x, mid)) = span[m] {
-                // Lateral beam moments are linear, zero at mid-span.
-                let lat = lateral[m].0 + (lateral[m].1 - lateral[m].0) * x / l;
-                rows.push((Location::Span, x, mid, lat));
+                rows.push((
+                    Location::Span,
+                    x,
+                    mid + at(sway[m], x, l),
+                    at(lateral[m], x, l),
+                ));
             }
             rows
+        })
+        .collect()
+}
+
+/// Story shears (N, +X) of the gravity sway of every story: the reverse of the sum of the
+/// no-sway column shears `(Mz_i + Mz_j)/L` (end actions `mz`, so internal `M(0) = −Mz_i`,
+/// `M(L) = Mz_j` and `V = (M(L) − M(0))/L` is the force the level above applies in +X, as in
+/// [`portal`]); nil in a braced story, whose brace holds it. Statics: the no-sway state plus
+/// this sway carries no net story shear under gravity alone.
+pub fn gravity_sway_shears(model: &Model, stories: &[Story], mz: &[[f64; 2]]) -> Vec<f64> {
+    stories
+        .iter()
+        .map(|st| {
+            if is_braced(model, st) {
+                return 0.0;
+            }
+            -st.columns
+                .iter()
+                .filter(|&&c| !is_brace(model, c))
+                .map(|&c| (mz[c][0] + mz[c][1]) / model.length(c))
+                .sum::<f64>()
+        })
+        .collect()
+}
+
+/// Story shears (N, +X) of the lateral loads lumped at the nodes `fx`: everything applied at
+/// or above each story's top.
+fn applied_story_shears(model: &Model, stories: &[Story], fx: &[f64]) -> Vec<f64> {
+    stories
+        .iter()
+        .map(|st| {
+            (0..model.nodes.len())
+                .filter(|&n| model.nodes[n].y >= st.top - LEVEL_TOLERANCE)
+                .map(|n| fx[n])
+                .sum()
         })
         .collect()
 }
@@ -378,22 +453,12 @@ fn lateral_at_nodes(model: &Model, factors: &[(usize, f64)], loads: &[Vec<LocalL
     fx
 }
 
-/// Portal method: lateral internal moments (end i, end j) of every member.
-fn portal(
-    model: &Model,
-    stories: &[Story],
-    factors: &[(usize, f64)],
-    loads: &[Vec<LocalLoad>],
-) -> Vec<(f64, f64)> {
-    let fx = lateral_at_nodes(model, factors, loads);
+/// Portal method: internal moments (end i, end j) of every member under the story shears
+/// `shears` (N, +X, one per story).
+fn portal(model: &Model, stories: &[Story], shears: &[f64]) -> Vec<(f64, f64)> {
     let mut out = vec![(0.0, 0.0); model.members.len()];
     let mut column_mz_at = vec![0.0; model.nodes.len()];
-    for st in stories {
-        // Story shear: everything applied at or above the story top.
-        let v: f64 = (0..model.nodes.len())
-            .filter(|&n| model.nodes[n].y >= st.top - LEVEL_TOLERANCE)
-            .map(|n| fx[n])
-            .sum();
+    for (st, &v) in stories.iter().zip(shears) {
         let mut cols = portal_columns(model, &st.columns);
         cols.sort_by(|&a, &b| column_x(model, a).total_cmp(&column_x(model, b)));
         // A braced story's shear goes to its braces first (their axial stiffness dwarfs the
@@ -559,11 +624,11 @@ pub fn compare_case(
     for (e, r) in members.iter_mut().zip(refs) {
         for row in &mut e.rows {
             // Judged where large enough, and where the estimate's gravity and lateral parts
-            // do not cancel to less than half their sum.
+            // do not cancel (see `Thresholds::parts`).
             row.significant = e.estimated
                 && r > 0.0
                 && row.approximate.abs() >= th.significant * r
-                && row.approximate.abs() >= 0.5 * (row.gravity.abs() + row.lateral.abs());
+                && row.approximate.abs() >= th.parts * (row.gravity.abs() + row.lateral.abs());
             if !row.significant {
                 continue;
             }
@@ -636,6 +701,7 @@ pub fn approximate_check(
         .collect::<Result<_, _>>()?;
     Ok(ApproxReport {
         inflection: INFLECTION,
+        inflection_propped: INFLECTION_PROPPED,
         thresholds: *th,
         cases: cases
             .iter()

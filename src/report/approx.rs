@@ -4,7 +4,7 @@
 use super::page::Table;
 use crate::approx::{ApproxReport, CaseEstimate, Flag, Location, MemberEstimate};
 use crate::model::Model;
-use crate::report::{num, table_of};
+use crate::report::{fit_lines, num, table_of, text_width};
 use crate::units::Dimension;
 
 use super::CAUTION;
@@ -89,16 +89,20 @@ pub fn render_text(model: &Model, r: &ApproxReport) -> String {
     let mut out = format!(
         "Approximate check (first-order, each case's own loads; common practice, no source)\n\
          Beams under gravity: inflection points at {a}·L from each continuous end \
-         (end moments −{e}·wL², mid-span +{s}·wL² with both ends continuous). Columns: \
-         unbalanced beam-end moments by stiffness, half carried to the other end (none to a \
-         pinned base). Lateral load: portal method over the moment-frame columns (none to \
+         (end moments −{e}·wL², mid-span +{s}·wL² with both ends continuous), {ap}·L from a \
+         propped span's. Columns: unbalanced beam-end moments by stiffness, half carried to \
+         the other end (none to a pinned base); in a story without a brace the net shear of \
+         that estimate goes back through the portal method (sway under gravity). Lateral load: portal method over the moment-frame columns (none to \
          leaning columns; a braced story's shear to its brace). Sloped beams (over 5°) that \
          take moment, spans of several members and the members meeting them are not judged.\n\
          Flagged: opposite sign, or ratio computed/approx above {ra} or below 1/{ra}, where \
-         the approximate |M| reaches {sig} of the case's largest moment of the same role; a \
+         the approximate |M| reaches {sig} of the case's largest moment of the same role and \
+         its gravity and lateral parts do not cancel below {pa} of their sum; a \
          beam load more than {ld} times (or under 1/{ld} of) the case's median beam load, or \
          of the opposite sense.\n\n",
         a = r.inflection,
+        ap = num(r.inflection_propped, 3),
+        pa = th.parts,
         e = num(r.inflection * (1.0 - r.inflection) / 2.0, 3),
         s = num((1.0 - 2.0 * r.inflection).powi(2) / 8.0, 3),
         ra = th.ratio,
@@ -124,7 +128,7 @@ pub fn render_text(model: &Model, r: &ApproxReport) -> String {
     }
     out.push_str(".\n");
     out.push_str(&format!("{CAUTION}\n"));
-    out
+    fit_lines(&out, text_width())
 }
 
 /// The approximate check as one table (for CSV): a case column before the text rows.
