@@ -90,6 +90,7 @@ pub mod model;
 pub mod report;
 pub mod service;
 pub mod solve;
+pub mod spans;
 pub mod stories;
 pub mod units;
 
