@@ -5,8 +5,10 @@
 
 pub mod approx;
 pub mod check;
+pub mod combos;
 pub mod compare;
 pub mod diagram;
+pub mod export;
 pub mod handoff;
 pub mod html;
 pub mod json;
