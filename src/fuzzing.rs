@@ -47,7 +47,7 @@ pub fn model(bytes: &[u8]) {
     }
     for k in 0..model.load_cases.len().min(ANALYSE_CASES) {
         if let Ok(solution) = crate::solve::solve_case(&model, k) {
-            crate::report::solve::render(&model, k, &solution, OutputFormat::Json);
+            crate::report::export::render_solve(&model, k, &solution, OutputFormat::Json);
         }
     }
     check_model(&model);
@@ -125,12 +125,12 @@ pub fn table(bytes: &[u8]) {
             return;
         }
     };
-    combos::render_table(&table);
+    crate::report::combos::render_table(&table);
     let cases = sample_cases();
     match combos::expand(&table, &cases, &BTreeMap::new()) {
         Ok(exp) => {
-            combos::render_expansion(&table, &exp, &cases, OutputFormat::Table);
-            combos::render_expansion(&table, &exp, &cases, OutputFormat::Json);
+            crate::report::export::render_expansion(&table, &exp, &cases, OutputFormat::Table);
+            crate::report::export::render_expansion(&table, &exp, &cases, OutputFormat::Json);
         }
         Err(e) => {
             render_error(&e);

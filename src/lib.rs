@@ -2,11 +2,13 @@
 //! amplification for planar building frames.
 //!
 //! Data flow, one module per stage:
-//! [`input`] (model file) → [`model`] (validated frame and load cases) → [`arrange`] (live-load arrangements) → [`combos`]
-//! (factored cases from a combination table) → [`solve`] (first-order, no-sway/sway,
-//! second-order and buckling solutions) → [`check`] (amplification and story
-//! classification) → [`approx`] (approximate hand-method check, on request) → [`envelope`] (governing moments over the cases) → [`report`]
-//! (tables, CSV and JSON) → [`app`] (the commands).
+//! [`input`] (model file) → [`model`] (validated frame and load cases) → [`combos`]
+//! (factored cases from a combination table) → [`arrange`] (live-load arrangements over the
+//! [`spans`]) → [`solve`] (first-order, no-sway/sway, second-order and buckling solutions)
+//! → [`check`] (amplification and story classification) → [`approx`] (approximate
+//! hand-method check, on request) → [`envelope`] (governing moments over the cases) →
+//! [`report`] (the documents, written by one exporter per format: text, Markdown, CSV, JSON,
+//! HTML) → [`app`] (the commands).
 //!
 //! Results assist a licensed engineer; local codes and the adopted edition of each
 //! standard govern.
@@ -90,6 +92,7 @@ pub mod model;
 pub mod report;
 pub mod service;
 pub mod solve;
+pub mod spans;
 pub mod stories;
 pub mod units;
 

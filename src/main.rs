@@ -400,7 +400,7 @@ fn run(cli: Cli) -> Result<Done, AppError> {
             let run = app::run_compare(&a.model, &specs, &mut progress_bar())?;
             Done {
                 rendered: Some(Rendered {
-                    files: plumbline::report::compare::render(&run.view(), a.format),
+                    files: plumbline::report::export::render_compare(&run.view(), a.format),
                 }),
                 output: a.out.output,
                 written: Vec::new(),

@@ -11,8 +11,8 @@ use serde::Serialize;
 
 use crate::model::{Model, Role};
 
-/// Elevations closer than this are one level, m.
-pub const LEVEL_TOLERANCE: f64 = 1e-3;
+/// Elevations closer than this are one level, m (defined with the model).
+pub use crate::model::LEVEL_TOLERANCE;
 
 /// One story of the frame.
 #[derive(Debug, Clone, PartialEq, Serialize)]

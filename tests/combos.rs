@@ -947,7 +947,7 @@ fn the_commented_template_is_a_valid_table() {
 
 #[test]
 fn cases_report_lists_counts_merges_and_caution() {
-    use plumbline::combos::{OutputFormat, cases_report};
+    use plumbline::report::{OutputFormat, export::cases_report};
     let cases = vec![
         case("D", ActionCategory::Dead, None),
         case("L", ActionCategory::Live, None),
@@ -1602,7 +1602,8 @@ fn a_misspelt_table_name_is_not_shown_as_a_path() {
 
 #[test]
 fn every_listing_carries_the_caution() {
-    use plumbline::combos::{OutputFormat, cases_report, render_table, render_table_list};
+    use plumbline::report::combos::{render_table, render_table_list};
+    use plumbline::report::{OutputFormat, export::cases_report};
     let caution = "licensed engineer";
     assert!(render_table_list().unwrap().contains(caution));
     for s in shipped_tables() {

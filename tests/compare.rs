@@ -277,7 +277,8 @@ fn single_bay_frame_under_asce_and_en_tables_by_hand() {
 
 #[test]
 fn every_format_carries_the_caution_and_the_variants() {
-    use plumbline::report::compare::{CompareFormat, render};
+    use plumbline::report::compare::CompareFormat;
+    use plumbline::report::export::render_compare as render;
     let path = Path::new("tests/fixtures/compare-portal.toml");
     let run = run_compare(path, &[spec("en: combos=en1990-6.10", 1)], &mut |_, _| {}).unwrap();
     for format in [

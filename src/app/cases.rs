@@ -4,10 +4,12 @@ use std::path::Path;
 
 use super::error::{AppError, analysis};
 use super::setup::table_and_settings;
-use crate::combos::{expand_with, load_table, render_expansion, render_table, render_table_list};
+use crate::combos::{expand_with, load_table};
 use crate::diag::FileError;
 use crate::input::load_model;
 use crate::report::OutputFormat;
+use crate::report::combos::{render_table, render_table_list};
+use crate::report::export::render_expansion;
 
 /// `plumbline combos [NAME|PATH]`: the shipped tables, or one table's combinations.
 pub fn combos(table: Option<&str>) -> Result<String, AppError> {

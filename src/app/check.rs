@@ -5,19 +5,21 @@ use std::collections::BTreeMap;
 use std::path::{Path, PathBuf};
 
 use super::error::{AppError, analysis};
-use super::output::{Rendered, emit, stdout_with, write_output_with};
+use super::output::{Destination, Rendered};
 use super::setup::{
     model_service_table, named_table, no_case_message, own_table_for_levels, parse_sets,
     require_load_cases, resolve_table,
 };
 use crate::check::{CheckError, CheckReport};
-use crate::combos::{ComboTable, FactoredCase, Settings, expand_with, expansion_summary};
+use crate::combos::{ComboTable, FactoredCase, Settings, expand_with};
 use crate::envelope::Envelope;
 use crate::input::load_model;
 use crate::model::{Model, SecondOrderMethod};
 use crate::report::CheckFormat;
+use crate::report::combos::expansion_summary;
+use crate::report::export::{self, CheckView};
 use crate::report::solve::stiffness_words;
-use crate::report::summary::{self, Selection, Setting, Summary, TableInfo};
+use crate::report::summary::{Selection, Setting, Summary, TableInfo};
 
 /// Options of [`check`].
 #[derive(Debug, Clone, Default)]
@@ -160,6 +162,18 @@ impl CheckRun {
             envelope: self.envelope.clone(),
             service: self.service.as_ref().map(|s| &s.report),
             detail: false,
+        }
+    }
+
+    /// What the exporters read of this run: the summary (with `detail`), the approximate
+    /// check and the factored cases.
+    pub fn view(&self, detail: bool) -> CheckView<'_> {
+        let mut summary = self.summary();
+        summary.detail = detail;
+        CheckView {
+            summary,
+            approximate: self.approximate.as_ref(),
+            cases: &self.cases,
         }
     }
 
@@ -670,79 +684,12 @@ fn service_settings(
     out
 }
 
-/// Heading of the per-case detail, printed after the summary (issue 20).
-pub const DETAIL_HEADING: &str = "Per-case detail";
-
 /// Render a check run in `format` (`detail` gives the summary's tables every column and
-/// adds the per-case tables after the summary, in text and Markdown).
+/// adds the per-case tables after the summary, in text and Markdown), in memory.
 pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
-    let mut s = run.summary();
-    s.detail = detail;
-    let rendered = match format {
-        CheckFormat::Table => {
-            let mut text = summary::text(&s);
-            if detail {
-                let width = crate::report::text_width();
-                let d = crate::report::check::detail_text(&run.model, &run.report);
-                let d = crate::report::fit_lines(&format!("{d}{}", crate::caution::CAUTION), width);
-                let rule = "=".repeat(DETAIL_HEADING.chars().count());
-                text = format!("{text}\n{DETAIL_HEADING}\n{rule}\n\n{d}");
-            }
-            Rendered::text(text)
-        }
-        CheckFormat::Md => {
-            let mut text = summary::markdown(&s);
-            if detail {
-                text.push_str(&format!(
-                    "\n## {DETAIL_HEADING}\n\n```text\n{}```\n\n{}\n",
-                    crate::report::check::detail_text(&run.model, &run.report),
-                    crate::caution::CAUTION
-                ));
-            }
-            Rendered::text(text)
-        }
-        CheckFormat::Json => {
-            let approximate = run.approximate.as_ref().map(crate::report::approx::to_json);
-            return Rendered::text(summary::json(&s, approximate.as_ref()));
-        }
-        CheckFormat::Csv => Rendered {
-            files: summary::csv_files(&s),
-        },
-    };
-    match &run.approximate {
-        Some(a) => with_approximate(&run.model, a, format, rendered),
-        None => rendered,
+    Rendered {
+        files: export::offered(format, |e, out| e.check(&run.view(detail), out)),
     }
-}
-
-/// `rendered` with the approximate check added: a section after the text and Markdown, an
-/// `approximate` key in the JSON document, an `approximate.csv` file.
-fn with_approximate(
-    model: &Model,
-    a: &crate::approx::ApproxReport,
-    format: CheckFormat,
-    mut rendered: Rendered,
-) -> Rendered {
-    use crate::report::approx;
-    match (format, rendered.files.as_mut_slice()) {
-        (CheckFormat::Table, [(_, text)]) => {
-            text.push('\n');
-            text.push_str(&approx::render_text(model, a));
-        }
-        (CheckFormat::Md, [(_, text)]) => {
-            text.push_str(&format!(
-                "\n## Approximate check\n\n```text\n{}```\n",
-                approx::render_text(model, a)
-            ));
-        }
-        // The JSON writer adds its `approximate` section itself.
-        (CheckFormat::Json, _) => {}
-        _ => rendered.files.push((
-            "approximate.csv".into(),
-            summary::csv_text(&approx::table(model, a)),
-        )),
-    }
-    rendered
 }
 
 /// `plumbline check MODEL`: every factored case with and without sway, amplified for
@@ -796,48 +743,18 @@ pub fn check_and_emit(
 }
 
 /// Write a check run's report in `format` to `output` (a file; for CSV a directory of
-/// files), or print it. JSON and CSV are streamed: formatted straight into their file (or
-/// standard output), never held whole in memory, and still written whole or not at all
-/// ([`write_output_with`]). Returns the paths written.
+/// files), or print it. Each part goes straight from its exporter into its file (or
+/// standard output), so JSON and CSV are never held whole in memory, and each file is still
+/// written whole or not at all ([`Destination`]). Returns the paths written.
 pub fn emit_check(
     run: &CheckRun,
     format: CheckFormat,
     detail: bool,
     output: Option<&Path>,
 ) -> Result<Vec<PathBuf>, AppError> {
-    let approximate = || run.approximate.as_ref().map(crate::report::approx::to_json);
-    match (format, output) {
-        (CheckFormat::Json, Some(path)) => {
-            let a = approximate();
-            write_output_with(path, |w| summary::write_json(&run.summary(), a.as_ref(), w))?;
-            Ok(vec![path.to_path_buf()])
-        }
-        (CheckFormat::Json, None) => {
-            let a = approximate();
-            stdout_with(|w| summary::write_json(&run.summary(), a.as_ref(), w))?;
-            Ok(Vec::new())
-        }
-        (CheckFormat::Csv, Some(dir)) => {
-            std::fs::create_dir_all(dir).map_err(|source| AppError::Write {
-                path: dir.display().to_string(),
-                source,
-            })?;
-            let s = run.summary();
-            let mut tables = summary::csv_tables(&s);
-            if let Some(a) = &run.approximate {
-                tables.push(crate::report::approx::table(&run.model, a));
-            }
-            let mut written = Vec::new();
-            // One table at a time, each dropped once written.
-            for t in tables {
-                let p = dir.join(format!("{}.csv", t.name));
-                write_output_with(&p, |w| summary::write_csv(&t, w))?;
-                written.push(p);
-            }
-            Ok(written)
-        }
-        _ => emit(&render_check(run, format, detail), output),
-    }
+    let mut destination = Destination::new(output);
+    export::exporter(&format.to_string())?.check(&run.view(detail), &mut destination)?;
+    destination.finish()
 }
 
 /// `plumbline report MODEL`: the check as one self-contained HTML file.
@@ -847,5 +764,6 @@ pub fn report(
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<String, AppError> {
     let run = run_check(model_path, args, progress)?;
-    Ok(crate::report::html::render(&run.summary(), &run.cases))
+    let files = export::to_memory("html", |e, out| e.check(&run.view(false), out))?;
+    Ok(Rendered { files }.joined())
 }

@@ -7,6 +7,7 @@ use crate::check::CheckError;
 use crate::diag::FileError;
 use crate::input::load_model;
 use crate::model::Model;
+use crate::report::export::ExportError;
 use crate::solve::SystemError;
 
 /// Why a command failed; rendered for people by `miette` at the edge.
@@ -40,6 +41,17 @@ pub enum AppError {
 impl From<FileError> for AppError {
     fn from(e: FileError) -> Self {
         AppError::File(Box::new(e))
+    }
+}
+
+impl From<ExportError> for AppError {
+    /// A part that could not be written is a write error; a format that has no form of the
+    /// document, or no format of that name, is a wrong command line.
+    fn from(e: ExportError) -> Self {
+        match e {
+            ExportError::Write { path, source } => AppError::Write { path, source },
+            other => AppError::Usage(other.to_string()),
+        }
     }
 }
 

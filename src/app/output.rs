@@ -1,9 +1,12 @@
 //! Writing what a command rendered: a file written atomically, a directory of CSV files or
-//! standard output.
+//! standard output; [`Destination`] is the same as an export sink, for documents written
+//! part by part as they are produced.
 
+use std::io;
 use std::path::{Path, PathBuf};
 
 use super::error::AppError;
+use crate::report::export::{ExportError, Memory, Sink};
 
 /// Refuse an output file that is one of the input files (the model or a table file named
 /// by path), so that `-o` can never overwrite what was read. Paths are compared after
@@ -110,10 +113,18 @@ pub fn write_output_with(
     path: &Path,
     write: impl FnOnce(&mut std::fs::File) -> std::io::Result<()>,
 ) -> Result<(), AppError> {
-    let err = |source| AppError::Write {
+    write_atomically(path, write).map_err(|source| AppError::Write {
         path: path.display().to_string(),
         source,
-    };
+    })
+}
+
+/// Write to `path` through a temporary file beside it, flushed to disk and renamed over
+/// it; the temporary file is removed if anything fails.
+fn write_atomically(
+    path: &Path,
+    write: impl FnOnce(&mut std::fs::File) -> io::Result<()>,
+) -> io::Result<()> {
     let name = path
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())
@@ -125,11 +136,10 @@ pub fn write_output_with(
     });
     if let Err(e) = written {
         let _ = std::fs::remove_file(&tmp);
-        return Err(err(e));
+        return Err(e);
     }
-    std::fs::rename(&tmp, path).map_err(|e| {
+    std::fs::rename(&tmp, path).inspect_err(|_| {
         let _ = std::fs::remove_file(&tmp);
-        err(e)
     })
 }
 
@@ -147,13 +157,94 @@ pub fn write_stdout(text: &str) -> Result<(), AppError> {
 pub fn stdout_with(
     write: impl FnOnce(&mut std::io::StdoutLock<'static>) -> std::io::Result<()>,
 ) -> Result<(), AppError> {
+    print_with(write).map_err(|source| AppError::Write {
+        path: STDOUT.into(),
+        source,
+    })
+}
+
+/// How errors name standard output.
+const STDOUT: &str = "standard output";
+
+/// [`stdout_with`] with the bare error.
+fn print_with(
+    write: impl FnOnce(&mut std::io::StdoutLock<'static>) -> io::Result<()>,
+) -> io::Result<()> {
     use std::io::Write;
     let mut out = std::io::stdout().lock();
     match write(&mut out).and_then(|()| out.flush()) {
-        Err(e) if e.kind() != std::io::ErrorKind::BrokenPipe => Err(AppError::Write {
-            path: "standard output".into(),
-            source: e,
-        }),
+        Err(e) if e.kind() != io::ErrorKind::BrokenPipe => Err(e),
         _ => Ok(()),
+    }
+}
+
+/// Where a command's document goes, as an export [`Sink`]. With an output path, a document
+/// that is one stream goes to that file, and a document of several files into that
+/// directory (created if needed); each file is written straight from the exporter, whole or
+/// not at all ([`write_output_with`]). Without one, a stream goes straight to standard
+/// output, and several files are printed together by [`Destination::finish`], each under a
+/// `# name` line ([`Rendered::joined`]).
+pub struct Destination<'a> {
+    output: Option<&'a Path>,
+    written: Vec<PathBuf>,
+    /// Files bound for standard output.
+    held: Memory,
+}
+
+impl<'a> Destination<'a> {
+    /// A destination: `output` (`-o`), else standard output.
+    pub fn new(output: Option<&'a Path>) -> Destination<'a> {
+        Destination {
+            output,
+            written: Vec::new(),
+            held: Memory::default(),
+        }
+    }
+
+    /// Print what is held for standard output; the paths written.
+    pub fn finish(self) -> Result<Vec<PathBuf>, AppError> {
+        if !self.held.files.is_empty() {
+            write_stdout(
+                &Rendered {
+                    files: self.held.files,
+                }
+                .joined(),
+            )?;
+        }
+        Ok(self.written)
+    }
+}
+
+/// The error of writing `path`.
+fn failed(path: &Path) -> impl FnOnce(io::Error) -> ExportError {
+    let path = path.display().to_string();
+    move |source| ExportError::Write { path, source }
+}
+
+impl Sink for Destination<'_> {
+    fn part(
+        &mut self,
+        name: &str,
+        write: &mut dyn FnMut(&mut dyn io::Write) -> io::Result<()>,
+    ) -> Result<(), ExportError> {
+        let path = match (self.output, name.is_empty()) {
+            (None, true) => {
+                return print_with(|out| write(out)).map_err(|source| ExportError::Write {
+                    path: STDOUT.into(),
+                    source,
+                });
+            }
+            (None, false) => return self.held.part(name, write),
+            (Some(file), true) => file.to_path_buf(),
+            (Some(dir), false) => {
+                if self.written.is_empty() {
+                    std::fs::create_dir_all(dir).map_err(failed(dir))?;
+                }
+                dir.join(name)
+            }
+        };
+        write_atomically(&path, |f| write(f)).map_err(failed(&path))?;
+        self.written.push(path);
+        Ok(())
     }
 }

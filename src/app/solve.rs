@@ -40,6 +40,6 @@ pub fn solve_with(
     let solution = crate::solve::solve_case(&model, k)
         .map_err(|e: SystemError| analysis(&model, model_path, e))?;
     Ok(Rendered {
-        files: crate::report::solve::render(&model, k, &solution, format),
+        files: crate::report::export::render_solve(&model, k, &solution, format),
     })
 }

@@ -14,12 +14,13 @@
 
 use std::collections::BTreeMap;
 
-use super::spans::{Arranged, Pattern, loaded_spans};
+use super::pieces::Arranged;
 use crate::model::{LocalLoad, Model};
 use crate::solve::beam::internal_forces;
 use crate::solve::first_order::{FirstOrder, Solution};
 use crate::solve::forces::InternalForces;
 use crate::solve::system::SystemError;
+use crate::spans::{Pattern, loaded_spans};
 
 /// Interior points of a member at which worst subsets are found: every `L / 10` (the ends
 /// are always included). Measured on the 5-bay, 10-storey bench frame (`benches/check.rs`).

@@ -47,9 +47,10 @@
 //! lines are ranked into floors by their mean elevation.
 
 pub mod exact;
-mod spans;
+mod pieces;
 
-pub use spans::*;
+pub use crate::spans::*;
+pub use pieces::{Arranged, arrange};
 
 use crate::combos::Expansion;
 use crate::model::{LivePatterns, Model};

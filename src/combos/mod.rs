@@ -16,7 +16,6 @@
 mod expand;
 pub mod expr;
 pub mod levels;
-mod render;
 mod settings;
 mod table;
 mod types;
@@ -29,11 +28,7 @@ pub use expand::{
     param_values,
 };
 pub use expr::Expr;
-pub use render::{
-    OutputFormat, cases_report, cases_report_with, csv_caution, expansion_summary,
-    render_expansion, render_table, render_table_list, term_text,
-};
-pub use settings::{Notice, Settings};
+pub use settings::{Notice, Settings, format_factor};
 pub use table::{ShippedTable, load_table, parse_table, shipped_tables};
 pub use types::{
     Action, ActionFactor, ActionKind, Basis, Combination, ComboTable, Factor, Param, Term, TermKind,

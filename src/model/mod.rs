@@ -178,6 +178,15 @@ pub enum NotionalLoads {
     Ec3Imperfection,
 }
 
+/// Fewest elements per member that carry P-δ: with one element the consistent geometric
+/// stiffness of a member whose ends do not translate relative to each other does almost
+/// nothing for its own curvature (the AISC 360-16 Commentary Case 1 mid-span moment comes
+/// out about 37 % low, issue 7 item 6), so fewer are refused ([`AnalysisOptions::segments`]).
+pub const MIN_SEGMENTS: usize = 2;
+
+/// Elevations closer than this are one level, m (story levels, declared or found).
+pub const LEVEL_TOLERANCE: f64 = 1e-3;
+
 /// Analysis settings read from the model file (the command line may override them).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct AnalysisOptions {

@@ -8,6 +8,9 @@ use crate::check::{CaseCheck, CheckReport, MemberCheck, StoryFigures};
 use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
 
+/// Heading of the per-case detail, printed after the summary (issue 20).
+pub const DETAIL_HEADING: &str = "Per-case detail";
+
 /// What the report says about the method in use.
 pub fn method_title(m: SecondOrderMethod) -> &'static str {
     match m {

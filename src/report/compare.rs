@@ -6,7 +6,7 @@
 use serde::Serialize;
 
 use super::html::html_table;
-use super::summary::{Table, csv_text, md_cell, md_table};
+use super::summary::{Table, md_cell, md_table};
 use super::{CAUTION, num, table_of};
 use crate::compare::{Change, Comparison, LeftOut, Quantity, Row, Value, VariantInfo};
 use crate::model::Model;
@@ -307,9 +307,9 @@ pub fn markdown(run: &CompareView) -> String {
     out
 }
 
-/// The CSV files: variants, stories, members (tidy: one row per member, quantity and
+/// The CSV tables: variants, stories, members (tidy: one row per member, quantity and
 /// variant).
-pub fn csv_files(run: &CompareView) -> Vec<(String, String)> {
+pub fn csv_tables(run: &CompareView) -> [Table; 3] {
     let model = model_of(run);
     let c = run.comparison;
     let mut tidy = Vec::new();
@@ -342,9 +342,6 @@ pub fn csv_files(run: &CompareView) -> Vec<(String, String)> {
         rows: tidy,
     };
     [variants_table(run), story_table(c), members]
-        .iter()
-        .map(|t| (format!("{}.csv", t.name), csv_text(t)))
-        .collect()
 }
 
 /// The JSON document of `compare`.
@@ -515,18 +512,7 @@ pub fn html(run: &CompareView) -> String {
     out
 }
 
-/// Render `run` in `format`.
-pub fn render(run: &CompareView, format: CompareFormat) -> Vec<(String, String)> {
-    match format {
-        CompareFormat::Table => vec![(String::new(), text(run))],
-        CompareFormat::Md => vec![(String::new(), markdown(run))],
-        CompareFormat::Json => vec![(String::new(), json(run))],
-        CompareFormat::Html => vec![(String::new(), html(run))],
-        CompareFormat::Csv => csv_files(run),
-    }
-}
-
-/// Output format of `compare`.
+/// Output format of `compare` (each one names its exporter, `report::export`).
 #[derive(
     Debug, Clone, Copy, PartialEq, Eq, Default, clap::ValueEnum, strum::Display, strum::EnumString,
 )]

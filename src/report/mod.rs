@@ -1,12 +1,16 @@
 //! Reports for people and programs: plain-text tables in the model's units, and JSON in SI
 //! base units with the unit of every field stated in the document.
 //!
-//! Every report carries [`CAUTION`].
+//! The modules here build each document's forms (tables, text, the JSON writer); the
+//! exporters of [`export`], one per format, choose, compose and write them. Every report
+//! carries [`CAUTION`].
 
 pub mod approx;
 pub mod check;
+pub mod combos;
 pub mod compare;
 pub mod diagram;
+pub mod export;
 pub mod handoff;
 pub mod html;
 pub mod json;

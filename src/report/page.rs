@@ -112,3 +112,12 @@ pub struct Table {
     pub header: Vec<String>,
     pub rows: Vec<Vec<String>>,
 }
+
+/// What a check report reads: the run's summary (`summary.detail` asks for the per-case
+/// detail), the approximate check when it was asked for, and the factored cases analysed
+/// (the drawings of the HTML report take their loads).
+pub struct CheckView<'a> {
+    pub summary: Summary<'a>,
+    pub approximate: Option<&'a crate::approx::ApproxReport>,
+    pub cases: &'a [crate::combos::FactoredCase],
+}

@@ -2,8 +2,8 @@
 
 use serde::Serialize;
 
-use super::summary::{Table, csv_text};
-use super::{CAUTION, OutputFormat, num, table_of};
+use super::page::Table;
+use super::{CAUTION, num, table_of};
 use crate::model::{LocalLoad, Model, Restraint};
 use crate::solve::Solution;
 use crate::solve::first_order::{combined_member_loads, member_diagram, member_extremes};
@@ -126,32 +126,35 @@ fn supported(model: &Model) -> Vec<usize> {
     v
 }
 
-/// Render the first-order `solution` of load case number `case` of `model`: one text
-/// (`("", text)`), or for CSV one file per table, each closed by the caution.
+/// What the report of one load case's solution reads: the first-order `solution` of load
+/// case number `case` of `model`.
 ///
 /// Member-end values are the end actions in member-local axes (forces the nodes exert on
 /// the member: axial along i→j, shear along local y, moment counter-clockwise); span
 /// extremes and stations are internal forces (N tension positive, M positive with the
 /// local −y face in tension).
-pub fn render(
-    model: &Model,
-    case: usize,
-    solution: &Solution,
-    format: OutputFormat,
-) -> Vec<(String, String)> {
-    let loads = combined_member_loads(model, &[(case, 1.0)]);
-    let id = &model.load_cases[case].id;
-    match format {
-        OutputFormat::Json => vec![(String::new(), json(model, id, solution, &loads))],
-        OutputFormat::Table => vec![(String::new(), text(model, id, solution, &loads))],
-        OutputFormat::Csv => tables(model, solution, &loads)
-            .iter()
-            .map(|t| (format!("{}.csv", t.name), csv_text(t)))
-            .collect(),
+pub struct SolveView<'a> {
+    pub model: &'a Model,
+    pub case: usize,
+    pub solution: &'a Solution,
+}
+
+impl SolveView<'_> {
+    /// The load case's member loads in member axes.
+    fn loads(&self) -> Vec<Vec<LocalLoad>> {
+        combined_member_loads(self.model, &[(self.case, 1.0)])
+    }
+
+    /// The load case's id.
+    fn id(&self) -> &str {
+        &self.model.load_cases[self.case].id
     }
 }
 
-fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> String {
+/// The solution as one JSON document in SI base units, with the member diagrams at
+/// [`STATIONS`] stations.
+pub fn json(v: &SolveView) -> String {
+    let (model, case, s, loads) = (v.model, v.id(), v.solution, &v.loads());
     let stiffness = member_stiffness(model);
     let doc = Doc {
         title: &model.title,
@@ -246,7 +249,12 @@ fn json(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> St
 
 /// The solution's tables in the model's units: displacements, reactions, member end
 /// actions and the extreme moments along each member.
-fn tables(model: &Model, s: &Solution, loads: &[Vec<LocalLoad>]) -> [Table; 4] {
+pub fn tables(v: &SolveView) -> [Table; 4] {
+    tables_with(v.model, v.solution, &v.loads())
+}
+
+/// [`tables`] of solution `s` under member loads `loads`.
+fn tables_with(model: &Model, s: &Solution, loads: &[Vec<LocalLoad>]) -> [Table; 4] {
     let u = &model.units;
     let (ld, lf, lm, ll) = (
         u.label(Dimension::Displacement),
@@ -353,13 +361,14 @@ fn tables(model: &Model, s: &Solution, loads: &[Vec<LocalLoad>]) -> [Table; 4] {
 
 /// The solution as text: the tables under their titles, the equilibrium residual and the
 /// caution.
-fn text(model: &Model, case: &str, s: &Solution, loads: &[Vec<LocalLoad>]) -> String {
+pub fn text(v: &SolveView) -> String {
+    let (model, case, s, loads) = (v.model, v.id(), v.solution, &v.loads());
     let mut out = format!(
         "{}\nLoad case {case}: first-order solution, stiffness {}\n",
         model.title,
         stiffness_words(model.analysis.stiffness)
     );
-    for t in tables(model, s, loads) {
+    for t in tables_with(model, s, loads) {
         out.push_str(&format!("\n{}\n{}\n", t.title, table_of(&t.header, t.rows)));
     }
     out.push_str(&format!(

@@ -120,13 +120,6 @@ pub fn write_json(
     Ok(())
 }
 
-/// The JSON text of a run (see [`write_json`]).
-pub fn json(s: &Summary, approximate: Option<&serde_json::Value>) -> String {
-    let mut out = Vec::new();
-    write_json(s, approximate, &mut out).expect("a check document serializes to memory");
-    String::from_utf8(out).expect("JSON is UTF-8")
-}
-
 /// Number formatting in the model's units.
 struct Fmt<'a> {
     model: &'a Model,
@@ -888,13 +881,6 @@ pub fn write_csv(t: &Table, out: impl std::io::Write) -> std::io::Result<()> {
     out.flush()
 }
 
-/// CSV text of one table (see [`write_csv`]).
-pub fn csv_text(t: &Table) -> String {
-    let mut out = Vec::new();
-    write_csv(t, &mut out).expect("csv to memory");
-    String::from_utf8(out).expect("csv of UTF-8 text is UTF-8")
-}
-
 /// The CSV tables of a run, one file each (named `<table name>.csv`).
 pub fn csv_tables(s: &Summary) -> Vec<Table> {
     // The CSV files have no heading: the assumptions say which cases were included.
@@ -923,14 +909,6 @@ pub fn csv_tables(s: &Summary) -> Vec<Table> {
         tables.extend(super::service::tables(s.model, r));
     }
     tables
-}
-
-/// The CSV files of a run: `(file name, text)`, one per table.
-pub fn csv_files(s: &Summary) -> Vec<(String, String)> {
-    csv_tables(s)
-        .iter()
-        .map(|t| (format!("{}.csv", t.name), csv_text(t)))
-        .collect()
 }
 
 /// The story envelope in tidy form: one row per story and figure.

@@ -46,11 +46,8 @@ pub const MAX_ITERATIONS: usize = 50;
 /// Convergence: change in displacements relative to the largest displacement.
 pub const TOLERANCE: f64 = 1e-9;
 
-/// Fewest elements per member that carry P-δ: with one element the consistent geometric
-/// stiffness of a member whose ends do not translate relative to each other does almost
-/// nothing for its own curvature (the AISC 360-16 Commentary Case 1 mid-span moment comes
-/// out about 37 % low, issue 7 item 6), so fewer are refused.
-pub const MIN_SEGMENTS: usize = 2;
+/// Fewest elements per member that carry P-δ (defined with the model's analysis options).
+pub use crate::model::MIN_SEGMENTS;
 
 /// A segmented model ready for second-order and buckling analyses.
 #[derive(Debug, Clone)]

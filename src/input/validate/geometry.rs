@@ -169,7 +169,7 @@ pub(super) fn check_story_levels(
     for (k, (&y, v)) in decl.levels.iter().zip(list.get_ref()).enumerate() {
         let near = column_ends
             .iter()
-            .any(|&e| (e - y).abs() < crate::stories::LEVEL_TOLERANCE);
+            .any(|&e| (e - y).abs() < crate::model::LEVEL_TOLERANCE);
         if !near {
             let nearest = column_ends
                 .iter()

@@ -134,7 +134,7 @@ pub(super) fn load_cases(
 }
 
 /// An arranged load case must be live load with some of it on beams, and the frame's
-/// arrangements must stay within [`crate::arrange::MAX_ARRANGEMENTS`].
+/// arrangements must stay within [`crate::spans::MAX_ARRANGEMENTS`].
 fn arrangeable(
     ctx: &Ctx,
     at: &S<bool>,
@@ -142,7 +142,7 @@ fn arrangeable(
     case: &LoadCase,
     model: &Model,
 ) -> Result<(), FileError> {
-    use crate::arrange::{MAX_ARRANGEMENTS, may_arrange, patterns, spans};
+    use crate::spans::{MAX_ARRANGEMENTS, may_arrange, patterns, spans};
     if !may_arrange(case.category) {
         return Err(ctx.err(
             at.span(),

@@ -231,7 +231,7 @@ pub(super) fn analysis(
     }
     if let Some(s) = &a.segments {
         // Fewer than 2 elements per member lose P-δ (issue 7 item 6): refused.
-        let min = crate::solve::second_order::MIN_SEGMENTS as i64;
+        let min = crate::model::MIN_SEGMENTS as i64;
         if *s.get_ref() < min || *s.get_ref() > 1000 {
             return Err(ctx.err(
                 s.span(),

@@ -1,21 +1,20 @@
-//! Text output for the command line: the list of shipped tables, one table's combinations as
-//! the standard writes them, and the factored cases of a model (table, CSV or JSON).
+//! The combination tables and factored cases for people and programs: the list of shipped
+//! tables and one table's combinations as the standard writes them (`plumbline combos`,
+//! text), and the factored cases of a model (`plumbline cases`) as text, CSV or JSON, each
+//! form built here and written by its exporter (`report::export`).
 
 use std::collections::BTreeMap;
 
 use serde::Serialize;
 
-use super::expand::{Expansion, expand, expand_with};
-use super::expr::{Expr, resolve};
-use super::settings::Settings;
-use super::settings::format_factor;
-use super::table::{parse_table, shipped_tables};
-use super::types::{ActionFactor, ComboTable, Factor, Term, TermKind};
+use super::{CAUTION, table_of};
+use crate::combos::expr::{Expr, resolve};
+use crate::combos::{
+    ActionFactor, ComboTable, Expansion, Factor, Term, TermKind, format_factor, parse_table,
+    shipped_tables,
+};
 use crate::diag::FileError;
 use crate::model::LoadCase;
-
-pub use crate::report::OutputFormat;
-use crate::report::{CAUTION, table_of};
 
 /// `plumbline combos`: name, title and edition of every shipped table.
 pub fn render_table_list() -> Result<String, FileError> {
@@ -248,93 +247,101 @@ struct JsonCase<'a> {
     note: &'a Option<String>,
 }
 
-/// The factored cases in `format`, with counts, merges, skips, unplaced load cases and the
-/// caution lines.
-pub fn render_expansion(
-    table: &ComboTable,
-    exp: &Expansion,
-    cases: &[LoadCase],
-    format: OutputFormat,
-) -> String {
-    match format {
-        OutputFormat::Json => {
-            let list: Vec<JsonCase> = exp
-                .cases
+/// What the list of factored cases reads (`plumbline cases`): the table, its expansion and
+/// the load cases the factors refer to.
+pub struct CasesView<'a> {
+    pub table: &'a ComboTable,
+    pub expansion: &'a Expansion,
+    pub load_cases: &'a [LoadCase],
+}
+
+/// The factored cases as JSON: the table, the caution, the count, every case with its
+/// factors by load case, merges, skips, unplaced load cases and notices.
+pub fn cases_json(v: &CasesView) -> String {
+    let (table, exp, cases) = (v.table, v.expansion, v.load_cases);
+    let list: Vec<JsonCase> = exp
+        .cases
+        .iter()
+        .map(|c| JsonCase {
+            id: &c.id,
+            expression: &c.expression,
+            basis: c.basis.to_string(),
+            combination: &c.combination,
+            factors: c
+                .factors
                 .iter()
-                .map(|c| JsonCase {
-                    id: &c.id,
-                    expression: &c.expression,
-                    basis: c.basis.to_string(),
-                    combination: &c.combination,
-                    factors: c
-                        .factors
-                        .iter()
-                        .map(|(i, f)| (cases[*i].id.as_str(), *f))
-                        .collect(),
-                    note: &c.note,
-                })
-                .collect();
-            let v = serde_json::json!({
-                "table": { "file": table.file, "title": table.title, "standard": table.standard,
-                           "edition": table.edition, "caution": table.caution, "notes": table.notes },
-                "caution": CAUTION,
-                "count": exp.cases.len(),
-                "cases": list,
-                "merged": exp.merged,
-                "skipped": exp.skipped,
-                "unplaced": exp.warnings,
-                "notices": exp.notices,
-            });
-            serde_json::to_string_pretty(&v).unwrap_or_default() + "\n"
-        }
-        OutputFormat::Csv => {
-            let mut s = String::from("id,combination,basis,expression");
-            for c in cases {
-                s.push(',');
-                s.push_str(&csv_field(&c.id));
-            }
-            s.push('\n');
-            for fc in &exp.cases {
-                s.push_str(
-                    &[
-                        csv_field(&fc.id),
-                        csv_field(&fc.combination),
-                        fc.basis.to_string(),
-                        csv_field(&fc.expression),
-                    ]
-                    .join(","),
-                );
-                for i in 0..cases.len() {
-                    s.push_str(&format!(",{}", fc.factor_of(i)));
-                }
-                s.push('\n');
-            }
-            s.push_str(&csv_caution());
-            s
-        }
-        OutputFormat::Table => {
-            let rows = exp
-                .cases
-                .iter()
-                .map(|c| {
-                    vec![
-                        c.id.clone(),
-                        c.expression.clone(),
-                        c.basis.to_string(),
-                        c.note.clone().unwrap_or_default(),
-                    ]
-                })
-                .collect();
-            let mut s = header(table);
-            s.push('\n');
-            s.push_str(&table_of(&["id", "expression", "basis", "note"], rows));
-            s.push_str("\n\n");
-            s.push_str(&expansion_summary(exp));
-            s.push_str(CAUTION);
-            s.push('\n');
-            s
-        }
+                .map(|(i, f)| (cases[*i].id.as_str(), *f))
+                .collect(),
+            note: &c.note,
+        })
+        .collect();
+    let v = serde_json::json!({
+        "table": { "file": table.file, "title": table.title, "standard": table.standard,
+                   "edition": table.edition, "caution": table.caution, "notes": table.notes },
+        "caution": CAUTION,
+        "count": exp.cases.len(),
+        "cases": list,
+        "merged": exp.merged,
+        "skipped": exp.skipped,
+        "unplaced": exp.warnings,
+        "notices": exp.notices,
+    });
+    serde_json::to_string_pretty(&v).unwrap_or_default() + "\n"
+}
+
+/// The factored cases as one CSV file: id, combination, basis, expression and one factor
+/// column per load case, then the caution line.
+pub fn cases_csv(v: &CasesView) -> String {
+    let (exp, cases) = (v.expansion, v.load_cases);
+    let mut s = String::from("id,combination,basis,expression");
+    for c in cases {
+        s.push(',');
+        s.push_str(&csv_field(&c.id));
     }
+    s.push('\n');
+    for fc in &exp.cases {
+        s.push_str(
+            &[
+                csv_field(&fc.id),
+                csv_field(&fc.combination),
+                fc.basis.to_string(),
+                csv_field(&fc.expression),
+            ]
+            .join(","),
+        );
+        for i in 0..cases.len() {
+            s.push_str(&format!(",{}", fc.factor_of(i)));
+        }
+        s.push('\n');
+    }
+    s.push_str(&csv_caution());
+    s
+}
+
+/// The factored cases as text: the table's header, one row per case, the counts and the
+/// lines a reader must see ([`expansion_summary`]), and the caution.
+pub fn cases_text(v: &CasesView) -> String {
+    let (table, exp) = (v.table, v.expansion);
+    let rows = exp
+        .cases
+        .iter()
+        .map(|c| {
+            vec![
+                c.id.clone(),
+                c.expression.clone(),
+                c.basis.to_string(),
+                c.note.clone().unwrap_or_default(),
+            ]
+        })
+        .collect();
+    let mut s = header(table);
+    s.push('\n');
+    s.push_str(&table_of(&["id", "expression", "basis", "note"], rows));
+    s.push_str("\n\n");
+    s.push_str(&expansion_summary(exp));
+    s.push_str(CAUTION);
+    s.push('\n');
+    s
 }
 
 /// Counts of an expansion and the lines a reader must see: merged, skipped and unplaced.
@@ -384,28 +391,4 @@ fn csv_field(s: &str) -> String {
     } else {
         s.to_string()
     }
-}
-
-/// Expand `table` for `cases` with `overrides` and render the result in `format`: the
-/// library side of `plumbline cases`.
-pub fn cases_report(
-    cases: &[LoadCase],
-    table: &ComboTable,
-    overrides: &BTreeMap<String, f64>,
-    format: OutputFormat,
-) -> Result<String, FileError> {
-    let exp = expand(table, cases, overrides)?;
-    Ok(render_expansion(table, &exp, cases, format))
-}
-
-/// [`cases_report`] with the model's [`Settings`] (parameters with their locations, load
-/// levels and conversions).
-pub fn cases_report_with(
-    cases: &[LoadCase],
-    table: &ComboTable,
-    settings: &Settings,
-    format: OutputFormat,
-) -> Result<String, FileError> {
-    let exp = expand_with(table, cases, settings)?;
-    Ok(render_expansion(table, &exp, cases, format))
 }
