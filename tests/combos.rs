@@ -206,7 +206,11 @@ fn asce7_16_strength_all_actions() {
         ],
     );
     assert!(e.merged.is_empty() && e.skipped.is_empty());
-    assert_eq!(unplaced(&e), vec![ActionCategory::Temperature]);
+    verify::same(
+        "categories the table does not place",
+        vec![ActionCategory::Temperature],
+        unplaced(&e),
+    );
     assert_eq!(e.cases[3].expression, "1.2D + 1.6L + 0.5R");
 }
 
@@ -221,7 +225,11 @@ fn asce7_16_asd_all_actions() {
     let (t, e) = run("asce7-16-asd", &cases, &[("s_ds", 1.0)]);
     assert_eq!(t.basis, Basis::AllowableStress);
     // §2.4.1 loads not acting [M]: 6 without L and/or the roof term, 9 without L and/or S.
-    assert_eq!(dropped_ids(&e).len(), 5 + 6);
+    verify::same(
+        "variants without a load not acting (6: L and/or the roof term; 9: L and/or S)",
+        5 + 6,
+        dropped_ids(&e).len(),
+    );
     let e = natural(&e);
     assert_cases(
         &e,
@@ -259,7 +267,11 @@ fn asce7_22_strength_all_actions() {
     let cases = every_category();
     let (t, e) = run("asce7-22-strength", &cases, &[("s_ds", 1.0)]);
     assert!(t.notes.iter().any(|n| n.contains("strength-level")));
-    assert_eq!(dropped_ids(&e).len(), 15);
+    verify::same(
+        "variants without a load not acting",
+        15,
+        dropped_ids(&e).len(),
+    );
     let e = natural(&e);
     assert_cases(
         &e,
@@ -295,7 +307,11 @@ fn asce7_22_asd_all_actions() {
     verify::source("ASCE/SEI 7-22 §2.4.1 / §2.4.5 [M, every row verify]");
     let cases = every_category();
     let (_, e) = run("asce7-22-asd", &cases, &[("s_ds", 1.0), ("s_seismic", 0.1)]);
-    assert_eq!(dropped_ids(&e).len(), 11);
+    verify::same(
+        "variants without a load not acting",
+        11,
+        dropped_ids(&e).len(),
+    );
     let e = natural(&e);
     assert_cases(
         &e,
@@ -397,7 +413,7 @@ fn en1990_6_10_all_actions() {
     // Every accompanying action may be absent (Table A1.2(B) γQ = 0 where favourable):
     // closed form, n = 4 variable actions each leading with any subset of the other three
     // = 4 × 2³ = 32 per γG, plus Σ γG·Gk alone, × 2 γG values = 66; the roof row 2 × 2 = 4.
-    assert_eq!(e.cases.len(), 70);
+    verify::same("factored cases, (4 × 2³ + 1) × 2 + 4", 70, e.cases.len());
     assert!(e.merged.is_empty());
     let mut exp: Vec<(String, String)> = Vec::new();
     for (l, f) in en_rotation("1.35", b'a')
@@ -419,10 +435,15 @@ fn en1990_6_10_all_actions() {
         .filter(|c| c.factors.len() == 1)
         .map(|c| c.id.as_str())
         .collect();
-    assert_eq!(g_alone, ["6.10-1a~Q~S~W~T", "6.10-1e~Q~S~W~T"]);
-    assert_eq!(
+    verify::same(
+        "cases of Σ γG·Gk alone",
+        vec!["6.10-1a~Q~S~W~T", "6.10-1e~Q~S~W~T"],
+        g_alone,
+    );
+    verify::same(
+        "categories the table does not place",
+        vec![ActionCategory::Rain, ActionCategory::Seismic],
         unplaced(&e),
-        vec![ActionCategory::Rain, ActionCategory::Seismic]
     );
 }
 
@@ -435,8 +456,12 @@ fn en1990_6_10ab_all_actions() {
     verify::source("EN 1990 (6.10a) and (6.10b) [C: infosteel MSB03/14]");
     let cases = every_category();
     let (_, e) = run("en1990-6.10ab", &cases, &[]);
-    assert_eq!(e.cases.len(), 101);
-    assert_eq!(e.merged.len(), 1);
+    verify::same("factored cases, 32 + 66 + 4 − 1 merged", 101, e.cases.len());
+    verify::same(
+        "cases merged (1.0G from both (6.10a) and (6.10b))",
+        1,
+        e.merged.len(),
+    );
     let all_psi0 = "live*1.05 snow*0.75 wind*0.9 temperature*0.9";
     let mut exp: Vec<(String, String)> = vec![
         ("6.10a-1a".into(), format!("dead*1.35 {all_psi0}")),
@@ -465,7 +490,7 @@ fn en1990_sls_characteristic_all_actions() {
     let cases = every_category();
     let (t, e) = run("en1990-sls-characteristic", &cases, &[]);
     assert_eq!(t.basis, Basis::Serviceability);
-    assert_eq!(e.cases.len(), 35);
+    verify::same("factored cases, 4 × 2³ + 1 + 2", 35, e.cases.len());
     assert_cases(
         &natural(&e),
         &cases,
@@ -606,7 +631,11 @@ fn nbcc_2020_all_actions() {
         ],
     );
     use ActionCategory::*;
-    assert_eq!(unplaced(&e), vec![RoofLive, Rain, Temperature]);
+    verify::same(
+        "categories the table does not place",
+        vec![RoofLive, Rain, Temperature],
+        unplaced(&e),
+    );
     assert!(t.edition.contains("believed unchanged from 2015"));
 }
 
@@ -873,9 +902,15 @@ fn identical_cases_are_merged_and_reported() {
             ("6.10b-1a", "G*1.1475"),
         ],
     );
-    assert_eq!(e.merged.len(), 1);
-    assert_eq!(e.merged[0].kept, "6.10a-1b");
-    assert_eq!(e.merged[0].dropped, ["6.10b-1e"]);
+    verify::same("cases merged", 1, e.merged.len());
+    verify::same(
+        "merged: 1.0G of (6.10b) kept as that of (6.10a)",
+        ("6.10a-1b", vec!["6.10b-1e"]),
+        (
+            e.merged[0].kept.as_str(),
+            e.merged[0].dropped.iter().map(String::as_str).collect(),
+        ),
+    );
     let skipped: Vec<(&str, Vec<String>)> = e
         .skipped
         .iter()
