@@ -423,6 +423,20 @@ fn reactions_balance_and_superpose_and_envelopes_are_dense_extremes_over_random_
         }
     }
     println!("{cases} cases; worst relative misfit of the reaction properties {worst:.1e}");
+    verify::property(
+        "handoff/reactions_balance_and_superpose_and_envelopes_are_dense_extremes_over_random_frames",
+        &format!(
+            "first-order factored reactions balance the factored loads in X, Y and moment, and \
+             the second-order design reactions in X (notional forces included) and Y (closed \
+             form: statics); the unfactored reaction tables summed with the case's factors \
+             give the factored set (superposition); the axial, shear and reaction envelopes \
+             are the extremes over the stable cases; every method ({cases} cases)"
+        ),
+        FRAMES as usize,
+        "largest misfit / the largest applied force (× the frame's extent for moments)",
+        worst,
+        "1e-9",
+    );
 }
 
 #[test]
