@@ -671,7 +671,7 @@ fn end_forces_balance_random_loads() {
          member_formulas' own seeded generator, 1 to 12 m) are in equilibrium with its loads, \
          fixed-fixed and with either or both ends released; a released end carries no \
          moment; the internal forces by statics close on end j; a fixed end does not rotate \
-         (closed form: statics)",
+         (closed form: statics); the count is of members",
         MEMBERS,
         "largest misfit / 1e5·L² (× L for moments)",
         verify::observed(),
@@ -729,7 +729,8 @@ fn span_extremes_bound_a_dense_sample() {
         "member_formulas/span_extremes_bound_a_dense_sample",
         "no station of a 4000-point sample of M(x) lies outside a member's exact span extremes, \
          and the best sample comes within the change of M over one step (closed form: \
-         definition of an extreme); random loads from member_formulas' own seeded generator",
+         definition of an extreme); random loads from member_formulas' own seeded generator; \
+         the count is of members",
         MEMBERS,
         "largest excess of a sample over the extremes / 1e5·L² (also the misfit of M at the maximum)",
         verify::observed(),
@@ -793,7 +794,7 @@ fn splitting_into_segments_keeps_loads_and_internal_forces() {
         "cutting a member under random loads into 1 to 5 segments keeps the total force and \
          the total moment about end i, and each segment with its share of the loads and the \
          internal forces at its start reproduces the whole member's internal forces (closed \
-         form: statics); member_formulas' own seeded generator",
+         form: statics); member_formulas' own seeded generator; the count is of members",
         MEMBERS,
         "largest misfit / 1e5·L² (× L for moments)",
         verify::observed(),
