@@ -56,6 +56,17 @@ fn worst(x: f64) -> String {
     }
 }
 
+/// Formats a computed value: round-off about an expected zero (its difference below the
+/// round-off floor of [`difference`]) reads `≈ 0`, so that the last bits of a sum never
+/// change the document; anything else as [`number`].
+fn computed(c: f64, expected: f64, scaled: f64, tol: f64) -> String {
+    if expected == 0.0 && c != 0.0 && scaled < tol.min(1e-9) {
+        "≈ 0".into()
+    } else {
+        number(c)
+    }
+}
+
 /// Formats a tolerance; zero reads `exact`.
 fn tolerance(t: f64) -> String {
     if t == 0.0 {
@@ -125,10 +136,11 @@ fn check_row(v: &Value) -> [String; 5] {
         } else {
             format!(" (of {})", number(scale))
         };
+        let scaled = scaled_difference(e, c, scale);
         (
             number(e),
-            number(c),
-            difference(scaled_difference(e, c, scale), f("tolerance")) + &against,
+            computed(c, e, scaled, f("tolerance")),
+            difference(scaled, f("tolerance")) + &against,
         )
     };
     [
@@ -173,7 +185,13 @@ fn bound_row(v: &Value, quantity: String) -> [String; 5] {
         (None, Some(u)) => format!("≤ {}", side(u)),
         (None, None) => "any".to_string(),
     };
-    [quantity, number(e), number(c), diff, range]
+    [
+        quantity,
+        number(e),
+        computed(c, e, d.abs(), 1e-9),
+        diff,
+        range,
+    ]
 }
 
 /// Renders the whole document.
@@ -232,7 +250,8 @@ fn render(records: &BTreeMap<String, Value>) -> String {
          safe-side estimate, a code limit) shows the signed difference (computed − \
          reference) / |reference| (absolute when the reference is zero) and its permitted \
          range, `≥ 0` for \"at least the reference\". Counts, verdicts and names are \
-         compared exactly.\n"
+         compared exactly. A computed value that is round-off about an expected zero (below \
+         10⁻⁹ of its scale, or of the tolerance when that is smaller) reads ≈ 0.\n"
     );
     let _ = writeln!(out, "| Test file | Tests or groups | Checks |");
     let _ = writeln!(out, "|---|---:|---:|");
@@ -340,6 +359,10 @@ fn numbers_are_formatted_stably() {
     assert_eq!(tolerance(1e-3), "1e-3");
     assert_eq!(worst(3.2e-13), "≤ 1e-12");
     assert_eq!(worst(0.25), "0.25000");
+    assert_eq!(computed(-1.6653e-12, 0.0, 5.6e-17, 1e-10), "≈ 0");
+    assert_eq!(computed(-0.0066666, 0.0, 1.9e-6, 1e-5), "-0.0066666");
+    assert_eq!(computed(1e-12, 0.0, 1e-12, 0.0), "1.0000e-12");
+    assert_eq!(computed(3.0, 3.0, 0.0, 1e-9), "3.0000");
     let bound = |e: f64, c: f64, l: Value, u: Value| {
         let v = serde_json::json!({"expected": e, "computed": c, "lower": l, "upper": u});
         bound_row(&v, "q".into())
