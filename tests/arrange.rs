@@ -79,7 +79,11 @@ fn three_span_envelope_matches_the_influence_lines() {
     let (f, case) = three_spans(l, w);
     let arranged = arrange(&f.model);
     let tags: Vec<&str> = arranged.patterns.iter().map(|p| p.tag.as_str()).collect();
-    assert_eq!(tags, ["full", "alt-a", "alt-b", "adj-N2", "adj-N3"]);
+    verify::same(
+        "three spans: arrangements (full, alternate spans, adjacent spans at each interior support)",
+        vec!["full", "alt-a", "alt-b", "adj-N2", "adj-N3"],
+        tags,
+    );
     let exp = arranged.apply(one(case));
     let ids: Vec<&str> = exp.cases.iter().map(|c| c.id.as_str()).collect();
     assert_eq!(
@@ -110,7 +114,11 @@ fn three_span_envelope_matches_the_influence_lines() {
         -7.0 / 60.0 * wl2,
         1e-9,
     );
-    assert_eq!(exp.cases[k_min_b].id, "U/L:adj-N2");
+    verify::same(
+        "three spans, arrangement giving the least moment at B (spans 1 and 2)",
+        "U/L:adj-N2",
+        exp.cases[k_min_b].id.as_str(),
+    );
 
     // The influence line of the moment near mid-span 1 is positive over spans 1 and 3 and
     // negative over span 2: load spans 1 and 3 → M_B = M_C = −wL²/20, reaction at A
@@ -123,7 +131,11 @@ fn three_span_envelope_matches_the_influence_lines() {
         0.10125 * wl2,
         1e-9,
     );
-    assert_eq!(exp.cases[k_pos_1].id, "U/L:alt-a");
+    verify::same(
+        "three spans, arrangement giving the greatest span-1 moment (spans 1 and 3)",
+        "U/L:alt-a",
+        exp.cases[k_pos_1].id.as_str(),
+    );
 
     // Mid-span 2: influence line positive over span 2 only → M_B = M_C = −wL²/20 and
     // M_mid = wL²/8 − wL²/20 = 0.075 wL².
@@ -135,7 +147,11 @@ fn three_span_envelope_matches_the_influence_lines() {
         0.075 * wl2,
         1e-9,
     );
-    assert_eq!(exp.cases[k_pos_2].id, "U/L:alt-b");
+    verify::same(
+        "three spans, arrangement giving the greatest span-2 moment (span 2 alone)",
+        "U/L:alt-b",
+        exp.cases[k_pos_2].id.as_str(),
+    );
 
     // Full loading (for comparison, and the pattern's own check): 5·M_B = −wL²/2 →
     // M_B = −0.100 wL², smaller in magnitude than the arranged −0.1167 wL².
@@ -320,6 +336,9 @@ fn checkerboard_across_floors_on_a_generated_frame() {
     // spans at each interior joint, per floor; 3 + 2 floors × (2 spans − 1) = 5. Then the
     // spans on one side of each column on the floors at both its ends (from memory): the
     // left side of C2.1 repeats the right side of C1.1, and so on, so 4 remain.
+    verify::source(
+        "ACI 318-19 §6.4.3.2 (alternate and adjacent spans); the column patterns from memory",
+    );
     let expected = [
         ("full", "every span"),
         ("alt-a", "B1.1, B2.2"),
@@ -331,7 +350,21 @@ fn checkerboard_across_floors_on_a_generated_frame() {
         ("right-C1.2", "B1.1, B1.2"),
         ("right-C2.2", "B2.1, B2.2"),
     ];
-    assert_eq!(text, expected.map(|(a, b)| (a.to_string(), b.to_string())));
+    for (k, (tag, spans)) in expected.iter().enumerate() {
+        verify::same(
+            &format!(
+                "two-bay, two-story frame: arrangement {} and its loaded spans",
+                k + 1
+            ),
+            (tag.to_string(), spans.to_string()),
+            text.get(k).cloned().unwrap_or_default(),
+        );
+    }
+    verify::same(
+        "two-bay, two-story frame: number of arrangements",
+        expected.len(),
+        text.len(),
+    );
 }
 
 #[test]

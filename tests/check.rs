@@ -8,7 +8,6 @@ use common::{only_case, strength};
 
 use std::f64::consts::PI;
 
-use approx::assert_relative_eq;
 use common::{Frame, portal, verify};
 use plumbline::check::{Classification, check};
 use plumbline::combos::Basis;
@@ -189,7 +188,11 @@ fn q_b2_and_alpha_cr_of_a_one_story_portal_by_hand() {
         );
         // The case's own sway gave the stiffness; B2 ≥ 1.1 → sway (fixed: 1.133;
         // pinned: 1.104, both above the 1.10 of AISC 360-16 App. 7.2.3(b), from memory).
-        assert_eq!(s.classification, Classification::Sway, "{}", s.criterion);
+        verify::same(
+            &format!("classification (B2 above 1.1), fixed bases = {fixed}"),
+            Classification::Sway,
+            s.classification,
+        );
     }
 }
 
@@ -245,12 +248,15 @@ fn no_sway_plus_sway_is_the_first_order_total() {
         .map(|&(k, f)| (f, solve_case(&model, k).unwrap()))
         .collect();
     let mut largest = 0.0f64;
+    // The largest differences seen, each over the scale its assertion uses.
+    let (mut worst_sum, mut worst_axial) = (0.0f64, 0.0f64);
     for (m, mc) in case.members.iter().enumerate() {
         assert_eq!(mc.member, model.members[m].id);
         let mi: f64 = solved.iter().map(|(f, s)| -f * s.end_forces[m].i[2]).sum();
         let mj: f64 = solved.iter().map(|(f, s)| f * s.end_forces[m].j[2]).sum();
         largest = largest.max(mi.abs()).max(mj.abs());
         for (end, want) in mc.ends.iter().zip([mi, mj]) {
+            worst_sum = worst_sum.max((end.no_sway + end.sway - want).abs() / largest.max(1.0));
             assert!(
                 (end.no_sway + end.sway - want).abs() <= 1e-9 * largest.max(1.0),
                 "{}: {} + {} vs {want}",
@@ -266,8 +272,31 @@ fn no_sway_plus_sway_is_the_first_order_total() {
         // `axial` is N at the most compressed section: N(x) = −Fx_i − Σpx is monotonic
         // along a member whose axial loads have one sign, so it is the lesser end value
         // (closed form).
+        worst_axial = worst_axial.max((mc.axial - ni.min(nj)).abs() / ni.abs().max(1e3));
         assert!((mc.axial - ni.min(nj)).abs() <= 1e-9 * ni.abs().max(1e3));
     }
+    verify::source("closed form: superposition, the first-order response is linear in the loads");
+    verify::close(
+        &format!(
+            "largest |no-sway + sway − free-frame moment| / largest end moment, {} member ends",
+            2 * case.members.len()
+        ),
+        "-",
+        worst_sum,
+        0.0,
+        1e-9,
+    );
+    verify::source("closed form: N(x) is monotonic along a member whose axial loads have one sign");
+    verify::close(
+        &format!(
+            "largest |axial − lesser end value| / max(|N_i|, 1 kN), {} members",
+            case.members.len()
+        ),
+        "-",
+        worst_axial,
+        0.0,
+        1e-9,
+    );
     assert!(
         case.members
             .iter()
@@ -287,6 +316,9 @@ fn symmetric_frame_under_symmetric_gravity_has_no_sway_part() {
     // non-sway under both AISC 360-16 App. 8 (B2 ≤ 1.1, from the gravity-pattern
     // stiffness) and ACI 318-19 6.6.4.3(b) (Q ≤ 0.05).
     let (f, g) = symmetric_frame();
+    verify::source(
+        "common practice, no source: a symmetric frame under symmetric gravity does not sway; AISC 360-16 App. 8 B2 ≤ 1.1, ACI 318-19 6.6.4.3(b) Q ≤ 0.05 (from memory)",
+    );
     for method in [SecondOrderMethod::AiscB1B2, SecondOrderMethod::AciMagnifier] {
         let mut model = f.model.clone();
         model.analysis.method = method;
@@ -297,8 +329,10 @@ fn symmetric_frame_under_symmetric_gravity_has_no_sway_part() {
             .flat_map(|m| m.ends.iter().map(|e| e.no_sway.abs()))
             .fold(0.0, f64::max);
         assert!(largest > 1e4, "gravity moments expected");
+        let mut worst = 0.0f64;
         for m in &case.members {
             for e in &m.ends {
+                worst = worst.max(e.sway.abs() / largest);
                 assert!(
                     e.sway.abs() <= 1e-9 * largest,
                     "{method}: {} sway {}",
@@ -307,16 +341,43 @@ fn symmetric_frame_under_symmetric_gravity_has_no_sway_part() {
                 );
             }
         }
+        verify::close(
+            &format!("{method}: largest |sway part| / largest no-sway end moment"),
+            "-",
+            worst,
+            0.0,
+            1e-9,
+        );
         for s in &case.stories {
-            assert!(s.shear.abs() <= 1e-9 * s.sum_p, "story {} shear", s.story);
-            assert_eq!(
-                s.classification,
-                Classification::NonSway,
-                "{method}, story {}: {}",
-                s.story,
-                s.criterion
+            verify::within(
+                &format!("{method}, story {}: story shear, against ΣP", s.story),
+                "N",
+                s.shear,
+                0.0,
+                s.sum_p,
+                1e-9,
             );
-            assert!(s.q_index <= 0.05 && s.b2.unwrap() <= 1.1, "{s:?}");
+            verify::same(
+                &format!("{method}, story {}: classification", s.story),
+                Classification::NonSway,
+                s.classification,
+            );
+            verify::between(
+                &format!("{method}, story {}: Q, at most 0.05", s.story),
+                "-",
+                s.q_index,
+                0.05,
+                f64::NEG_INFINITY,
+                0.0,
+            );
+            verify::between(
+                &format!("{method}, story {}: B2, at most 1.1", s.story),
+                "-",
+                s.b2.unwrap(),
+                1.1,
+                f64::NEG_INFINITY,
+                0.0,
+            );
         }
         assert!(case.notional.iter().all(|&n| n == 0.0));
         assert!(case.stable);
@@ -394,7 +455,13 @@ fn b1_of_the_simply_supported_benchmark_member_by_hand() {
             p,
             1e-9,
         );
-        assert_relative_eq!(mc.c_m.unwrap(), 1.0);
+        verify::close(
+            &format!("Cm = 1.0 (transverse load between supports, A-8-4), P = {p_kips} kips"),
+            "-",
+            mc.c_m.unwrap(),
+            1.0,
+            f64::EPSILON,
+        );
         verify::close(
             &format!("Pe1, P = {p_kips} kips"),
             "N",
@@ -432,7 +499,14 @@ fn b1_of_the_simply_supported_benchmark_member_by_hand() {
             m1,
             1e-9,
         );
-        assert!(mc.span.sway.abs() <= 1e-9 * m1);
+        verify::within(
+            &format!("Mlt at mid-span (the top is held), against Mnt, P = {p_kips} kips"),
+            "N·m",
+            mc.span.sway,
+            0.0,
+            m1,
+            1e-9,
+        );
         verify::close(
             &format!("Mr = B1·Mnt, P = {p_kips} kips"),
             "N·m",
@@ -453,7 +527,16 @@ fn b1_of_the_simply_supported_benchmark_member_by_hand() {
         );
         let diff = mc.span.design.abs() / exact - 1.0;
         eprintln!("Case 1, P = {p_kips} kips: B1·M1 / exact − 1 = {diff:+.4}");
-        assert!(diff.abs() < 0.02, "B1·M1 vs exact: {diff}");
+        verify::between(
+            &format!(
+                "Mr = B1·Mnt against the exact (wEI/P)(sec u − 1), within 2 %, P = {p_kips} kips"
+            ),
+            "N·m",
+            mc.span.design.abs(),
+            exact,
+            -0.02,
+            0.02,
+        );
     }
 }
 
@@ -550,7 +633,14 @@ fn b2_of_the_cantilever_benchmark_member_by_hand() {
         );
         // Base moment: no-sway part 0, sway part H·L, design B2·H·L.
         let base = &mc.ends[0];
-        assert!(base.no_sway.abs() <= 1e-9 * hl * l);
+        verify::within(
+            &format!("base moment Mnt, against H·L, P = {p_kips} kips"),
+            "N·m",
+            base.no_sway,
+            0.0,
+            hl * l,
+            1e-9,
+        );
         verify::close(
             &format!("base moment Mlt = H·L, P = {p_kips} kips"),
             "N·m",
@@ -579,9 +669,15 @@ fn b2_of_the_cantilever_benchmark_member_by_hand() {
         eprintln!(
             "Case 2, P = {p_kips} kips: B2·H·L / exact − 1 = {diff:+.4} (RM = 1: {diff_rm1:+.4})"
         );
-        assert!(
-            diff > 0.0 && diff < 0.08,
-            "B2 with RM = 0.85 conservative by < 8 %: {diff}"
+        verify::between(
+            &format!(
+                "base moment B2·H·L against the exact H·tan(kL)/k, conservative by < 8 %, P = {p_kips} kips"
+            ),
+            "N·m",
+            base.design.abs(),
+            exact,
+            0.0,
+            0.08,
         );
     }
 }
@@ -678,12 +774,20 @@ fn direct_method_reports_an_overloaded_frame_unstable() {
     let w = f.case("W", ActionCategory::Wind);
     f.nodal(w, n1, 1e3, 0.0, 0.0);
     let case = only_case(&f.model, &strength("D+W", &[(d, 1.0), (w, 1.0)]));
-    assert!(!case.stable);
-    assert!(!case.direct.converged);
+    verify::same("case stable (α_cr < 1)", false, case.stable);
+    verify::same(
+        "direct analysis converged (α_cr < 1)",
+        false,
+        case.direct.converged,
+    );
     let a = case.alpha_cr.unwrap();
     assert!(a < 1.0, "alpha_cr = {a}");
     verify::close("α_cr = 1/1.2", "-", a, 1.0 / 1.2, 0.01);
-    assert_eq!(case.stories[0].classification, Classification::Unstable);
+    verify::same(
+        "story classification (α_cr < 1)",
+        Classification::Unstable,
+        case.stories[0].classification,
+    );
     assert!(case.members.iter().all(|m| !m.stable));
 }
 
@@ -742,7 +846,11 @@ fn notional_loads_of_a_gravity_only_case() {
         assert_eq!(stories(&f.model).unwrap().len(), 2);
         let report = check(&f.model, &[strength("1.0D", &[(g, 1.0)])]).unwrap();
         let ids: Vec<&str> = report.cases.iter().map(|c| c.id.as_str()).collect();
-        assert_eq!(ids, ["1.0D/N+", "1.0D/N-"]);
+        verify::same(
+            &format!("cases of 1.0D with notional loads in both directions, {coefficient}"),
+            vec!["1.0D/N+", "1.0D/N-"],
+            ids,
+        );
         for (case, sign) in report.cases.iter().zip([1.0, -1.0]) {
             assert_eq!(case.notional.len(), 2);
             for (n, yi) in case.notional.iter().zip(y) {

@@ -3,7 +3,6 @@
 
 mod common;
 
-use approx::assert_relative_eq;
 use common::{Frame, portal, verify};
 use plumbline::model::{ActionCategory, LoadDirection, Restraint};
 use plumbline::solve::beam::internal_forces;
@@ -234,9 +233,14 @@ fn braced_column_with_fixed_base_has_inflection_at_one_third() {
     let parts = split.split_case(&f.model, d).unwrap();
     let m = internal_forces(4.0 / 3.0, &parts.no_sway.end_forces[c1], &[]).m;
     let (_, m_top) = end_moments(&parts.no_sway, c1);
-    assert!(
-        m.abs() < AXIAL_RIGID * m_top.abs(),
-        "M(h/3) = {m}, M(top) = {m_top}"
+    verify::source("common practice, no source (carry-over factor 1/2 to a fixed far end)");
+    verify::within(
+        "no-sway moment at h/3 above the fixed base, against the top moment",
+        "N·m",
+        m,
+        0.0,
+        m_top.abs(),
+        AXIAL_RIGID,
     );
 }
 
@@ -256,15 +260,31 @@ fn symmetric_frame_under_symmetric_gravity_does_not_sway() {
         .iter()
         .map(|e| e.i[2].abs())
         .fold(0.0, f64::max);
-    for e in &parts.sway.end_forces {
-        assert!(e.i[2].abs() < 1e-9 * peak && e.j[2].abs() < 1e-9 * peak);
-    }
+    verify::source("common practice, no source: symmetry");
+    let worst = parts
+        .sway
+        .end_forces
+        .iter()
+        .flat_map(|e| [e.i[2].abs(), e.j[2].abs()])
+        .fold(0.0, f64::max);
+    verify::within(
+        "largest sway-part end moment, against the largest no-sway end moment",
+        "N·m",
+        worst,
+        0.0,
+        peak,
+        1e-9,
+    );
     let s = solve_case(&f.model, d).unwrap();
-    // Both knees move by the beam's axial shortening only, equal and opposite.
-    assert_relative_eq!(
-        s.displacements[n1][0],
-        -s.displacements[n2][0],
-        epsilon = 1e-15
+    // Both knees move by the beam's axial shortening only, equal and opposite (absolute
+    // 1e-15 m, as before).
+    verify::within(
+        "X displacement of the right knee, against minus the left knee's",
+        "m",
+        s.displacements[n2][0],
+        -s.displacements[n1][0],
+        1.0,
+        1e-15,
     );
 }
 
@@ -300,8 +320,18 @@ fn no_sway_plus_sway_equals_free_frame() {
     let split = SwaySplit::new(&f.model, &st).unwrap();
     let parts = split.split_case(&f.model, c).unwrap();
     // The no-sway solution holds every level: its mean X translation is zero.
-    for nodes in &split.level_nodes {
-        assert!(plumbline::solve::sway::mean_ux(&parts.no_sway, nodes).abs() < 1e-15);
+    verify::source(
+        "definition of the split: the no-sway part holds every level's mean X translation",
+    );
+    for (k, nodes) in split.level_nodes.iter().enumerate() {
+        verify::within(
+            &format!("no-sway part: mean X translation of level {}", k + 1),
+            "m",
+            plumbline::solve::sway::mean_ux(&parts.no_sway, nodes),
+            0.0,
+            1.0,
+            1e-15,
+        );
     }
     let total = parts.total();
     let free = FirstOrder::new(&f.model, &[])
@@ -314,16 +344,38 @@ fn no_sway_plus_sway_equals_free_frame() {
         .flat_map(|e| e.to_array())
         .map(f64::abs)
         .fold(0.0, f64::max);
+    let mut worst = (0.0f64, 0.0f64);
     for (a, b) in total.end_forces.iter().zip(&free.end_forces) {
         for (x, y) in a.to_array().iter().zip(b.to_array()) {
+            worst.0 = worst.0.max((x - y).abs());
             assert!((x - y).abs() <= 1e-9 * scale, "{x} vs {y}");
         }
     }
     for (a, b) in total.reactions.iter().zip(&free.reactions) {
         for k in 0..3 {
+            worst.1 = worst.1.max((a[k] - b[k]).abs());
             assert!((a[k] - b[k]).abs() <= 1e-9 * scale);
         }
     }
+    verify::source(
+        "closed form: superposition, held solution + reversed holding forces = free frame",
+    );
+    verify::within(
+        "largest |no-sway + sway − free| end force, against the largest end force",
+        "N, N·m",
+        worst.0,
+        0.0,
+        scale,
+        1e-9,
+    );
+    verify::within(
+        "largest |no-sway + sway − free| reaction, against the largest end force",
+        "N, N·m",
+        worst.1,
+        0.0,
+        scale,
+        1e-9,
+    );
 }
 
 #[test]

@@ -1,6 +1,9 @@
 //! Model file reading: shipped examples, the frame generator, quantity strings and every
 //! validation error with its line number.
 
+mod common;
+
+use common::verify;
 use plumbline::input::{load_model, parse_model};
 use plumbline::model::{LoadDirection, Measure, MemberLoadKind, Restraint, Role};
 use std::path::Path;
@@ -39,11 +42,33 @@ fn readme_clinic_example_parses_with_consistent_sections() {
     assert_eq!(m.members.len(), 6);
     // Each section is one shape (illustrative values, from memory): a 250 mm wide-flange
     // column with A = 86.8 cm², I = 10450 cm⁴; a 400 mm I-beam with A = 84.5 cm²,
-    // I = 23130 cm⁴ (1 cm² = 1e-4 m², 1 cm⁴ = 1e-8 m⁴).
+    // I = 23130 cm⁴ (1 cm² = 1e-4 m², 1 cm⁴ = 1e-8 m⁴). Tolerances relative to each value,
+    // the former absolute 1e-9 m² and 1e-12 m⁴ rounded down to a power of ten.
+    verify::source("closed form, SI prefixes: 1 cm² = 1e-4 m², 1 cm⁴ = 1e-8 m⁴");
     let col = &m.sections[0];
-    assert!((col.area - 86.8e-4).abs() < 1e-9 && (col.inertia - 10450e-8).abs() < 1e-12);
+    verify::close("guide's column A = 86.8 cm²", "m²", col.area, 86.8e-4, 1e-7);
+    verify::close(
+        "guide's column I = 10450 cm⁴",
+        "m⁴",
+        col.inertia,
+        10450e-8,
+        1e-9,
+    );
     let girder = &m.sections[1];
-    assert!((girder.area - 84.5e-4).abs() < 1e-9 && (girder.inertia - 23130e-8).abs() < 1e-12);
+    verify::close(
+        "guide's girder A = 84.5 cm²",
+        "m²",
+        girder.area,
+        84.5e-4,
+        1e-7,
+    );
+    verify::close(
+        "guide's girder I = 23130 cm⁴",
+        "m⁴",
+        girder.inertia,
+        23130e-8,
+        1e-9,
+    );
 }
 
 /// A small valid model (kN-m): column a–b, beam b–c, fixed base at a. Tests append to it
@@ -132,11 +157,20 @@ fn base_model_is_valid() {
     assert_eq!(m.members[0].role, Role::Column);
     assert_eq!(m.members[1].role, Role::Beam);
     // 210 GPa = 210e9 Pa; 10000 mm² = 0.01 m²; 1e8 mm⁴ = 1e-4 m⁴ (closed form, SI prefixes).
-    assert_eq!(m.materials[0].e, 210e9);
-    assert!((m.sections[0].area - 0.01).abs() < 1e-15);
-    assert!((m.sections[0].inertia - 1e-4).abs() < 1e-18);
+    // Tolerances relative to each value, the former absolute ones rounded down to a power
+    // of ten.
+    verify::source("closed form, SI prefixes (kN-m preset: sections in mm)");
+    verify::close("E = 210 GPa", "Pa", m.materials[0].e, 210e9, 0.0);
+    verify::close("A = 10000 mm²", "m²", m.sections[0].area, 0.01, 1e-13);
+    verify::close("I = 1e8 mm⁴", "m⁴", m.sections[0].inertia, 1e-4, 1e-14);
     // 78.5 kN/m³ = 78 500 N/m³.
-    assert!((m.materials[0].unit_weight.unwrap() - 78_500.0).abs() < 1e-9);
+    verify::close(
+        "unit weight 78.5 kN/m³",
+        "N/m³",
+        m.materials[0].unit_weight.unwrap(),
+        78_500.0,
+        1e-14,
+    );
 }
 
 // ---------- validation errors, each with its line ----------
@@ -587,7 +621,16 @@ fn demo_frame_self_weight_and_patterns() {
         panic!()
     };
     let expected = 490.0 * 15.6 / 144.0 * 4.448_221_615_260_5 / 0.3048;
-    assert!((w_a / expected - 1.0).abs() < 1e-12, "{w_a} vs {expected}");
+    verify::source(
+        "closed form: self weight w = γ·A; NIST SP 811 (2008) App. B exact definitions of lbf and ft",
+    );
+    verify::close(
+        "self weight of C1.1, 490 lbf/ft³ × 15.6 in²",
+        "N/m",
+        w_a,
+        expected,
+        1e-12,
+    );
     assert_eq!(direction, LoadDirection::Gravity);
     let wl = &m.load_cases[m.case_index("WL").unwrap()];
     assert_eq!(wl.alternative_group.as_deref(), Some("wind"));
@@ -614,7 +657,15 @@ fn gable_frame_hinge_and_projected_snow() {
         MemberLoadKind::Point { a, .. } => Some(a),
         _ => None,
     });
-    assert!((p.unwrap() - 0.5 * 68f64.sqrt()).abs() < 1e-12);
+    verify::source("closed form: rafter length √(8² + 2²) m");
+    // Relative to the rafter's half length, the former absolute 1e-12 m rounded down.
+    verify::close(
+        "position of a load at 0.5L on a rafter",
+        "m",
+        p.unwrap(),
+        0.5 * 68f64.sqrt(),
+        1e-13,
+    );
 }
 
 // ---------- quantity strings in every field ----------
@@ -698,67 +749,93 @@ story_levels = ["4.5 m"]
 #[test]
 fn quantity_strings_in_every_field() {
     let m = parse_model(ALL_STRINGS, "strings.toml").unwrap();
-    let close = |a: f64, b: f64| assert!((a - b).abs() <= 1e-12 * b.abs().max(1.0), "{a} vs {b}");
-    // SI prefixes and cm = 0.01 m (closed form).
-    close(m.materials[0].e, 200e9);
-    close(m.materials[0].unit_weight.unwrap(), 77e3);
-    close(m.sections[0].area, 100e-4);
-    close(m.sections[0].inertia, 8000e-8);
-    close(m.sections[0].depth.unwrap(), 0.3);
+    // SI prefixes and cm = 0.01 m (closed form). Relative 1e-12 (the former bound was
+    // absolute 1e-12 below 1, which this keeps or tightens).
+    verify::source("closed form: SI prefixes, 1 cm = 0.01 m, quantities typed with their units");
+    let close = |q: &str, unit: &str, a: f64, b: f64| verify::close(q, unit, a, b, 1e-12);
+    close("E = \"200 GPa\"", "Pa", m.materials[0].e, 200e9);
+    close(
+        "unit weight \"77 kN/m^3\"",
+        "N/m³",
+        m.materials[0].unit_weight.unwrap(),
+        77e3,
+    );
+    close("A = \"100 cm^2\"", "m²", m.sections[0].area, 100e-4);
+    close("I = \"8000 cm^4\"", "m⁴", m.sections[0].inertia, 8000e-8);
+    close("depth = \"300 mm\"", "m", m.sections[0].depth.unwrap(), 0.3);
     let n = |id: &str| &m.nodes[m.node_index(id).unwrap()];
-    close(n("N2.1").x, 7.0);
-    close(n("N2.1").y, 4.5);
-    close(n("tip").x, 9.0);
+    close(
+        "x of N2.1: origin \"1 m\" + bay \"6 m\"",
+        "m",
+        n("N2.1").x,
+        7.0,
+    );
+    close(
+        "y of N2.1: origin \"0.5 m\" + story \"4000 mm\"",
+        "m",
+        n("N2.1").y,
+        4.5,
+    );
+    close("x = \"9 m\"", "m", n("tip").x, 9.0);
     let tip = m
         .supports
         .iter()
         .find(|s| m.nodes[s.node].id == "tip")
         .unwrap();
-    assert_eq!(
-        tip.dofs,
+    verify::same(
+        "springs \"2000 kN/m\", \"3 MN/m\", \"500 kN*m/rad\"",
         [
             Restraint::Spring(2e6),
             Restraint::Spring(3e6),
-            Restraint::Spring(5e5)
-        ]
+            Restraint::Spring(5e5),
+        ],
+        tip.dofs,
     );
     let q = &m.load_cases[0];
-    assert_eq!(
+    verify::same(
+        "nodal load \"10 kN\", \"-2000 N\", \"5 kN·m\" (fx, fy, mz)",
+        (1e4, -2000.0, 5000.0),
         (q.nodal[0].fx, q.nodal[0].fy, q.nodal[0].mz),
-        (1e4, -2000.0, 5000.0)
     );
     let kinds: Vec<&MemberLoadKind> = q.member.iter().map(|l| &l.kind).collect();
-    assert_eq!(
-        *kinds[0],
+    verify::same(
+        "uniform load \"12 kN/m\" from \"1 m\" to \"5000 mm\"",
         MemberLoadKind::Distributed {
             a: 1.0,
             b: 5.0,
             w_a: 12e3,
             w_b: 12e3,
             direction: LoadDirection::Gravity,
-            measure: Measure::AlongMember
-        }
+            measure: Measure::AlongMember,
+        },
+        kinds[0].clone(),
     );
-    assert_eq!(
-        *kinds[1],
+    verify::same(
+        "linear load \"2 kN/m\" to \"4 N/mm\" over the 6 m beam",
         MemberLoadKind::Distributed {
             a: 0.0,
             b: 6.0,
             w_a: 2e3,
             w_b: 4e3,
             direction: LoadDirection::LocalY,
-            measure: Measure::AlongMember
-        }
+            measure: Measure::AlongMember,
+        },
+        kinds[1].clone(),
     );
-    assert_eq!(
-        *kinds[2],
+    verify::same(
+        "point load \"7 kN\" at \"250 cm\"",
         MemberLoadKind::Point {
             a: 2.5,
             p: 7e3,
-            direction: LoadDirection::GlobalX
-        }
+            direction: LoadDirection::GlobalX,
+        },
+        kinds[2].clone(),
     );
-    assert_eq!(*kinds[3], MemberLoadKind::Moment { a: 2.0, m: 3e3 });
+    verify::same(
+        "moment \"3 kN*m\" at \"2 m\"",
+        MemberLoadKind::Moment { a: 2.0, m: 3e3 },
+        kinds[3].clone(),
+    );
     assert_eq!(m.combos.params["psi"], 0.7);
     assert_eq!(
         m.analysis.notional,
@@ -766,7 +843,12 @@ fn quantity_strings_in_every_field() {
     );
     assert_eq!(m.analysis.beta_dns, 0.5);
     assert_eq!(m.analysis.inertia_factor["column"], 0.8);
-    close(m.stories.as_ref().unwrap().levels[0], 4.5);
+    close(
+        "story level \"4.5 m\"",
+        "m",
+        m.stories.as_ref().unwrap().levels[0],
+        4.5,
+    );
 }
 
 #[test]
@@ -779,9 +861,29 @@ fn bare_numbers_use_the_declared_units() {
         .replace("x = \"9 m\"", "x = 30");
     let m = parse_model(&t, "bare.toml").unwrap();
     let ksi = 4_448.221_615_260_5 / (0.0254 * 0.0254);
-    assert!((m.materials[0].e / (29000.0 * ksi) - 1.0).abs() < 1e-15);
-    assert!((m.sections[0].area / (15.6 * 0.0254 * 0.0254) - 1.0).abs() < 1e-15);
-    assert!((m.nodes[m.node_index("tip").unwrap()].x - 30.0 * 0.3048).abs() < 1e-12);
+    verify::source("NIST SP 811 (2008) App. B, exact definitions of ft, in and lbf");
+    verify::close(
+        "bare E = 29000 under kip-ft (ksi)",
+        "Pa",
+        m.materials[0].e,
+        29000.0 * ksi,
+        1e-15,
+    );
+    verify::close(
+        "bare A = 15.6 under kip-ft (in²)",
+        "m²",
+        m.sections[0].area,
+        15.6 * 0.0254 * 0.0254,
+        1e-15,
+    );
+    // Relative to the length, the former absolute 1e-12 m rounded down.
+    verify::close(
+        "bare x = 30 under kip-ft (ft)",
+        "m",
+        m.nodes[m.node_index("tip").unwrap()].x,
+        30.0 * 0.3048,
+        1e-13,
+    );
     // Units table: preset with an override reports deflections in mm.
     let t = ALL_STRINGS.replace(
         "units = \"kip-ft\"",

@@ -5,6 +5,9 @@
 //! `amplifier_validity.rs`, …); here the check is that the library reaches the same figures
 //! by the same steps as `plumbline check`.
 
+mod common;
+
+use common::verify;
 use std::path::{Path, PathBuf};
 
 use plumbline::app::{CheckArgs, run_check};
@@ -113,8 +116,15 @@ fn built_portal_checks_and_is_symmetric() {
     // directions, make the set of cases its own mirror image: |M| equal to a tolerance on
     // the largest moment (the iterated second-order analysis converges to 1e-8 or so).
     let scale = g.iter().map(|m| m.moment.abs()).fold(0.0, f64::max);
-    let diff = (c1.moment.abs() - c2.moment.abs()).abs();
-    assert!(diff <= 1e-6 * scale, "C1 {} C2 {}", c1.moment, c2.moment);
+    verify::source("closed form: symmetry of the frame and of its set of cases");
+    verify::within(
+        "|M| of C2's governing moment against C1's, against the largest governing moment",
+        "N·m",
+        c2.moment.abs(),
+        c1.moment.abs(),
+        scale,
+        1e-6,
+    );
     assert_eq!(out.story_verdicts().len(), 1);
 }
 

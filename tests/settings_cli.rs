@@ -7,6 +7,9 @@
 //! §5.3.2 gives the sway imperfection (from memory). Exit codes are the project's contract
 //! (docs/commands.md "Exit status", no external source).
 
+mod common;
+
+use common::verify;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
@@ -86,15 +89,37 @@ fn direct_method_defaults_to_the_chapter_c_rules() {
         .find(|c| c["notional_terms"].as_array().is_some_and(|t| t.len() == 2))
         .expect("a case with notional loads");
     let t = case["notional_terms"].as_array().unwrap();
-    assert_eq!(t[0]["coefficient"], 0.002);
-    assert_eq!(t[1]["coefficient"], 0.001);
+    let coefficient = |k: usize| t[k]["coefficient"].as_f64().unwrap();
+    verify::source("AISC 360-16 §C2.2b (from memory; reference notes §9)");
+    verify::close("notional coefficient", "-", coefficient(0), 0.002, 0.0);
+    verify::source("AISC 360-16 §C2.3(c), τb = 1.0 (from memory; reference notes §9)");
+    verify::close(
+        "additional notional coefficient",
+        "-",
+        coefficient(1),
+        0.001,
+        0.0,
+    );
     let (a, b) = (
         t[0]["forces"][0].as_f64().unwrap(),
         t[1]["forces"][0].as_f64().unwrap(),
     );
-    assert!((a - 2.0 * b).abs() <= 1e-12 * a.abs());
+    verify::source("closed form: 0.002·Yi and 0.001·Yi are coefficients on the same Yi");
+    verify::close(
+        "level 1: 0.002·Yi term = 2 × the 0.001·Yi term",
+        "N",
+        a,
+        2.0 * b,
+        1e-12,
+    );
     let total = case["notional"][0].as_f64().unwrap();
-    assert!((total - (a + b)).abs() <= 1e-12 * total.abs());
+    verify::close(
+        "level 1: notional load = sum of its terms",
+        "N",
+        total,
+        a + b,
+        1e-12,
+    );
     assert!(
         text.contains("of which 0.001·Yi, AISC 360-16 §C2.3(c)"),
         "{text}"

@@ -189,12 +189,27 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
         1e-6,
     );
     verify::close("position of the span moment, L/2", "m", p.x, 3.0, 1e-6);
-    assert_eq!(p.case, "T-1");
+    verify::same(
+        "case of the beam's span moment (1.4 > 1.2)",
+        "T-1",
+        p.case.as_str(),
+    );
     assert_eq!(p.expression, "1.4D");
     verify::close("beam end shear, T-1: 1.4·wL/2", "N", p.shear, 42e3, 1e-6);
-    assert_eq!(p.governs, "no-sway");
+    verify::same(
+        "part governing the beam (its own load)",
+        "no-sway",
+        p.governs.as_str(),
+    );
     for s in &beam.sections {
-        assert!(s.negative.is_none(), "{:?}", s.location);
+        verify::same(
+            &format!(
+                "beam, {:?}: a hogging moment (simply supported)",
+                s.location
+            ),
+            false,
+            s.negative.is_some(),
+        );
     }
 
     let col = member(&env.members, "col");
@@ -208,7 +223,11 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
         -32e3,
         1e-6,
     );
-    assert_eq!(n.case, "T-2");
+    verify::same(
+        "case of the column's base moment (1.6·H)",
+        "T-2",
+        n.case.as_str(),
+    );
     verify::close(
         "column axial force, T-2: −1.2·wL/2",
         "N",
@@ -218,8 +237,16 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
     );
     verify::close("column Pr, T-2", "N", n.p_r, 36e3, 1e-6);
     verify::close("column base shear, T-2: 1.6·H", "N", n.shear, 8e3, 1e-6);
-    assert!(base.positive.is_none());
-    assert!(col.sections[2].positive.is_none() && col.sections[2].negative.is_none());
+    verify::same(
+        "column base: a positive moment",
+        false,
+        base.positive.is_some(),
+    );
+    verify::same(
+        "column top: a moment (the beam is hinged)",
+        false,
+        col.sections[2].positive.is_some() || col.sections[2].negative.is_some(),
+    );
     let c = col.compression.as_ref().expect("column compression");
     verify::close(
         "largest column compression, T-1: 1.4·wL/2",
@@ -228,8 +255,12 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
         42e3,
         1e-6,
     );
-    assert_eq!(c.case, "T-1");
-    assert!(col.tension.is_none());
+    verify::same(
+        "case of the largest column compression",
+        "T-1",
+        c.case.as_str(),
+    );
+    verify::same("column tension", false, col.tension.is_some());
 
     // Story drift under T-2: δ/h = 8.533 mm / 4 m = 1/469 (closed form, cantilever
     // δ = P·h³/(3EI) with P = 8 kN, EI = 200e9 × 1e-4 = 2e7 N·m²).
@@ -242,7 +273,11 @@ fn summary_of_a_two_case_model_equals_the_hand_maxima() {
         8e3 * 64.0 / (3.0 * 2e7) / 4.0,
         1e-6,
     );
-    assert_eq!(drift.case, "T-2");
+    verify::same(
+        "case of the largest drift (the only lateral case)",
+        "T-2",
+        drift.case.as_str(),
+    );
     // Both cases govern something.
     assert!(env.never_govern.is_empty(), "{:?}", env.never_govern);
 
@@ -260,20 +295,29 @@ fn sway_governs_the_column_and_no_sway_the_beam() {
     // In the hand-check frame the beam's moment comes from its own load, held or not
     // (no-sway part), and the column's from the lateral load, which the held frame
     // takes in the hold (sway part): see the hand calculation above.
+    verify::source("closed form: statics of the determinate hand-check frame");
     let path = write_model("flag");
     let run = run_check(&path, &CheckArgs::default(), &mut |_, _| {}).unwrap();
     let col = member(&run.envelope.members, "col")
         .governing
         .clone()
         .unwrap();
-    assert_eq!(col.governs, "sway");
-    assert_eq!(col.location, Location::EndI);
+    verify::same(
+        "part governing the column (the lateral load)",
+        "sway",
+        col.governs.as_str(),
+    );
+    verify::same("column's governing section", Location::EndI, col.location);
     let beam = member(&run.envelope.members, "beam")
         .governing
         .clone()
         .unwrap();
-    assert_eq!(beam.governs, "no-sway");
-    assert_eq!(beam.location, Location::Span);
+    verify::same(
+        "part governing the beam (its own load)",
+        "no-sway",
+        beam.governs.as_str(),
+    );
+    verify::same("beam's governing section", Location::Span, beam.location);
     // The flags reach every format.
     let json = render_check(&run, CheckFormat::Json, false).joined();
     let doc: CheckDoc = serde_json::from_str(&json).unwrap();

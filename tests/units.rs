@@ -15,9 +15,20 @@ const IN: f64 = 0.0254;
 const FT: f64 = 0.3048;
 const LBF: f64 = 4.448_221_615_260_5;
 
-/// Relative closeness for values computed by different roundings of the same exact product.
-fn close(a: f64, b: f64) -> bool {
-    (a - b).abs() <= 4.0 * f64::EPSILON * b.abs()
+/// Relative tolerance for values computed by different roundings of the same exact product.
+const ROUNDING: f64 = 4.0 * f64::EPSILON;
+
+/// `text` in SI equals `expected` exactly (a conversion by an exact power of ten or an
+/// exact definition), recorded.
+#[track_caller]
+fn exact(text: &str, d: Dimension, unit: &str, expected: f64) {
+    verify::close(text, unit, q(text, d), expected, 0.0);
+}
+
+/// `text` in SI equals `expected` to the rounding of the same exact product, recorded.
+#[track_caller]
+fn rounded(text: &str, d: Dimension, unit: &str, expected: f64) {
+    verify::close(text, unit, q(text, d), expected, ROUNDING);
 }
 
 fn q(text: &str, d: Dimension) -> f64 {
@@ -27,8 +38,6 @@ fn q(text: &str, d: Dimension) -> f64 {
 #[test]
 fn lengths_are_exact() {
     // 1959 agreement: 1 in = 25.4 mm, 1 ft = 0.3048 m.
-    assert_eq!(q("1 in", Dimension::Length), IN);
-    assert_eq!(q("1 ft", Dimension::Length), FT);
     let src = "international yard and pound agreement (1959): 1 yd = 0.9144 m exactly";
     verify::check(
         "units/exact/in",
@@ -48,19 +57,16 @@ fn lengths_are_exact() {
         q("1 ft", Dimension::Length),
         0.0,
     );
-    assert_eq!(q("25.4 mm", Dimension::Length), 0.0254);
-    assert_eq!(q("100 cm", Dimension::Length), 1.0);
-    assert_eq!(q("4.5 m", Dimension::Length), 4.5);
-    assert!(close(
-        q("12 in", Dimension::Length),
-        q("1 ft", Dimension::Length)
-    ));
+    verify::source("closed form: SI prefixes; 1959 agreement, 1 ft = 12 in = 0.3048 m exactly");
+    exact("25.4 mm", Dimension::Length, "m", 0.0254);
+    exact("100 cm", Dimension::Length, "m", 1.0);
+    exact("4.5 m", Dimension::Length, "m", 4.5);
+    rounded("12 in", Dimension::Length, "m", FT);
 }
 
 #[test]
 fn forces_are_exact() {
     // NIST SP 811 App. B: 1 lbf = 4.4482216152605 N (exact); 1 kip = 1000 lbf.
-    assert_eq!(q("1 lbf", Dimension::Force), LBF);
     verify::check(
         "units/exact/lbf",
         "1 lbf in SI, 0.45359237 kg × 9.80665 m/s²",
@@ -70,11 +76,15 @@ fn forces_are_exact() {
         q("1 lbf", Dimension::Force),
         1e-15,
     );
-    assert_eq!(q("1 lb", Dimension::Force), LBF);
-    assert_eq!(q("1 kip", Dimension::Force), 1000.0 * LBF);
-    assert_eq!(q("2 kips", Dimension::Force), 2000.0 * LBF);
-    assert_eq!(q("25 kN", Dimension::Force), 25_000.0);
-    assert_eq!(q("1.5 MN", Dimension::Force), 1.5e6);
+    verify::source(
+        "NIST SP 811 (2008) App. B: 1 lbf = 4.4482216152605 N exactly, 1 kip = 1000 lbf; SI prefixes",
+    );
+    exact("1 lbf", Dimension::Force, "N", LBF);
+    exact("1 lb", Dimension::Force, "N", LBF);
+    exact("1 kip", Dimension::Force, "N", 1000.0 * LBF);
+    exact("2 kips", Dimension::Force, "N", 2000.0 * LBF);
+    exact("25 kN", Dimension::Force, "N", 25_000.0);
+    exact("1.5 MN", Dimension::Force, "N", 1.5e6);
     // NIST SP 811 B.9: kip → N 4.448 222 E+03 (from memory), to its 7 digits.
     verify::check(
         "units/nist/kip",
@@ -90,24 +100,28 @@ fn forces_are_exact() {
 #[test]
 fn stresses_follow_their_definitions() {
     // 1 psi = 1 lbf/in², 1 ksi = 1000 psi, 1 psf = 1 lbf/ft² (definitions).
-    assert!(close(q("1 psi", Dimension::Stress), LBF / (IN * IN)));
-    assert!(close(
-        q("1 psi", Dimension::Stress),
-        q("1 lbf/in^2", Dimension::Stress)
-    ));
-    assert!(close(
-        q("29000 ksi", Dimension::Stress),
-        29e6 * LBF / (IN * IN)
-    ));
-    assert!(close(q("1 psf", Dimension::Stress), LBF / (FT * FT)));
-    assert_eq!(q("210 GPa", Dimension::Stress), 210e9);
-    assert_eq!(q("355 MPa", Dimension::Stress), 355e6);
-    assert_eq!(
-        q("355 N/mm^2", Dimension::Stress),
-        q("355 MPa", Dimension::Stress)
+    verify::source(
+        "definitions: 1 psi = 1 lbf/in², 1 ksi = 1000 psi, 1 psf = 1 lbf/ft²; NIST SP 811 (2008) App. B exact lbf, in, ft; SI prefixes",
     );
-    assert_eq!(q("2 kPa", Dimension::Stress), 2000.0);
-    assert_eq!(q("2 kN/m^2", Dimension::Stress), 2000.0);
+    rounded("1 psi", Dimension::Stress, "Pa", LBF / (IN * IN));
+    rounded(
+        "1 lbf/in^2",
+        Dimension::Stress,
+        "Pa",
+        q("1 psi", Dimension::Stress),
+    );
+    rounded("29000 ksi", Dimension::Stress, "Pa", 29e6 * LBF / (IN * IN));
+    rounded("1 psf", Dimension::Stress, "Pa", LBF / (FT * FT));
+    exact("210 GPa", Dimension::Stress, "Pa", 210e9);
+    exact("355 MPa", Dimension::Stress, "Pa", 355e6);
+    exact(
+        "355 N/mm^2",
+        Dimension::Stress,
+        "Pa",
+        q("355 MPa", Dimension::Stress),
+    );
+    exact("2 kPa", Dimension::Stress, "Pa", 2000.0);
+    exact("2 kN/m^2", Dimension::Stress, "Pa", 2000.0);
     // NIST SP 811 B.9 (from memory): psi → Pa 6.894 757 E+03; psf → Pa 4.788 026 E+01.
     verify::check(
         "units/nist/psi",
@@ -132,17 +146,22 @@ fn stresses_follow_their_definitions() {
 #[test]
 fn section_properties() {
     // in² and in⁴ from 1 in = 0.0254 m; cm⁴ = 1e-8 m⁴.
-    assert!(close(q("23.2 in^2", Dimension::Area), 23.2 * IN * IN));
-    assert!(close(
-        q("1250 in^4", Dimension::SecondMoment),
-        1250.0 * IN.powi(4)
-    ));
-    assert!(close(
-        q("1250 in⁴", Dimension::SecondMoment),
-        1250.0 * IN.powi(4)
-    ));
-    assert!(close(q("8000 cm^4", Dimension::SecondMoment), 8000e-8));
-    assert!(close(q("14900 mm²", Dimension::Area), 14900e-6));
+    verify::source("1959 agreement: 1 in = 0.0254 m exactly; SI prefixes");
+    rounded("23.2 in^2", Dimension::Area, "m²", 23.2 * IN * IN);
+    rounded(
+        "1250 in^4",
+        Dimension::SecondMoment,
+        "m⁴",
+        1250.0 * IN.powi(4),
+    );
+    rounded(
+        "1250 in⁴",
+        Dimension::SecondMoment,
+        "m⁴",
+        1250.0 * IN.powi(4),
+    );
+    rounded("8000 cm^4", Dimension::SecondMoment, "m⁴", 8000e-8);
+    rounded("14900 mm²", Dimension::Area, "m²", 14900e-6);
     // NIST SP 811 B.9 (from memory): in⁴ → m⁴ 4.162 314 E−07.
     verify::check(
         "units/nist/in4",
@@ -157,11 +176,11 @@ fn section_properties() {
 
 #[test]
 fn line_loads_moments_unit_weights_springs() {
-    assert!(close(
-        q("2.2 kip/ft", Dimension::LineLoad),
-        2200.0 * LBF / FT
-    ));
-    assert_eq!(q("12 kN/m", Dimension::LineLoad), 12_000.0);
+    verify::source(
+        "NIST SP 811 (2008) App. B exact lbf; 1959 agreement exact in and ft; SI prefixes",
+    );
+    rounded("2.2 kip/ft", Dimension::LineLoad, "N/m", 2200.0 * LBF / FT);
+    exact("12 kN/m", Dimension::LineLoad, "N/m", 12_000.0);
     // NIST SP 811 B.9 (from memory): lbf/ft → N/m 1.459 390 E+01.
     verify::check(
         "units/nist/lbf-per-ft",
@@ -172,15 +191,14 @@ fn line_loads_moments_unit_weights_springs() {
         q("1 lbf/ft", Dimension::LineLoad),
         1e-6,
     );
-    assert!(close(
-        q("30 kip*ft", Dimension::Moment),
-        30_000.0 * LBF * FT
-    ));
-    assert!(close(
-        q("30 kip·ft", Dimension::Moment),
-        q("360 kip*in", Dimension::Moment)
-    ));
-    assert_eq!(q("40 kN*m", Dimension::Moment), 40_000.0);
+    rounded("30 kip*ft", Dimension::Moment, "N·m", 30_000.0 * LBF * FT);
+    rounded(
+        "30 kip·ft",
+        Dimension::Moment,
+        "N·m",
+        q("360 kip*in", Dimension::Moment),
+    );
+    exact("40 kN*m", Dimension::Moment, "N·m", 40_000.0);
     // NIST SP 811 B.9 (from memory): lbf·ft → N·m 1.355 818 E+00.
     verify::check(
         "units/nist/lbf-ft",
@@ -191,18 +209,27 @@ fn line_loads_moments_unit_weights_springs() {
         q("1 lbf*ft", Dimension::Moment),
         1e-6,
     );
-    assert!(close(
-        q("490 lbf/ft^3", Dimension::UnitWeight),
-        490.0 * LBF / FT.powi(3)
-    ));
-    assert_eq!(q("78.5 kN/m^3", Dimension::UnitWeight), 78_500.0);
-    assert!(close(
-        q("300 kip/in", Dimension::Stiffness),
-        300_000.0 * LBF / IN
-    ));
-    assert_eq!(q("20000 kN*m/rad", Dimension::RotationalStiffness), 2e7);
-    assert_eq!(q("0.5", Dimension::Dimensionless), 0.5);
-    assert_eq!(q("-1.5e3 N", Dimension::Force), -1500.0);
+    rounded(
+        "490 lbf/ft^3",
+        Dimension::UnitWeight,
+        "N/m³",
+        490.0 * LBF / FT.powi(3),
+    );
+    exact("78.5 kN/m^3", Dimension::UnitWeight, "N/m³", 78_500.0);
+    rounded(
+        "300 kip/in",
+        Dimension::Stiffness,
+        "N/m",
+        300_000.0 * LBF / IN,
+    );
+    exact(
+        "20000 kN*m/rad",
+        Dimension::RotationalStiffness,
+        "N·m/rad",
+        2e7,
+    );
+    exact("0.5", Dimension::Dimensionless, "-", 0.5);
+    exact("-1.5e3 N", Dimension::Force, "N", -1500.0);
 }
 
 #[test]
@@ -268,20 +295,50 @@ fn malformed_quantities_are_errors() {
 
 #[test]
 fn presets_and_overrides() {
+    verify::source(
+        "NIST SP 811 (2008) App. B exact lbf; 1959 agreement exact in and ft; SI prefixes",
+    );
     let s = UnitSystem::preset("kip-ft").unwrap();
     // Bare numbers: 20 ft, 29000 ksi, 1250 in⁴ (section unit in), 2 kip/ft.
-    assert_eq!(s.to_si(20.0, Dimension::Length), 20.0 * FT);
-    assert!(close(
+    let si = |q: &str, unit: &str, computed: f64, expected: f64, tol: f64| {
+        verify::close(q, unit, computed, expected, tol);
+    };
+    si(
+        "kip-ft: bare length 20 (ft)",
+        "m",
+        s.to_si(20.0, Dimension::Length),
+        20.0 * FT,
+        0.0,
+    );
+    si(
+        "kip-ft: bare stress 29000 (ksi)",
+        "Pa",
         s.to_si(29000.0, Dimension::Stress),
-        q("29000 ksi", Dimension::Stress)
-    ));
-    assert!(close(
+        q("29000 ksi", Dimension::Stress),
+        ROUNDING,
+    );
+    si(
+        "kip-ft: bare second moment 1250 (in⁴)",
+        "m⁴",
         s.to_si(1250.0, Dimension::SecondMoment),
-        1250.0 * IN.powi(4)
-    ));
-    assert!(close(s.to_si(2.0, Dimension::LineLoad), 2000.0 * LBF / FT));
+        1250.0 * IN.powi(4),
+        ROUNDING,
+    );
+    si(
+        "kip-ft: bare line load 2 (kip/ft)",
+        "N/m",
+        s.to_si(2.0, Dimension::LineLoad),
+        2000.0 * LBF / FT,
+        ROUNDING,
+    );
     // Reports: displacements in the deflection unit (in), moments in kip·ft.
-    assert!(close(s.from_si(0.0254, Dimension::Displacement), 1.0));
+    si(
+        "kip-ft: 0.0254 m reported in in",
+        "in",
+        s.from_si(0.0254, Dimension::Displacement),
+        1.0,
+        ROUNDING,
+    );
     assert_eq!(s.label(Dimension::Displacement), "in");
     assert_eq!(s.label(Dimension::Moment), "kip·ft");
     assert_eq!(s.label(Dimension::LineLoad), "kip/ft");
@@ -289,8 +346,20 @@ fn presets_and_overrides() {
     let m = UnitSystem::preset("kN-m").unwrap();
     assert_eq!(m.label(Dimension::Stress), "MPa");
     assert_eq!(m.label(Dimension::Displacement), "mm");
-    assert_eq!(m.to_si(1.0e8, Dimension::SecondMoment), 1.0e8 * 1e-12);
-    assert_eq!(m.from_si(2.5e-3, Dimension::Displacement), 2.5);
+    si(
+        "kN-m: bare second moment 1e8 (mm⁴)",
+        "m⁴",
+        m.to_si(1.0e8, Dimension::SecondMoment),
+        1.0e8 * 1e-12,
+        0.0,
+    );
+    si(
+        "kN-m: 2.5e-3 m reported in mm",
+        "mm",
+        m.from_si(2.5e-3, Dimension::Displacement),
+        2.5,
+        0.0,
+    );
     for name in ["kN-m", "kip-ft", "kip-in", "N-mm"] {
         let sys = UnitSystem::preset(name).unwrap();
         for d in [
@@ -300,14 +369,20 @@ fn presets_and_overrides() {
             Dimension::RotationalStiffness,
         ] {
             assert!(
-                close(sys.from_si(sys.to_si(3.7, d), d), 3.7),
+                (sys.from_si(sys.to_si(3.7, d), d) - 3.7).abs() <= ROUNDING * 3.7,
                 "{name} {d:?}"
             );
         }
     }
     let mut o = UnitSystem::preset("kip-ft").unwrap();
     o.set_unit("deflection", "mm").unwrap();
-    assert_eq!(o.from_si(0.01, Dimension::Displacement), 10.0);
+    si(
+        "kip-ft with deflection in mm: 0.01 m reported",
+        "mm",
+        o.from_si(0.01, Dimension::Displacement),
+        10.0,
+        0.0,
+    );
     assert!(matches!(
         o.set_unit("stress", "kip"),
         Err(UnitError::WrongDimension { .. })

@@ -209,6 +209,60 @@ pub fn close(quantity: &str, unit: &str, computed: f64, expected: f64, tol: f64)
     );
 }
 
+/// A check against the problem's scale inside a test that named its [`source`]: asserts
+/// |computed − expected| ≤ `tol`·`scale` and notes it. `scale` is the size of the
+/// quantity in the problem (the largest end moment, wL, the load), for quantities that may
+/// be zero or that a test compares with an absolute tolerance.
+#[track_caller]
+pub fn within(quantity: &str, unit: &str, computed: f64, expected: f64, scale: f64, tol: f64) {
+    note(quantity, unit, expected, computed, scale, tol);
+    let d = (computed - expected).abs();
+    assert!(
+        d <= tol * scale,
+        "{quantity}: computed {computed} {unit}, expected {expected} {unit}; \
+         difference {d:.3e} > {tol:.1e} × {scale:.3e}"
+    );
+}
+
+/// A one- or two-sided bound inside a test that named its [`source`]: asserts
+/// `reference + lower·s ≤ computed ≤ reference + upper·s`, with s = |reference| (or 1
+/// when the reference is zero, making the bounds absolute), and notes it. An open side is
+/// `f64::NEG_INFINITY` or `f64::INFINITY`: `between(q, u, α, 10.0, 0.0, f64::INFINITY)`
+/// is α ≥ 10; `between(q, u, x, exact, -5e-3, 1e-3)` is x within −0.5 % and +0.1 % of
+/// the exact value (a safe-side estimate).
+#[track_caller]
+pub fn between(quantity: &str, unit: &str, computed: f64, reference: f64, lower: f64, upper: f64) {
+    let s = if reference == 0.0 {
+        1.0
+    } else {
+        reference.abs()
+    };
+    if let Some(source) = SOURCE.with(|s| s.borrow().clone()) {
+        let id = automatic_id(quantity);
+        let finite = |x: f64| if x.is_finite() { json!(x) } else { json!(null) };
+        let mut e = entry(&id, quantity, unit, &source, reference, computed, s, 0.0);
+        e["lower"] = finite(lower);
+        e["upper"] = finite(upper);
+        write(&id, e);
+    }
+    let d = (computed - reference) / s;
+    assert!(
+        d >= lower && d <= upper,
+        "{quantity}: computed {computed} {unit}, reference {reference} {unit}; \
+         (computed − reference)/{s:.3e} = {d:.3e} outside [{lower:.1e}, {upper:.1e}]"
+    );
+}
+
+/// A discrete result inside a test that named its [`source`] (a count, a verdict, the
+/// member a mode belongs to, a list of names): asserts `computed == expected` and notes
+/// it as a text row, tolerance exact.
+#[track_caller]
+pub fn same<T: PartialEq + std::fmt::Debug>(quantity: &str, expected: T, computed: T) {
+    let show = |v: &T| format!("{v:?}").replace('"', "");
+    note_text(quantity, "", &show(&expected), &show(&computed), 0.0, 0.0);
+    assert_eq!(computed, expected, "{quantity}");
+}
+
 /// Notes a check whose values are text (a factored case's factors, say), compared by the
 /// test's own helper with the largest numeric `difference` found and its tolerance `tol`.
 #[track_caller]
