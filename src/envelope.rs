@@ -19,7 +19,7 @@ pub use extreme::Location;
 use extreme::keep;
 pub use handoff::{
     AxialEnvelope, AxialRow, COMPONENTS, ComponentEnvelope, ReactionRow, ShearRow, SupportEnvelope,
-    axial_envelopes, reaction_envelopes, shear_envelopes,
+    reaction_envelopes,
 };
 
 use crate::check::{CaseCheck, CheckReport, MemberCheck, MomentCheck};
@@ -245,41 +245,72 @@ fn design_moment(case: &CaseCheck, m: &MemberCheck, s: &MomentCheck) -> DesignMo
     }
 }
 
-/// The envelope of every member over the stable cases (members in no stable case have
-/// empty sections).
-pub fn member_envelopes(report: &CheckReport) -> Vec<MemberEnvelope> {
-    let Some(first) = report.cases.first() else {
-        return Vec::new();
-    };
-    let mut out: Vec<MemberEnvelope> = first
-        .members
-        .iter()
-        .map(|m| MemberEnvelope {
-            member: m.member.clone(),
-            role: m.role.to_string(),
-            sections: [Location::EndI, Location::Span, Location::EndJ]
-                .into_iter()
-                .map(|location| SectionEnvelope {
-                    location,
-                    positive: None,
-                    negative: None,
-                })
-                .collect(),
-            governing: None,
-            compression: None,
-            tension: None,
-        })
-        .collect();
-    for case in report.cases.iter().filter(|c| c.stable) {
+/// The envelopes that read every member's results, folded one case at a time: the
+/// design moments and column axial extremes of [`MemberEnvelope`], every member's design
+/// axial force ([`AxialEnvelope`]) and end shears ([`ShearRow`]). Cases are added in the
+/// run's order (ties keep the first case), so that a run can fold each case as it is
+/// checked and drop its member results ([`crate::check::check_streamed`]); [`envelope`]
+/// folds a whole report.
+#[derive(Debug, Clone, Default)]
+pub struct MemberFold {
+    /// Per member, once the first case has named them (members in no stable case keep
+    /// empty sections).
+    members: Vec<MemberEnvelope>,
+    axial: Vec<AxialEnvelope>,
+    shear: Vec<[Option<ShearRow>; 2]>,
+    started: bool,
+}
+
+impl MemberFold {
+    /// Fold the next case of the run (stable or not: the first one names the members;
+    /// only stable cases give values).
+    pub fn add(&mut self, case: &CaseCheck) {
+        if !self.started {
+            self.started = true;
+            self.members = case.members.iter().map(empty_member_envelope).collect();
+            self.axial = handoff::axial_start(case);
+            self.shear = vec![[None, None]; case.members.len()];
+        }
+        if !case.stable {
+            return;
+        }
         let tiny = ROUND_OFF * largest_moment(case);
-        for (env, m) in out.iter_mut().zip(&case.members) {
+        for (env, m) in self.members.iter_mut().zip(&case.members) {
             member_case(env, case, m, tiny);
         }
+        handoff::axial_case(&mut self.axial, case);
+        handoff::shear_case(&mut self.shear, case);
     }
-    for env in &mut out {
-        env.governing = governing_entry(env);
+
+    /// The member envelopes (each with its governing entry), the axial envelopes and the
+    /// end-shear rows (two per member, end i then end j, where an end has a shear).
+    pub fn finish(self) -> (Vec<MemberEnvelope>, Vec<AxialEnvelope>, Vec<ShearRow>) {
+        let mut members = self.members;
+        for env in &mut members {
+            env.governing = governing_entry(env);
+        }
+        let shear = self.shear.into_iter().flatten().flatten().collect();
+        (members, self.axial, shear)
     }
-    out
+}
+
+/// A member's envelope before any case: three empty sections.
+fn empty_member_envelope(m: &MemberCheck) -> MemberEnvelope {
+    MemberEnvelope {
+        member: m.member.clone(),
+        role: m.role.to_string(),
+        sections: [Location::EndI, Location::Span, Location::EndJ]
+            .into_iter()
+            .map(|location| SectionEnvelope {
+                location,
+                positive: None,
+                negative: None,
+            })
+            .collect(),
+        governing: None,
+        compression: None,
+        tension: None,
+    }
 }
 
 /// Moments smaller than this fraction of a case's largest are round-off (a hinge, a free
@@ -483,12 +514,25 @@ fn never_governing(
         .collect()
 }
 
-/// The whole envelope of `report`.
+/// The whole envelope of `report` (which holds every case's member results).
 pub fn envelope(report: &CheckReport) -> Envelope {
-    let members = member_envelopes(report);
+    debug_assert!(
+        report.cases.iter().all(|c| !c.members.is_empty()),
+        "a report whose member results were dropped is enveloped by its run's MemberFold"
+    );
+    let mut fold = MemberFold::default();
+    for case in &report.cases {
+        fold.add(case);
+    }
+    envelope_with(report, fold)
+}
+
+/// The whole envelope of `report`, with the member envelopes of `fold`, into which every
+/// case of `report` was added in order (its cases may have dropped their member results
+/// since: nothing else here reads them).
+pub fn envelope_with(report: &CheckReport, fold: MemberFold) -> Envelope {
+    let (members, axial, shear) = fold.finish();
     let stories = story_envelopes(report);
-    let axial = axial_envelopes(report);
-    let shear = shear_envelopes(report);
     let reactions = reaction_envelopes(report);
     let never_govern = never_governing(report, &members, &stories, &axial, &shear, &reactions);
     Envelope {

@@ -123,7 +123,11 @@ pub struct CheckRun {
     pub table: ComboTable,
     /// The factored cases analysed (after `--case`).
     pub cases: Vec<FactoredCase>,
+    /// Every case's member results and buckled shape; without them (`case_detail` false)
+    /// the report holds what the one-page summary prints, and the envelope is complete.
     pub report: CheckReport,
+    /// Whether `report` keeps every case's member results ([`run_check_keeping`]).
+    pub case_detail: bool,
     pub settings: Vec<Setting>,
     pub selection: Selection,
     pub envelope: Envelope,
@@ -379,11 +383,33 @@ fn settings(
 }
 
 /// Run `check` on a model file: read it, form the factored cases, analyse them (calling
-/// `progress(done, total)` after each) and envelope the results.
+/// `progress(done, total)` after each) and envelope the results. The report keeps every
+/// case's detail.
 pub fn run_check(
     model_path: &Path,
     args: &CheckArgs,
     progress: &mut dyn FnMut(usize, usize),
+) -> Result<CheckRun, AppError> {
+    run_check_keeping(model_path, args, progress, true)
+}
+
+/// Whether the output of `format` reads every case's member results: the per-case detail
+/// (`detail`), the JSON document (its `report` section) and the CSV files (the detail
+/// tables). The one-page text or Markdown summary reads only the envelope.
+pub fn needs_case_detail(format: CheckFormat, detail: bool) -> bool {
+    detail || matches!(format, CheckFormat::Json | CheckFormat::Csv)
+}
+
+/// [`run_check`]; with `case_detail` false, each case's member results are folded into the
+/// envelope as the case is checked and then dropped with its buckled shape
+/// ([`crate::check::CaseCheck::drop_member_detail`]), so that the run holds the members'
+/// envelopes rather than every case's results (issue 21: memory linear in the frame, not
+/// in frame × cases).
+pub fn run_check_keeping(
+    model_path: &Path,
+    args: &CheckArgs,
+    progress: &mut dyn FnMut(usize, usize),
+    case_detail: bool,
 ) -> Result<CheckRun, AppError> {
     let mut model = load_model(model_path)?;
     let bytes = std::fs::read(model_path).unwrap_or_default();
@@ -462,15 +488,24 @@ pub fn run_check(
             )));
         }
     }
+    // The cases the report keeps (a `--case` prefix may also name a notional variant).
+    let kept = |id: &str| args.case.as_deref().is_none_or(|p| id.starts_with(p));
+    let mut fold = crate::envelope::MemberFold::default();
     let mut report = if service_only {
         empty_report(&model)
     } else {
-        crate::check::check_with_progress(&model, &cases, progress)
-            .map_err(|e| analysis(&model, model_path, e))?
+        let times = crate::check::StageTimes::default();
+        crate::check::check_streamed(&model, &cases, progress, &times, &mut |c| {
+            if kept(&c.id) {
+                fold.add(c);
+            }
+            if !case_detail {
+                c.drop_member_detail();
+            }
+        })
+        .map_err(|e| analysis(&model, model_path, e))?
     };
-    if let Some(prefix) = &args.case {
-        report.cases.retain(|c| c.id.starts_with(prefix.as_str()));
-    }
+    report.cases.retain(|c| kept(&c.id));
     let service = match service {
         Some((st, exp, limits)) => {
             let mut smodel = crate::service::service_model(&model);
@@ -531,7 +566,7 @@ pub fn run_check(
             service_only,
         ));
     }
-    let envelope = crate::envelope::envelope(&report);
+    let envelope = crate::envelope::envelope_with(&report, fold);
     let approximate = if args.approximate {
         let th = crate::approx::Thresholds::default();
         Some(
@@ -556,6 +591,7 @@ pub fn run_check(
         table,
         cases,
         report,
+        case_detail,
         settings,
         selection,
         envelope,
@@ -687,6 +723,10 @@ fn service_settings(
 /// Render a check run in `format` (`detail` gives the summary's tables every column and
 /// adds the per-case tables after the summary, in text and Markdown), in memory.
 pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
+    debug_assert!(
+        run.case_detail || !needs_case_detail(format, detail),
+        "this output reads every case's member results: run with run_check"
+    );
     Rendered {
         files: export::offered(format, |e, out| e.check(&run.view(detail), out)),
     }
@@ -708,13 +748,15 @@ pub fn check_output_status(
     args: &CheckArgs,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<(Rendered, bool), AppError> {
-    let run = run_check(model_path, args, progress)?;
+    let detail = args.detail || args.case.is_some();
+    let keep = needs_case_detail(args.format, detail);
+    let run = run_check_keeping(model_path, args, progress, keep)?;
     let unstable = run.report.cases.iter().any(|c| !c.stable)
         || run
             .service
             .as_ref()
             .is_some_and(|s| s.report.cases.iter().any(|c| !c.converged));
-    let rendered = render_check(&run, args.format, args.detail || args.case.is_some());
+    let rendered = render_check(&run, args.format, detail);
     Ok((rendered, unstable))
 }
 
@@ -731,14 +773,11 @@ pub fn check_and_emit(
     output: Option<&Path>,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<(Vec<PathBuf>, bool), AppError> {
-    let run = run_check(model_path, args, progress)?;
+    let detail = args.detail || args.case.is_some();
+    let keep = needs_case_detail(args.format, detail);
+    let run = run_check_keeping(model_path, args, progress, keep)?;
     let unstable = run.report.cases.iter().any(|c| !c.stable);
-    let written = emit_check(
-        &run,
-        args.format,
-        args.detail || args.case.is_some(),
-        output,
-    )?;
+    let written = emit_check(&run, args.format, detail, output)?;
     Ok((written, unstable))
 }
 
@@ -752,6 +791,10 @@ pub fn emit_check(
     detail: bool,
     output: Option<&Path>,
 ) -> Result<Vec<PathBuf>, AppError> {
+    debug_assert!(
+        run.case_detail || !needs_case_detail(format, detail),
+        "this output reads every case's member results: run with run_check"
+    );
     let mut destination = Destination::new(output);
     export::exporter(&format.to_string())?.check(&run.view(detail), &mut destination)?;
     destination.finish()

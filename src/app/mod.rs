@@ -17,7 +17,8 @@ pub use crate::report::starter::NewArgs;
 pub use cases::{cases, combos};
 pub use check::{
     CheckArgs, CheckRun, ServiceRun, apply_settings, check, check_and_emit, check_output,
-    check_output_status, emit_check, render_check, report, run_check, sha256_hex,
+    check_output_status, emit_check, needs_case_detail, render_check, report, run_check,
+    run_check_keeping, sha256_hex,
 };
 pub use compare::{CompareRun, VariantSpec, parse_variant, run_compare};
 pub use error::{AppError, exit, model_warnings};

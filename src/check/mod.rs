@@ -136,6 +136,16 @@ pub struct CaseCheck {
     pub reactions_first_order: Vec<[f64; 3]>,
 }
 
+impl CaseCheck {
+    /// Drop what only the per-case detail shows (every member's results and the buckled
+    /// shape), once the envelope has taken what it needs: the one-page summary reads the
+    /// rest, and a tall frame's cases then need not all be held with their members.
+    pub fn drop_member_detail(&mut self) {
+        self.members = Vec::new();
+        self.buckled_shape = None;
+    }
+}
+
 /// A support as the reaction tables list it.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct SupportInfo {
@@ -389,6 +399,21 @@ pub fn check_timed(
     progress: &mut dyn FnMut(usize, usize),
     times: &StageTimes,
 ) -> Result<CheckReport, CheckError> {
+    check_streamed(model, cases, progress, times, &mut |_| {})
+}
+
+/// [`check_timed`], handing each checked case to `sink` on the calling thread, in case
+/// order, as soon as it is done: the report keeps what the sink leaves of it. A caller
+/// that needs only the summary folds the case's member results into its envelope there
+/// and drops them ([`CaseCheck::drop_member_detail`]), so that they are never all held
+/// at once.
+pub fn check_streamed(
+    model: &Model,
+    cases: &[FactoredCase],
+    progress: &mut dyn FnMut(usize, usize),
+    times: &StageTimes,
+    sink: &mut dyn FnMut(&mut CaseCheck),
+) -> Result<CheckReport, CheckError> {
     if cases.is_empty() {
         return Err(CheckError::NoCases);
     }
@@ -414,28 +439,42 @@ pub fn check_timed(
         second: &second,
         stiffness: &stiffness,
     };
-    // Factored cases are independent: every core, results in the order of `cases`.
+    // Factored cases are independent: every core, results in the order of `cases`. The
+    // first error in that order is the run's.
     let mut out = Vec::new();
-    let checked = crate::solve::parallel::map_in_order(cases, |fc| ctx.case(fc, &parts), progress);
-    for c in checked {
-        out.extend(c?);
-    }
+    let mut failed: Option<CheckError> = None;
     // A non-finite figure that slipped through is named, never printed silently.
     // TODO(member): ACI seed-5 random frame gives a NaN span moment on a stable member;
     // once none remain, make this an error (CheckError::NonFinite).
-    let non_finite: Vec<String> = out
-        .iter()
-        .filter(|c| c.stable)
-        .filter_map(|c| {
-            first_non_finite(c).map(|w| {
-                format!(
-                    "factored case {}: {w} is not a finite number; do not use this case's \
-                     figures (a defect of the program, or values out of any plausible range)",
-                    c.id
-                )
-            })
-        })
-        .collect();
+    let mut non_finite: Vec<String> = Vec::new();
+    crate::solve::parallel::for_each_in_order(
+        cases,
+        |fc| ctx.case(fc, &parts),
+        progress,
+        &mut |_, checked: Result<Vec<CaseCheck>, CheckError>| match checked {
+            Ok(checked) if failed.is_none() => {
+                for mut c in checked {
+                    if let Some(w) = c.stable.then(|| first_non_finite(&c)).flatten() {
+                        non_finite.push(format!(
+                            "factored case {}: {w} is not a finite number; do not use this \
+                             case's figures (a defect of the program, or values out of any \
+                             plausible range)",
+                            c.id
+                        ));
+                    }
+                    sink(&mut c);
+                    out.push(c);
+                }
+            }
+            Ok(_) => {}
+            Err(e) => {
+                failed.get_or_insert(e);
+            }
+        },
+    );
+    if let Some(e) = failed {
+        return Err(e);
+    }
     Ok(CheckReport {
         title: model.title.clone(),
         method: model.analysis.method,

@@ -10,7 +10,7 @@
 use serde::{Deserialize, Serialize};
 
 use super::extreme::{Location, keep};
-use crate::check::{CheckReport, MemberCheck};
+use crate::check::{CaseCheck, CheckReport, MemberCheck};
 
 /// Values smaller than this fraction of the case's largest of their kind are round-off.
 const ROUND_OFF: f64 = 1e-9;
@@ -102,13 +102,9 @@ fn largest_shear(m: &MemberCheck) -> f64 {
     largest(m.end_actions.iter().map(|e| e.shear))
 }
 
-/// The axial envelope of every member over the stable cases, in member order.
-pub fn axial_envelopes(report: &CheckReport) -> Vec<AxialEnvelope> {
-    let Some(first) = report.cases.first() else {
-        return Vec::new();
-    };
-    let mut out: Vec<AxialEnvelope> = first
-        .members
+/// Every member's axial envelope before any case, in member order (named by `case`).
+pub(super) fn axial_start(case: &CaseCheck) -> Vec<AxialEnvelope> {
+    case.members
         .iter()
         .map(|m| AxialEnvelope {
             member: m.member.clone(),
@@ -116,66 +112,60 @@ pub fn axial_envelopes(report: &CheckReport) -> Vec<AxialEnvelope> {
             tension: None,
             compression: None,
         })
-        .collect();
-    for case in report.cases.iter().filter(|c| c.stable) {
-        let tiny = ROUND_OFF
-            * largest(
-                case.members
-                    .iter()
-                    .flat_map(|m| [m.design_axial.0, m.design_axial.1]),
-            );
-        for (env, m) in out.iter_mut().zip(&case.members) {
-            let row = |axial: f64| AxialRow {
-                axial,
-                case: case.id.clone(),
-                expression: case.expression.clone(),
-                moment_i: m.ends[0].design,
-                moment_j: m.ends[1].design,
-                moment_span: m.span.design,
-                shear: largest_shear(m),
-            };
-            let (least, greatest) = m.design_axial;
-            if least < -tiny {
-                keep(&mut env.compression, row(least), |a, b| a.axial < b.axial);
-            }
-            if greatest > tiny {
-                keep(&mut env.tension, row(greatest), |a, b| a.axial > b.axial);
-            }
-        }
-    }
-    out
+        .collect()
 }
 
-/// The largest |design shear| at each end of every member over the stable cases: two rows
-/// per member (end i, end j) in member order; an end with no shear in any case has none.
-pub fn shear_envelopes(report: &CheckReport) -> Vec<ShearRow> {
-    let Some(first) = report.cases.first() else {
-        return Vec::new();
-    };
-    let mut slots: Vec<[Option<ShearRow>; 2]> = vec![[None, None]; first.members.len()];
-    for case in report.cases.iter().filter(|c| c.stable) {
-        let tiny = ROUND_OFF * largest(case.members.iter().map(largest_shear));
-        for (slot, m) in slots.iter_mut().zip(&case.members) {
-            for (end, location) in [Location::EndI, Location::EndJ].into_iter().enumerate() {
-                let a = m.end_actions[end];
-                if a.shear.abs() <= tiny || a.shear.is_nan() {
-                    continue;
-                }
-                let row = ShearRow {
-                    member: m.member.clone(),
-                    role: m.role.to_string(),
-                    location,
-                    shear: a.shear,
-                    case: case.id.clone(),
-                    expression: case.expression.clone(),
-                    moment: m.ends[end].design,
-                    axial: a.axial,
-                };
-                keep(&mut slot[end], row, |a, b| a.shear.abs() > b.shear.abs());
-            }
+/// Fold one stable case into every member's axial envelope.
+pub(super) fn axial_case(out: &mut [AxialEnvelope], case: &CaseCheck) {
+    let tiny = ROUND_OFF
+        * largest(
+            case.members
+                .iter()
+                .flat_map(|m| [m.design_axial.0, m.design_axial.1]),
+        );
+    for (env, m) in out.iter_mut().zip(&case.members) {
+        let row = |axial: f64| AxialRow {
+            axial,
+            case: case.id.clone(),
+            expression: case.expression.clone(),
+            moment_i: m.ends[0].design,
+            moment_j: m.ends[1].design,
+            moment_span: m.span.design,
+            shear: largest_shear(m),
+        };
+        let (least, greatest) = m.design_axial;
+        if least < -tiny {
+            keep(&mut env.compression, row(least), |a, b| a.axial < b.axial);
+        }
+        if greatest > tiny {
+            keep(&mut env.tension, row(greatest), |a, b| a.axial > b.axial);
         }
     }
-    slots.into_iter().flatten().flatten().collect()
+}
+
+/// Fold one stable case into the largest |design shear| at each end of every member
+/// (`slots`: end i and end j per member; an end with no shear in any case has none).
+pub(super) fn shear_case(slots: &mut [[Option<ShearRow>; 2]], case: &CaseCheck) {
+    let tiny = ROUND_OFF * largest(case.members.iter().map(largest_shear));
+    for (slot, m) in slots.iter_mut().zip(&case.members) {
+        for (end, location) in [Location::EndI, Location::EndJ].into_iter().enumerate() {
+            let a = m.end_actions[end];
+            if a.shear.abs() <= tiny || a.shear.is_nan() {
+                continue;
+            }
+            let row = ShearRow {
+                member: m.member.clone(),
+                role: m.role.to_string(),
+                location,
+                shear: a.shear,
+                case: case.id.clone(),
+                expression: case.expression.clone(),
+                moment: m.ends[end].design,
+                axial: a.axial,
+            };
+            keep(&mut slot[end], row, |a, b| a.shear.abs() > b.shear.abs());
+        }
+    }
 }
 
 /// The reaction envelope of every support over the stable cases whose second-order
