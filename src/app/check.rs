@@ -163,7 +163,7 @@ impl CheckRun {
             },
             settings: self.settings.clone(),
             selection: self.selection.clone(),
-            envelope: self.envelope.clone(),
+            envelope: &self.envelope,
             service: self.service.as_ref().map(|s| &s.report),
             detail: false,
         }

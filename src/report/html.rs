@@ -35,7 +35,7 @@ fn handoff_section(out: &mut String, s: &Summary) {
     out.push_str("<figure>");
     out.push_str(&super::svg_forces::drawing(
         s.model,
-        &s.envelope,
+        s.envelope,
         &shown,
         WIDTH,
     ));

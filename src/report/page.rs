@@ -76,7 +76,7 @@ pub struct Summary<'a> {
     pub table: TableInfo,
     pub settings: Vec<Setting>,
     pub selection: Selection,
-    pub envelope: Envelope,
+    pub envelope: &'a Envelope,
     /// The serviceability half of the run, when it has one.
     pub service: Option<&'a crate::service::ServiceReport>,
     /// `--detail`: every table with all its columns (the default page keeps the figures of
