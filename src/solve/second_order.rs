@@ -110,68 +110,94 @@ pub fn element_axial(r: &Response) -> Vec<f64> {
         .collect()
 }
 
-/// A small dense LDLᵀ factor (row-major, L below the diagonal, D on it).
+/// A small banded LDLᵀ factor of one member's interior block `K_ii`. The interior nodes of
+/// a member couple only to their neighbours, so `K_ii` is block tridiagonal with 3×3
+/// blocks: every entry lies within [`BAND`] of the diagonal, and elimination without
+/// pivoting fills nothing outside that band (George and Liu 1981, §4.1, envelope storage,
+/// from memory), so the factor and its solves cost `O(n·BAND²)` and `O(n·BAND)` rather
+/// than `O(n³)` and `O(n²)`.
 #[derive(Debug, Clone)]
 struct DenseLdl {
-    n: usize,
-    a: Vec<f64>,
+    /// Row i: `L[i][i − BAND + k]` for k in 0..BAND (zero before the first column).
+    l: Vec<[f64; BAND]>,
+    /// The pivots.
+    d: Vec<f64>,
 }
 
+/// Half-bandwidth of a member's interior block: 3 unknowns per node, each node coupled to
+/// the next.
+const BAND: usize = 5;
+
 impl DenseLdl {
-    /// Factor symmetric `k`; `Err(j)` at the first pivot `d_j ≤ PIVOT_TOL·|k_jj|` (the same
+    /// Order of the factored matrix.
+    fn n(&self) -> usize {
+        self.d.len()
+    }
+
+    /// Factor the symmetric `n × n` row-major `k` (entries beyond [`BAND`] of the
+    /// diagonal are zero); `Err(j)` at the first pivot `d_j ≤ PIVOT_TOL·|k_jj|` (the same
     /// test as [`super::skyline::SkylineMatrix::factor`]), or with `indefinite` at the
     /// first `|d_j| ≤ PIVOT_TOL·|k_jj|`, negative pivots being kept and counted (as
     /// [`SkylineMatrix::factor_inertia`] does). Returns the factor and its number of
     /// negative pivots.
-    fn factor(k: &DMatrix<f64>, indefinite: bool) -> Result<(DenseLdl, usize), usize> {
+    fn factor(k: &[f64], n: usize, indefinite: bool) -> Result<(DenseLdl, usize), usize> {
         let mut negative = 0;
-        let n = k.nrows();
-        let mut a = vec![0.0; n * n];
-        for i in 0..n {
-            for j in 0..=i {
-                a[i * n + j] = k[(i, j)];
-            }
-        }
+        let mut l = vec![[0.0; BAND]; n];
+        let mut d = vec![0.0; n];
+        // Row i of the band, column c (c within BAND below i): slot c + BAND − i.
         for j in 0..n {
-            let mut d = a[j * n + j];
-            for r in 0..j {
-                d -= a[j * n + r] * a[j * n + r] * a[r * n + r];
+            // L[j][r] for r < j first (row j of L, from the rows above), then d_j.
+            let kjj = k[j * n + j];
+            let mut dj = kjj;
+            // The sums run in the order of a dense factor (ascending r): the terms outside
+            // the band are zero and leave every sum as it is.
+            for c in j.saturating_sub(BAND)..j {
+                let mut g = k[j * n + c];
+                for r in j.saturating_sub(BAND)..c {
+                    g -= l[j][r + BAND - j] * l[c][r + BAND - c] * d[r];
+                }
+                l[j][c + BAND - j] = g / d[c];
             }
-            let floor = PIVOT_TOL * k[(j, j)].abs();
-            if d.is_nan()
+            for c in j.saturating_sub(BAND)..j {
+                let v = l[j][c + BAND - j];
+                dj -= v * v * d[c];
+            }
+            let floor = PIVOT_TOL * kjj.abs();
+            if dj.is_nan()
                 || (if indefinite {
-                    d.abs() <= floor
+                    dj.abs() <= floor
                 } else {
-                    d <= floor
+                    dj <= floor
                 })
             {
                 return Err(j);
             }
-            negative += usize::from(d < 0.0);
-            a[j * n + j] = d;
-            for i in j + 1..n {
-                let mut g = a[i * n + j];
-                for r in 0..j {
-                    g -= a[i * n + r] * a[j * n + r] * a[r * n + r];
-                }
-                a[i * n + j] = g / d;
-            }
+            negative += usize::from(dj < 0.0);
+            d[j] = dj;
         }
-        Ok((DenseLdl { n, a }, negative))
+        Ok((DenseLdl { l, d }, negative))
     }
 
     /// Solve `K·x = b` in place.
     fn solve(&self, b: &mut [f64]) {
-        let (n, a) = (self.n, &self.a);
+        let n = self.d.len();
         for i in 0..n {
-            let s: f64 = (0..i).map(|r| a[i * n + r] * b[r]).sum();
+            let row = &self.l[i];
+            let lo = i.saturating_sub(BAND);
+            let mut s = 0.0;
+            for (r, br) in b[lo..i].iter().enumerate() {
+                s += row[r + lo + BAND - i] * br;
+            }
             b[i] -= s;
         }
-        for i in 0..n {
-            b[i] /= a[i * n + i];
+        for (bi, di) in b.iter_mut().zip(&self.d) {
+            *bi /= di;
         }
         for i in (0..n).rev() {
-            let s: f64 = (i + 1..n).map(|r| a[r * n + i] * b[r]).sum();
+            let mut s = 0.0;
+            for r in i + 1..n.min(i + BAND + 1) {
+                s += self.l[r][i + BAND - r] * b[r];
+            }
             b[i] -= s;
         }
     }
@@ -180,17 +206,49 @@ impl DenseLdl {
 /// The interior nodes of one member, condensed out (member-local axes).
 #[derive(Debug, Clone)]
 struct MemberBlock {
-    /// Interior mesh nodes, from end i.
-    interior: Vec<usize>,
     /// `K_ii`, factored.
     k_ii: DenseLdl,
-    /// `W = K_ii⁻¹·K_ie` (3·interior × 6).
-    w: DMatrix<f64>,
+    /// `W = K_ii⁻¹·K_ie` (3·interior × 6), row-major.
+    w: Vec<f64>,
 }
 
-/// Rotation of a node's `[ux, uy, θ]` from global to member-local axes.
-fn rotation(c: f64, s: f64) -> Matrix3<f64> {
-    Matrix3::new(c, s, 0.0, -s, c, 0.0, 0.0, 0.0, 1.0)
+/// `Σ term(i)` over `0..n` in the order of nalgebra's dot product (eight running sums over
+/// blocks of eight, combined pairwise, then the rest), so that the condensed loads round as
+/// they always have.
+fn unrolled_dot(n: usize, term: impl Fn(usize) -> f64) -> f64 {
+    let mut res = 0.0;
+    let mut i = 0;
+    let mut acc = [0.0f64; 8];
+    while n - i >= 8 {
+        for (k, a) in acc.iter_mut().enumerate() {
+            *a += term(i + k);
+        }
+        i += 8;
+    }
+    res += acc[0] + acc[4];
+    res += acc[1] + acc[5];
+    res += acc[2] + acc[6];
+    res += acc[3] + acc[7];
+    for k in i..n {
+        res += term(k);
+    }
+    res
+}
+
+/// Global `[x, y]` to member-local `[axial, transverse]` for direction cosines (c, s).
+fn to_local(c: f64, s: f64, g: [f64; 3]) -> [f64; 3] {
+    [c * g[0] + s * g[1], -s * g[0] + c * g[1], g[2]]
+}
+
+/// Member-local `[axial, transverse]` to global `[x, y]` for direction cosines (c, s).
+fn to_global(c: f64, s: f64, l: [f64; 3]) -> [f64; 3] {
+    [c * l[0] - s * l[1], s * l[0] + c * l[1], l[2]]
+}
+
+/// The interior mesh nodes of member `m`, from end i.
+fn interior_nodes(mesh: &Mesh, m: usize) -> impl Iterator<Item = usize> + '_ {
+    let range = mesh.member_elements[m].clone();
+    range.skip(1).map(|ie| mesh.elements[ie].i)
 }
 
 /// The segmented stiffness (elastic, plus geometric for given element axial forces) with
@@ -239,40 +297,67 @@ fn condense_members(
             condensed.push(t.transpose() * local(range.start) * t);
             continue;
         }
-        // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3.
-        let dim = 3 * (segments + 1);
-        let mut k = DMatrix::zeros(dim, dim);
+        // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3, the interior
+        // unknowns 3..3s (numbered from 0 in K_ii). The first element couples end i to the
+        // first interior node, the last the last interior node to end j.
+        let ni = 3 * (segments - 1);
+        let mut k_ii = vec![0.0; ni * ni];
+        let mut k_ee = Matrix6::<f64>::zeros();
+        // K_ie: rows 0..3 couple to end i (columns 0..3), rows ni-3..ni to end j (3..6).
+        let mut k_ie = vec![0.0; ni * 6];
         for (seg, ie) in range.clone().enumerate() {
             let kl = local(ie);
+            // Member DOF of each element DOF, as index into [end i | interior | end j].
+            let place = |r: usize| -> (bool, usize) {
+                let node = seg + r / 3;
+                if node == 0 {
+                    (false, r % 3)
+                } else if node == segments {
+                    (false, 3 + r % 3)
+                } else {
+                    (true, 3 * (node - 1) + r % 3)
+                }
+            };
             for r in 0..6 {
+                let (ri, pr) = place(r);
                 for c in 0..6 {
-                    k[(3 * seg + r, 3 * seg + c)] += kl[(r, c)];
+                    let (ci, pc) = place(c);
+                    let v = kl[(r, c)];
+                    match (ri, ci) {
+                        (true, true) => k_ii[pr * ni + pc] += v,
+                        (true, false) => k_ie[pr * 6 + pc] += v,
+                        (false, false) => k_ee[(pr, pc)] += v,
+                        (false, true) => {}
+                    }
                 }
             }
         }
-        let ext = [0, 1, 2, dim - 3, dim - 2, dim - 1];
-        let ni = dim - 6;
-        let k_ii = k.view((3, 3), (ni, ni)).into_owned();
-        let k_ie = DMatrix::from_fn(ni, 6, |r, c| k[(3 + r, ext[c])]);
-        let (k_ii, below) = DenseLdl::factor(&k_ii, indefinite)
+        let (k_ii, below) = DenseLdl::factor(&k_ii, ni, indefinite)
             .map_err(|j| (mesh.elements[range.start + j / 3].j, j % 3))?;
         negative += below;
-        let mut w = k_ie.clone();
-        for mut col in w.column_iter_mut() {
-            k_ii.solve(col.as_mut_slice());
+        // W = K_ii⁻¹·K_ie, column by column.
+        let mut w = vec![0.0; ni * 6];
+        let mut col = vec![0.0; ni];
+        for c in 0..6 {
+            for r in 0..ni {
+                col[r] = k_ie[r * 6 + c];
+            }
+            k_ii.solve(&mut col);
+            for r in 0..ni {
+                w[r * 6 + c] = col[r];
+            }
         }
-        let k_ee = Matrix6::from_fn(|r, c| k[(ext[r], ext[c])]);
-        let k_star = k_ee - Matrix6::from_fn(|r, c| k_ie.column(r).dot(&w.column(c)));
+        // K* = K_ee − K_ieᵀ·W, over the rows of K_ie that couple to the ends (the first
+        // and the last interior node, one node when the member has two elements).
+        let k_star = Matrix6::from_fn(|r, c| {
+            k_ee[(r, c)]
+                - (0..3)
+                    .chain((ni - 3..ni).filter(|&q| q >= 3))
+                    .map(|q| k_ie[q * 6 + r] * w[q * 6 + c])
+                    .sum::<f64>()
+        });
         condensed.push(t.transpose() * k_star * t);
-        blocks.push(Some(MemberBlock {
-            interior: range
-                .clone()
-                .skip(1)
-                .map(|ie| mesh.elements[ie].i)
-                .collect(),
-            k_ii,
-            w,
-        }));
+        blocks.push(Some(MemberBlock { k_ii, w }));
     }
     Ok(MemberParts {
         blocks,
@@ -356,37 +441,41 @@ impl Condensed {
                 }
             }
         }
-        // Interior loads: z = K_ii⁻¹·f_i, and −Wᵀ·f_i on the member ends.
-        let mut z_all: Vec<Option<DVector<f64>>> = Vec::with_capacity(self.blocks.len());
+        // Interior loads f_i (member-local): z = K_ii⁻¹·f_i, and −Wᵀ·f_i on the member
+        // ends. `z` holds every member's interior unknowns one after the other.
+        let mut start = Vec::with_capacity(self.blocks.len() + 1);
+        start.push(0);
+        for b in &self.blocks {
+            let ni = b.as_ref().map_or(0, |b| b.k_ii.n());
+            start.push(start.last().copied().unwrap_or(0) + ni);
+        }
+        let mut z = vec![0.0; start.last().copied().unwrap_or(0)];
+        let mut loaded = vec![false; self.blocks.len()];
         for (m, block) in self.blocks.iter().enumerate() {
-            let Some(b) = block else {
-                z_all.push(None);
-                continue;
-            };
+            let Some(b) = block else { continue };
             let e = &mesh.elements[mesh.member_elements[m].start];
-            let rot = rotation(e.c, e.s);
-            let mut z = DVector::zeros(3 * b.interior.len());
-            for (k, &node) in b.interior.iter().enumerate() {
-                let pl = rot * nalgebra::Vector3::from(p[node]);
-                z.rows_mut(3 * k, 3).copy_from(&pl);
+            let zm = &mut z[start[m]..start[m + 1]];
+            for (k, node) in interior_nodes(mesh, m).enumerate() {
+                zm[3 * k..3 * k + 3].copy_from_slice(&to_local(e.c, e.s, p[node]));
             }
-            if z.iter().any(|&v| v != 0.0) {
-                let on_ends = -b.w.tr_mul(&z);
-                let t = transformation(e.c, e.s);
-                let g = t.transpose() * Vector6::from_iterator(on_ends.iter().copied());
-                for (r, q) in element_equations(&so.dofs, &so.frame.elements[m])
-                    .iter()
-                    .enumerate()
-                {
-                    if let Some(q) = q {
-                        f[*q] += g[r];
-                    }
+            if zm.iter().all(|&v| v == 0.0) {
+                continue;
+            }
+            loaded[m] = true;
+            let on_ends: [f64; 6] =
+                std::array::from_fn(|c| -unrolled_dot(zm.len(), |r| b.w[r * 6 + c] * zm[r]));
+            let gi = to_global(e.c, e.s, [on_ends[0], on_ends[1], on_ends[2]]);
+            let gj = to_global(e.c, e.s, [on_ends[3], on_ends[4], on_ends[5]]);
+            let g = [gi[0], gi[1], gi[2], gj[0], gj[1], gj[2]];
+            for (r, q) in element_equations(&so.dofs, &so.frame.elements[m])
+                .iter()
+                .enumerate()
+            {
+                if let Some(q) = q {
+                    f[*q] += g[r];
                 }
-                b.k_ii.solve(z.as_mut_slice());
-                z_all.push(Some(z));
-            } else {
-                z_all.push(None);
             }
+            b.k_ii.solve(zm);
         }
         self.factor.solve(&mut f);
         let mut u = vec![[0.0; 3]; mesh.nodes.len()];
@@ -396,20 +485,22 @@ impl Condensed {
             }
         }
         // Interior displacements: u_i = z − W·u_e.
-        for ((m, block), z) in self.blocks.iter().enumerate().zip(z_all) {
+        for (m, block) in self.blocks.iter().enumerate() {
             let Some(b) = block else { continue };
             let e = &mesh.elements[mesh.member_elements[m].start];
             let fe = &so.frame.elements[m];
-            let (a, c) = (u[fe.i], u[fe.j]);
-            let ue = transformation(e.c, e.s) * Vector6::new(a[0], a[1], a[2], c[0], c[1], c[2]);
-            let mut ui = -(&b.w * DVector::from_iterator(6, ue.iter().copied()));
-            if let Some(z) = z {
-                ui += z;
-            }
-            let back = rotation(e.c, e.s).transpose();
-            for (k, &node) in b.interior.iter().enumerate() {
-                let g = back * ui.fixed_rows::<3>(3 * k);
-                u[node] = [g[0], g[1], g[2]];
+            let (a, c) = (to_local(e.c, e.s, u[fe.i]), to_local(e.c, e.s, u[fe.j]));
+            let ue = [a[0], a[1], a[2], c[0], c[1], c[2]];
+            let zm = &z[start[m]..start[m + 1]];
+            for (k, node) in interior_nodes(mesh, m).enumerate() {
+                let mut ui = [0.0; 3];
+                for (d, v) in ui.iter_mut().enumerate() {
+                    let r = 3 * k + d;
+                    let wr = &b.w[r * 6..r * 6 + 6];
+                    let s: f64 = wr.iter().zip(&ue).map(|(w, x)| w * x).sum();
+                    *v = if loaded[m] { zm[r] - s } else { -s };
+                }
+                u[node] = to_global(e.c, e.s, ui);
             }
         }
         u
