@@ -178,28 +178,41 @@ impl DenseLdl {
         Ok((DenseLdl { l, d }, negative))
     }
 
-    /// Solve `K·x = b` in place.
+    /// Solve `K·x = b` in place. Each sum runs over the band in ascending order, as a dense
+    /// solve would (its other terms are zero), on a copy of `b` with [`BAND`] zeros on
+    /// either side so that every row has a full band.
     fn solve(&self, b: &mut [f64]) {
         let n = self.d.len();
-        for i in 0..n {
-            let row = &self.l[i];
-            let lo = i.saturating_sub(BAND);
+        let mut stack = [0.0; 48];
+        let mut heap = Vec::new();
+        let y: &mut [f64] = if n + 2 * BAND <= stack.len() {
+            &mut stack[..n + 2 * BAND]
+        } else {
+            heap.resize(n + 2 * BAND, 0.0);
+            &mut heap
+        };
+        y[BAND..BAND + n].copy_from_slice(b);
+        // Row i of L holds columns i − BAND .. i − 1, at y[i .. i + BAND].
+        for (i, row) in self.l.iter().enumerate() {
             let mut s = 0.0;
-            for (r, br) in b[lo..i].iter().enumerate() {
-                s += row[r + lo + BAND - i] * br;
+            for (l, x) in row.iter().zip(&y[i..i + BAND]) {
+                s += l * x;
             }
-            b[i] -= s;
+            y[BAND + i] -= s;
         }
-        for (bi, di) in b.iter_mut().zip(&self.d) {
-            *bi /= di;
+        for (x, d) in y[BAND..BAND + n].iter_mut().zip(&self.d) {
+            *x /= d;
         }
+        // Column i of L below the diagonal: L[i + k][i] = l[i + k][BAND − k], k = 1..=BAND.
         for i in (0..n).rev() {
+            let below = &self.l[i + 1..n.min(i + 1 + BAND)];
             let mut s = 0.0;
-            for r in i + 1..n.min(i + BAND + 1) {
-                s += self.l[r][i + BAND - r] * b[r];
+            for (k, (row, x)) in below.iter().zip(&y[BAND + i + 1..]).enumerate() {
+                s += row[BAND - 1 - k] * x;
             }
-            b[i] -= s;
+            y[BAND + i] -= s;
         }
+        b.copy_from_slice(&y[BAND..BAND + n]);
     }
 }
 
@@ -212,27 +225,33 @@ struct MemberBlock {
     w: Vec<f64>,
 }
 
-/// `Σ term(i)` over `0..n` in the order of nalgebra's dot product (eight running sums over
-/// blocks of eight, combined pairwise, then the rest), so that the condensed loads round as
-/// they always have.
-fn unrolled_dot(n: usize, term: impl Fn(usize) -> f64) -> f64 {
-    let mut res = 0.0;
-    let mut i = 0;
-    let mut acc = [0.0f64; 8];
-    while n - i >= 8 {
-        for (k, a) in acc.iter_mut().enumerate() {
-            *a += term(i + k);
+/// `−Wᵀ·z` for `W` (row-major, `z.len()` × 6), each sum in the order of nalgebra's dot
+/// product (eight running sums over blocks of eight rows, combined pairwise, then the
+/// remaining rows), so that the condensed loads round as they always have.
+fn minus_w_transpose_times(w: &[f64], z: &[f64]) -> [f64; 6] {
+    let n = z.len();
+    let whole = n - n % 8;
+    let mut acc = [[0.0f64; 8]; 6];
+    for i in (0..whole).step_by(8) {
+        for k in 0..8 {
+            let (zr, row) = (z[i + k], &w[(i + k) * 6..(i + k) * 6 + 6]);
+            for c in 0..6 {
+                acc[c][k] += row[c] * zr;
+            }
         }
-        i += 8;
     }
-    res += acc[0] + acc[4];
-    res += acc[1] + acc[5];
-    res += acc[2] + acc[6];
-    res += acc[3] + acc[7];
-    for k in i..n {
-        res += term(k);
-    }
-    res
+    std::array::from_fn(|c| {
+        let a = &acc[c];
+        let mut res = 0.0;
+        res += a[0] + a[4];
+        res += a[1] + a[5];
+        res += a[2] + a[6];
+        res += a[3] + a[7];
+        for r in whole..n {
+            res += w[r * 6 + c] * z[r];
+        }
+        -res
+    })
 }
 
 /// Global `[x, y]` to member-local `[axial, transverse]` for direction cosines (c, s).
@@ -347,15 +366,20 @@ fn condense_members(
                 w[r * 6 + c] = col[r];
             }
         }
-        // K* = K_ee − K_ieᵀ·W, over the rows of K_ie that couple to the ends (the first
-        // and the last interior node, one node when the member has two elements).
-        let k_star = Matrix6::from_fn(|r, c| {
-            k_ee[(r, c)]
-                - (0..3)
-                    .chain((ni - 3..ni).filter(|&q| q >= 3))
-                    .map(|q| k_ie[q * 6 + r] * w[q * 6 + c])
-                    .sum::<f64>()
-        });
+        // K* = K_ee − K_ieᵀ·W: column c of K_ie (c < 3: end i, else end j) is zero but on
+        // the first (c < 3) or the last interior node, so three terms, summed in the order
+        // of the dense product (whose other terms are zero).
+        let mut k_star = k_ee;
+        for r in 0..6 {
+            let q0 = if r < 3 { 0 } else { ni - 3 };
+            for c in 0..6 {
+                let mut sum = 0.0;
+                for q in q0..q0 + 3 {
+                    sum += k_ie[q * 6 + r] * w[q * 6 + c];
+                }
+                k_star[(r, c)] -= sum;
+            }
+        }
         condensed.push(t.transpose() * k_star * t);
         blocks.push(Some(MemberBlock { k_ii, w }));
     }
@@ -462,8 +486,7 @@ impl Condensed {
                 continue;
             }
             loaded[m] = true;
-            let on_ends: [f64; 6] =
-                std::array::from_fn(|c| -unrolled_dot(zm.len(), |r| b.w[r * 6 + c] * zm[r]));
+            let on_ends = minus_w_transpose_times(&b.w, zm);
             let gi = to_global(e.c, e.s, [on_ends[0], on_ends[1], on_ends[2]]);
             let gj = to_global(e.c, e.s, [on_ends[3], on_ends[4], on_ends[5]]);
             let g = [gi[0], gi[1], gi[2], gj[0], gj[1], gj[2]];
