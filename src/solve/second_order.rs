@@ -214,6 +214,51 @@ impl DenseLdl {
         }
         b.copy_from_slice(&y[BAND..BAND + n]);
     }
+
+    /// Solve `K·X = B` in place for the six columns of `b` (row-major, `n` × 6): for each
+    /// column the same sums in the same order as [`Self::solve`], in one pass over the band.
+    /// `pad` is scratch space.
+    fn solve_columns(&self, b: &mut [f64], pad: &mut Vec<f64>) {
+        let n = self.d.len();
+        pad.clear();
+        pad.resize((n + 2 * BAND) * 6, 0.0);
+        let y = &mut pad[..];
+        y[BAND * 6..(BAND + n) * 6].copy_from_slice(b);
+        for (i, row) in self.l.iter().enumerate() {
+            let mut s = [0.0; 6];
+            for (k, l) in row.iter().enumerate() {
+                let x = &y[(i + k) * 6..(i + k) * 6 + 6];
+                for c in 0..6 {
+                    s[c] += l * x[c];
+                }
+            }
+            let t = &mut y[(BAND + i) * 6..(BAND + i) * 6 + 6];
+            for c in 0..6 {
+                t[c] -= s[c];
+            }
+        }
+        for (i, d) in self.d.iter().enumerate() {
+            for x in &mut y[(BAND + i) * 6..(BAND + i) * 6 + 6] {
+                *x /= d;
+            }
+        }
+        for i in (0..n).rev() {
+            let below = &self.l[i + 1..n.min(i + 1 + BAND)];
+            let mut s = [0.0; 6];
+            for (k, row) in below.iter().enumerate() {
+                let l = row[BAND - 1 - k];
+                let x = &y[(BAND + i + 1 + k) * 6..(BAND + i + 2 + k) * 6];
+                for c in 0..6 {
+                    s[c] += l * x[c];
+                }
+            }
+            let t = &mut y[(BAND + i) * 6..(BAND + i) * 6 + 6];
+            for c in 0..6 {
+                t[c] -= s[c];
+            }
+        }
+        b.copy_from_slice(&y[BAND * 6..(BAND + n) * 6]);
+    }
 }
 
 /// The interior nodes of one member, condensed out (member-local axes).
@@ -303,6 +348,8 @@ fn condense_members(
     let mut blocks = Vec::with_capacity(mesh.member_elements.len());
     let mut condensed = Vec::with_capacity(mesh.member_elements.len());
     let mut negative = 0;
+    // Scratch space, reused member after member.
+    let (mut k_ii, mut k_ie, mut pad) = (Vec::new(), Vec::new(), Vec::new());
     for range in &mesh.member_elements {
         let first = &mesh.elements[range.start];
         let segments = range.len();
@@ -320,10 +367,12 @@ fn condense_members(
         // unknowns 3..3s (numbered from 0 in K_ii). The first element couples end i to the
         // first interior node, the last the last interior node to end j.
         let ni = 3 * (segments - 1);
-        let mut k_ii = vec![0.0; ni * ni];
+        k_ii.clear();
+        k_ii.resize(ni * ni, 0.0);
         let mut k_ee = Matrix6::<f64>::zeros();
         // K_ie: rows 0..3 couple to end i (columns 0..3), rows ni-3..ni to end j (3..6).
-        let mut k_ie = vec![0.0; ni * 6];
+        k_ie.clear();
+        k_ie.resize(ni * 6, 0.0);
         for (seg, ie) in range.clone().enumerate() {
             let kl = local(ie);
             // Member DOF of each element DOF, as index into [end i | interior | end j].
@@ -351,21 +400,12 @@ fn condense_members(
                 }
             }
         }
-        let (k_ii, below) = DenseLdl::factor(&k_ii, ni, indefinite)
+        let (factor, below) = DenseLdl::factor(&k_ii, ni, indefinite)
             .map_err(|j| (mesh.elements[range.start + j / 3].j, j % 3))?;
         negative += below;
-        // W = K_ii⁻¹·K_ie, column by column.
-        let mut w = vec![0.0; ni * 6];
-        let mut col = vec![0.0; ni];
-        for c in 0..6 {
-            for r in 0..ni {
-                col[r] = k_ie[r * 6 + c];
-            }
-            k_ii.solve(&mut col);
-            for r in 0..ni {
-                w[r * 6 + c] = col[r];
-            }
-        }
+        // W = K_ii⁻¹·K_ie.
+        let mut w = k_ie.clone();
+        factor.solve_columns(&mut w, &mut pad);
         // K* = K_ee − K_ieᵀ·W: column c of K_ie (c < 3: end i, else end j) is zero but on
         // the first (c < 3) or the last interior node, so three terms, summed in the order
         // of the dense product (whose other terms are zero).
@@ -381,7 +421,7 @@ fn condense_members(
             }
         }
         condensed.push(t.transpose() * k_star * t);
-        blocks.push(Some(MemberBlock { k_ii, w }));
+        blocks.push(Some(MemberBlock { k_ii: factor, w }));
     }
     Ok(MemberParts {
         blocks,
