@@ -32,7 +32,7 @@ use serde::Serialize;
 use super::beam::{PDelta, SpanExtremes, fixed_end_forces, moment_extremes};
 use super::element::{elastic_stiffness, geometric_stiffness, released_rotations, transformation};
 use super::first_order::Solution;
-use super::linear::{MeshLoads, Response, equivalent_nodal_loads, recover};
+use super::linear::{LoadTerms, MeshLoads, Response, equivalent_nodal_loads_with, recover_with};
 use super::mesh::{MemberStiffness, Mesh};
 use super::skyline::{PIVOT_TOL, SkylineFactor, SkylineMatrix};
 use super::system::{
@@ -576,11 +576,12 @@ impl Condensed {
         so: &Layout,
         model: &Model,
         loads: &MeshLoads,
+        terms: &LoadTerms,
     ) -> Result<Response, SystemError> {
         let axial = self.axial.as_deref();
-        let p = equivalent_nodal_loads(model, mesh, &so.mesh_dofs, axial, loads)?;
+        let p = equivalent_nodal_loads_with(model, mesh, &so.mesh_dofs, axial, loads, terms)?;
         let u = self.solve_nodal(mesh, so, &p);
-        Ok(recover(mesh, &so.mesh_dofs, axial, loads, u))
+        Ok(recover_with(mesh, &so.mesh_dofs, axial, loads, terms, u))
     }
 }
 
@@ -623,7 +624,9 @@ impl SecondOrderModel {
 
     /// First-order response to `loads` on the segmented mesh.
     pub fn first_order(&self, model: &Model, loads: &MeshLoads) -> Result<Response, SystemError> {
-        self.elastic.respond(&self.mesh, &self.layout, model, loads)
+        let terms = LoadTerms::new(&self.mesh, loads);
+        self.elastic
+            .respond(&self.mesh, &self.layout, model, loads, &terms)
     }
 
     /// The stiffness with the geometric stiffness of element axial forces `axial`,
@@ -643,7 +646,10 @@ impl SecondOrderModel {
         model: &Model,
         loads: &MeshLoads,
     ) -> Result<SecondOrderOutcome, SystemError> {
-        let first = self.first_order(model, loads)?;
+        let terms = LoadTerms::new(&self.mesh, loads);
+        let first = self
+            .elastic
+            .respond(&self.mesh, &self.layout, model, loads, &terms)?;
         let mut axial = element_axial(&first);
         let mut previous = first.displacements.clone();
         for iteration in 1..=MAX_ITERATIONS {
@@ -662,7 +668,7 @@ impl SecondOrderModel {
                 }
                 Err(e) => return Err(e),
             };
-            let r = system.respond(&self.mesh, &self.layout, model, loads)?;
+            let r = system.respond(&self.mesh, &self.layout, model, loads, &terms)?;
             let scale = max_translation(&r.displacements).max(f64::MIN_POSITIVE);
             let change = r
                 .displacements
