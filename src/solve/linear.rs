@@ -183,6 +183,62 @@ pub fn equivalent_nodal_loads(
     axial: Option<&[f64]>,
     loads: &MeshLoads,
 ) -> Result<Vec<[f64; 3]>, SystemError> {
+    let terms = LoadTerms::new(mesh, loads);
+    equivalent_nodal_loads_with(model, mesh, dofs, axial, loads, &terms)
+}
+
+/// What `loads` gives every solution on `mesh`, whatever the stiffness: each element's
+/// fixed-end actions (every DOF held, local axes), the applied resultant and the largest
+/// applied component. Worked out once, it serves every iteration of a second-order
+/// analysis.
+#[derive(Debug, Clone)]
+pub struct LoadTerms {
+    /// Fixed-end actions of each element ([`fixed_end_forces`]).
+    fixed_end: Vec<Vector6<f64>>,
+    /// [`MeshLoads::resultant`].
+    resultant: [f64; 3],
+    /// Largest applied load component, N (see [`Residual::applied`]).
+    applied: f64,
+}
+
+impl LoadTerms {
+    /// The terms of `loads` on `mesh`.
+    pub fn new(mesh: &Mesh, loads: &MeshLoads) -> LoadTerms {
+        let fixed_end = mesh
+            .elements
+            .iter()
+            .zip(&loads.element)
+            .map(|(e, l)| Vector6::from(fixed_end_forces(e.length, l).to_array()))
+            .collect();
+        let resultant = loads.resultant(mesh);
+        let applied = loads
+            .nodal
+            .iter()
+            .flat_map(|p| p.iter())
+            .chain(resultant.iter().take(2))
+            .map(|v| v.abs())
+            .chain(mesh.elements.iter().zip(&loads.element).map(|(e, l)| {
+                let (px, py, _) = element_resultant(e.length, l);
+                px.hypot(py)
+            }))
+            .fold(0.0, f64::max);
+        LoadTerms {
+            fixed_end,
+            resultant,
+            applied,
+        }
+    }
+}
+
+/// [`equivalent_nodal_loads`] with the load's [`LoadTerms`] worked out already.
+pub fn equivalent_nodal_loads_with(
+    model: &Model,
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    axial: Option<&[f64]>,
+    loads: &MeshLoads,
+    terms: &LoadTerms,
+) -> Result<Vec<[f64; 3]>, SystemError> {
     let mut p = loads.nodal.clone();
     // Unresisted loads on idle rotations make the frame a mechanism for this load.
     let mut idle_loaded = Vec::new();
@@ -205,8 +261,7 @@ pub fn equivalent_nodal_loads(
         if loads.element[ie].is_empty() {
             continue;
         }
-        let f0 = Vector6::from(fixed_end_forces(e.length, &loads.element[ie]).to_array());
-        let (_, fl) = element_matrices(e, axial.map(|a| a[ie]), &f0);
+        let (_, fl) = element_matrices(e, axial.map(|a| a[ie]), &terms.fixed_end[ie]);
         let fg = transformation(e.c, e.s).transpose() * fl;
         for k in 0..3 {
             p[e.i][k] -= fg[k];
@@ -226,12 +281,24 @@ pub fn recover(
     loads: &MeshLoads,
     displacements: Vec<[f64; 3]>,
 ) -> Response {
+    let terms = LoadTerms::new(mesh, loads);
+    recover_with(mesh, dofs, axial, loads, &terms, displacements)
+}
+
+/// [`recover`] with the load's [`LoadTerms`] worked out already.
+pub fn recover_with(
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    axial: Option<&[f64]>,
+    loads: &MeshLoads,
+    terms: &LoadTerms,
+    displacements: Vec<[f64; 3]>,
+) -> Response {
     // Element end actions and the forces they put on the nodes.
     let mut on_nodes = vec![[0.0; 3]; mesh.nodes.len()];
     let mut element_forces = Vec::with_capacity(mesh.elements.len());
     for (ie, e) in mesh.elements.iter().enumerate() {
-        let f0 = Vector6::from(fixed_end_forces(e.length, &loads.element[ie]).to_array());
-        let (kl, fl) = element_matrices(e, axial.map(|a| a[ie]), &f0);
+        let (kl, fl) = element_matrices(e, axial.map(|a| a[ie]), &terms.fixed_end[ie]);
         let t = transformation(e.c, e.s);
         let (a, b) = (displacements[e.i], displacements[e.j]);
         let ug = Vector6::new(a[0], a[1], a[2], b[0], b[1], b[2]);
@@ -259,23 +326,12 @@ pub fn recover(
             }
         }
     }
-    let applied_r = loads.resultant(mesh);
-    let mut global = applied_r;
+    let mut global = terms.resultant;
     for (node, r) in reactions.iter().enumerate() {
         let (x, y) = mesh.nodes[node];
         add_force(&mut global, x, y, r[0], r[1], r[2]);
     }
-    let applied = loads
-        .nodal
-        .iter()
-        .flat_map(|p| p.iter())
-        .chain(applied_r.iter().take(2))
-        .map(|v| v.abs())
-        .chain(mesh.elements.iter().zip(&loads.element).map(|(e, l)| {
-            let (px, py, _) = element_resultant(e.length, l);
-            px.hypot(py)
-        }))
-        .fold(0.0, f64::max);
+    let applied = terms.applied;
     Response {
         displacements,
         element_forces,

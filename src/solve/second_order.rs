@@ -32,7 +32,7 @@ use serde::Serialize;
 use super::beam::{PDelta, SpanExtremes, fixed_end_forces, moment_extremes};
 use super::element::{elastic_stiffness, geometric_stiffness, released_rotations, transformation};
 use super::first_order::Solution;
-use super::linear::{MeshLoads, Response, equivalent_nodal_loads, recover};
+use super::linear::{LoadTerms, MeshLoads, Response, equivalent_nodal_loads_with, recover_with};
 use super::mesh::{MemberStiffness, Mesh};
 use super::skyline::{PIVOT_TOL, SkylineFactor, SkylineMatrix};
 use super::system::{
@@ -107,87 +107,209 @@ pub fn element_axial(r: &Response) -> Vec<f64> {
         .collect()
 }
 
-/// A small dense LDLᵀ factor (row-major, L below the diagonal, D on it).
+/// A small banded LDLᵀ factor of one member's interior block `K_ii`. The interior nodes of
+/// a member couple only to their neighbours, so `K_ii` is block tridiagonal with 3×3
+/// blocks: every entry lies within [`BAND`] of the diagonal, and elimination without
+/// pivoting fills nothing outside that band (George and Liu 1981, §4.1, envelope storage,
+/// from memory), so the factor and its solves cost `O(n·BAND²)` and `O(n·BAND)` rather
+/// than `O(n³)` and `O(n²)`.
 #[derive(Debug, Clone)]
 struct DenseLdl {
-    n: usize,
-    a: Vec<f64>,
+    /// Row i: `L[i][i − BAND + k]` for k in 0..BAND (zero before the first column).
+    l: Vec<[f64; BAND]>,
+    /// The pivots.
+    d: Vec<f64>,
 }
 
+/// Half-bandwidth of a member's interior block: 3 unknowns per node, each node coupled to
+/// the next.
+const BAND: usize = 5;
+
 impl DenseLdl {
-    /// Factor symmetric `k`; `Err(j)` at the first pivot `d_j ≤ PIVOT_TOL·|k_jj|` (the same
+    /// Order of the factored matrix.
+    fn n(&self) -> usize {
+        self.d.len()
+    }
+
+    /// Factor the symmetric `n × n` row-major `k` (entries beyond [`BAND`] of the
+    /// diagonal are zero); `Err(j)` at the first pivot `d_j ≤ PIVOT_TOL·|k_jj|` (the same
     /// test as [`super::skyline::SkylineMatrix::factor`]), or with `indefinite` at the
     /// first `|d_j| ≤ PIVOT_TOL·|k_jj|`, negative pivots being kept and counted (as
     /// [`SkylineMatrix::factor_inertia`] does). Returns the factor and its number of
     /// negative pivots.
-    fn factor(k: &DMatrix<f64>, indefinite: bool) -> Result<(DenseLdl, usize), usize> {
+    fn factor(k: &[f64], n: usize, indefinite: bool) -> Result<(DenseLdl, usize), usize> {
         let mut negative = 0;
-        let n = k.nrows();
-        let mut a = vec![0.0; n * n];
-        for i in 0..n {
-            for j in 0..=i {
-                a[i * n + j] = k[(i, j)];
-            }
-        }
+        let mut l = vec![[0.0; BAND]; n];
+        let mut d = vec![0.0; n];
+        // Row i of the band, column c (c within BAND below i): slot c + BAND − i.
         for j in 0..n {
-            let mut d = a[j * n + j];
-            for r in 0..j {
-                d -= a[j * n + r] * a[j * n + r] * a[r * n + r];
+            // L[j][r] for r < j first (row j of L, from the rows above), then d_j.
+            let kjj = k[j * n + j];
+            let mut dj = kjj;
+            // The sums run in the order of a dense factor (ascending r): the terms outside
+            // the band are zero and leave every sum as it is.
+            for c in j.saturating_sub(BAND)..j {
+                let mut g = k[j * n + c];
+                for r in j.saturating_sub(BAND)..c {
+                    g -= l[j][r + BAND - j] * l[c][r + BAND - c] * d[r];
+                }
+                l[j][c + BAND - j] = g / d[c];
             }
-            let floor = PIVOT_TOL * k[(j, j)].abs();
-            if d.is_nan()
+            for c in j.saturating_sub(BAND)..j {
+                let v = l[j][c + BAND - j];
+                dj -= v * v * d[c];
+            }
+            let floor = PIVOT_TOL * kjj.abs();
+            if dj.is_nan()
                 || (if indefinite {
-                    d.abs() <= floor
+                    dj.abs() <= floor
                 } else {
-                    d <= floor
+                    dj <= floor
                 })
             {
                 return Err(j);
             }
-            negative += usize::from(d < 0.0);
-            a[j * n + j] = d;
-            for i in j + 1..n {
-                let mut g = a[i * n + j];
-                for r in 0..j {
-                    g -= a[i * n + r] * a[j * n + r] * a[r * n + r];
-                }
-                a[i * n + j] = g / d;
-            }
+            negative += usize::from(dj < 0.0);
+            d[j] = dj;
         }
-        Ok((DenseLdl { n, a }, negative))
+        Ok((DenseLdl { l, d }, negative))
     }
 
-    /// Solve `K·x = b` in place.
+    /// Solve `K·x = b` in place. Each sum runs over the band in ascending order, as a dense
+    /// solve would (its other terms are zero), on a copy of `b` with [`BAND`] zeros on
+    /// either side so that every row has a full band.
     fn solve(&self, b: &mut [f64]) {
-        let (n, a) = (self.n, &self.a);
-        for i in 0..n {
-            let s: f64 = (0..i).map(|r| a[i * n + r] * b[r]).sum();
-            b[i] -= s;
+        let n = self.d.len();
+        let mut stack = [0.0; 48];
+        let mut heap = Vec::new();
+        let y: &mut [f64] = if n + 2 * BAND <= stack.len() {
+            &mut stack[..n + 2 * BAND]
+        } else {
+            heap.resize(n + 2 * BAND, 0.0);
+            &mut heap
+        };
+        y[BAND..BAND + n].copy_from_slice(b);
+        // Row i of L holds columns i − BAND .. i − 1, at y[i .. i + BAND].
+        for (i, row) in self.l.iter().enumerate() {
+            let mut s = 0.0;
+            for (l, x) in row.iter().zip(&y[i..i + BAND]) {
+                s += l * x;
+            }
+            y[BAND + i] -= s;
         }
-        for i in 0..n {
-            b[i] /= a[i * n + i];
+        for (x, d) in y[BAND..BAND + n].iter_mut().zip(&self.d) {
+            *x /= d;
+        }
+        // Column i of L below the diagonal: L[i + k][i] = l[i + k][BAND − k], k = 1..=BAND.
+        for i in (0..n).rev() {
+            let below = &self.l[i + 1..n.min(i + 1 + BAND)];
+            let mut s = 0.0;
+            for (k, (row, x)) in below.iter().zip(&y[BAND + i + 1..]).enumerate() {
+                s += row[BAND - 1 - k] * x;
+            }
+            y[BAND + i] -= s;
+        }
+        b.copy_from_slice(&y[BAND..BAND + n]);
+    }
+
+    /// Solve `K·X = B` in place for the six columns of `b` (row-major, `n` × 6): for each
+    /// column the same sums in the same order as [`Self::solve`], in one pass over the band.
+    /// `pad` is scratch space.
+    fn solve_columns(&self, b: &mut [f64], pad: &mut Vec<f64>) {
+        let n = self.d.len();
+        pad.clear();
+        pad.resize((n + 2 * BAND) * 6, 0.0);
+        let y = &mut pad[..];
+        y[BAND * 6..(BAND + n) * 6].copy_from_slice(b);
+        for (i, row) in self.l.iter().enumerate() {
+            let mut s = [0.0; 6];
+            for (k, l) in row.iter().enumerate() {
+                let x = &y[(i + k) * 6..(i + k) * 6 + 6];
+                for c in 0..6 {
+                    s[c] += l * x[c];
+                }
+            }
+            let t = &mut y[(BAND + i) * 6..(BAND + i) * 6 + 6];
+            for c in 0..6 {
+                t[c] -= s[c];
+            }
+        }
+        for (i, d) in self.d.iter().enumerate() {
+            for x in &mut y[(BAND + i) * 6..(BAND + i) * 6 + 6] {
+                *x /= d;
+            }
         }
         for i in (0..n).rev() {
-            let s: f64 = (i + 1..n).map(|r| a[r * n + i] * b[r]).sum();
-            b[i] -= s;
+            let below = &self.l[i + 1..n.min(i + 1 + BAND)];
+            let mut s = [0.0; 6];
+            for (k, row) in below.iter().enumerate() {
+                let l = row[BAND - 1 - k];
+                let x = &y[(BAND + i + 1 + k) * 6..(BAND + i + 2 + k) * 6];
+                for c in 0..6 {
+                    s[c] += l * x[c];
+                }
+            }
+            let t = &mut y[(BAND + i) * 6..(BAND + i) * 6 + 6];
+            for c in 0..6 {
+                t[c] -= s[c];
+            }
         }
+        b.copy_from_slice(&y[BAND * 6..(BAND + n) * 6]);
     }
 }
 
 /// The interior nodes of one member, condensed out (member-local axes).
 #[derive(Debug, Clone)]
 struct MemberBlock {
-    /// Interior mesh nodes, from end i.
-    interior: Vec<usize>,
     /// `K_ii`, factored.
     k_ii: DenseLdl,
-    /// `W = K_ii⁻¹·K_ie` (3·interior × 6).
-    w: DMatrix<f64>,
+    /// `W = K_ii⁻¹·K_ie` (3·interior × 6), row-major.
+    w: Vec<f64>,
 }
 
-/// Rotation of a node's `[ux, uy, θ]` from global to member-local axes.
-fn rotation(c: f64, s: f64) -> Matrix3<f64> {
-    Matrix3::new(c, s, 0.0, -s, c, 0.0, 0.0, 0.0, 1.0)
+/// `−Wᵀ·z` for `W` (row-major, `z.len()` × 6), each sum in the order of nalgebra's dot
+/// product (eight running sums over blocks of eight rows, combined pairwise, then the
+/// remaining rows), so that the condensed loads round as they always have.
+fn minus_w_transpose_times(w: &[f64], z: &[f64]) -> [f64; 6] {
+    let n = z.len();
+    let whole = n - n % 8;
+    let mut acc = [[0.0f64; 8]; 6];
+    for i in (0..whole).step_by(8) {
+        for k in 0..8 {
+            let (zr, row) = (z[i + k], &w[(i + k) * 6..(i + k) * 6 + 6]);
+            for c in 0..6 {
+                acc[c][k] += row[c] * zr;
+            }
+        }
+    }
+    std::array::from_fn(|c| {
+        let a = &acc[c];
+        let mut res = 0.0;
+        res += a[0] + a[4];
+        res += a[1] + a[5];
+        res += a[2] + a[6];
+        res += a[3] + a[7];
+        for r in whole..n {
+            res += w[r * 6 + c] * z[r];
+        }
+        -res
+    })
+}
+
+/// Global `[x, y]` to member-local `[axial, transverse]` for direction cosines (c, s).
+fn to_local(c: f64, s: f64, g: [f64; 3]) -> [f64; 3] {
+    [c * g[0] + s * g[1], -s * g[0] + c * g[1], g[2]]
+}
+
+/// Member-local `[axial, transverse]` to global `[x, y]` for direction cosines (c, s).
+fn to_global(c: f64, s: f64, l: [f64; 3]) -> [f64; 3] {
+    [c * l[0] - s * l[1], s * l[0] + c * l[1], l[2]]
+}
+
+/// The interior mesh nodes of member `m`, from end i.
+fn interior_nodes(mesh: &Mesh, m: usize) -> impl Iterator<Item = usize> + '_ {
+    let range = mesh.member_elements[m].clone();
+    range.skip(1).map(|ie| mesh.elements[ie].i)
 }
 
 /// The segmented stiffness (elastic, plus geometric for given element axial forces) with
@@ -223,6 +345,8 @@ fn condense_members(
     let mut blocks = Vec::with_capacity(mesh.member_elements.len());
     let mut condensed = Vec::with_capacity(mesh.member_elements.len());
     let mut negative = 0;
+    // Scratch space, reused member after member.
+    let (mut k_ii, mut k_ie, mut pad) = (Vec::new(), Vec::new(), Vec::new());
     for range in &mesh.member_elements {
         let first = &mesh.elements[range.start];
         let segments = range.len();
@@ -236,40 +360,65 @@ fn condense_members(
             condensed.push(t.transpose() * local(range.start) * t);
             continue;
         }
-        // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3.
-        let dim = 3 * (segments + 1);
-        let mut k = DMatrix::zeros(dim, dim);
+        // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3, the interior
+        // unknowns 3..3s (numbered from 0 in K_ii). The first element couples end i to the
+        // first interior node, the last the last interior node to end j.
+        let ni = 3 * (segments - 1);
+        k_ii.clear();
+        k_ii.resize(ni * ni, 0.0);
+        let mut k_ee = Matrix6::<f64>::zeros();
+        // K_ie: rows 0..3 couple to end i (columns 0..3), rows ni-3..ni to end j (3..6).
+        k_ie.clear();
+        k_ie.resize(ni * 6, 0.0);
         for (seg, ie) in range.clone().enumerate() {
             let kl = local(ie);
+            // Member DOF of each element DOF, as index into [end i | interior | end j].
+            let place = |r: usize| -> (bool, usize) {
+                let node = seg + r / 3;
+                if node == 0 {
+                    (false, r % 3)
+                } else if node == segments {
+                    (false, 3 + r % 3)
+                } else {
+                    (true, 3 * (node - 1) + r % 3)
+                }
+            };
             for r in 0..6 {
+                let (ri, pr) = place(r);
                 for c in 0..6 {
-                    k[(3 * seg + r, 3 * seg + c)] += kl[(r, c)];
+                    let (ci, pc) = place(c);
+                    let v = kl[(r, c)];
+                    match (ri, ci) {
+                        (true, true) => k_ii[pr * ni + pc] += v,
+                        (true, false) => k_ie[pr * 6 + pc] += v,
+                        (false, false) => k_ee[(pr, pc)] += v,
+                        (false, true) => {}
+                    }
                 }
             }
         }
-        let ext = [0, 1, 2, dim - 3, dim - 2, dim - 1];
-        let ni = dim - 6;
-        let k_ii = k.view((3, 3), (ni, ni)).into_owned();
-        let k_ie = DMatrix::from_fn(ni, 6, |r, c| k[(3 + r, ext[c])]);
-        let (k_ii, below) = DenseLdl::factor(&k_ii, indefinite)
+        let (factor, below) = DenseLdl::factor(&k_ii, ni, indefinite)
             .map_err(|j| (mesh.elements[range.start + j / 3].j, j % 3))?;
         negative += below;
+        // W = K_ii⁻¹·K_ie.
         let mut w = k_ie.clone();
-        for mut col in w.column_iter_mut() {
-            k_ii.solve(col.as_mut_slice());
+        factor.solve_columns(&mut w, &mut pad);
+        // K* = K_ee − K_ieᵀ·W: column c of K_ie (c < 3: end i, else end j) is zero but on
+        // the first (c < 3) or the last interior node, so three terms, summed in the order
+        // of the dense product (whose other terms are zero).
+        let mut k_star = k_ee;
+        for r in 0..6 {
+            let q0 = if r < 3 { 0 } else { ni - 3 };
+            for c in 0..6 {
+                let mut sum = 0.0;
+                for q in q0..q0 + 3 {
+                    sum += k_ie[q * 6 + r] * w[q * 6 + c];
+                }
+                k_star[(r, c)] -= sum;
+            }
         }
-        let k_ee = Matrix6::from_fn(|r, c| k[(ext[r], ext[c])]);
-        let k_star = k_ee - Matrix6::from_fn(|r, c| k_ie.column(r).dot(&w.column(c)));
         condensed.push(t.transpose() * k_star * t);
-        blocks.push(Some(MemberBlock {
-            interior: range
-                .clone()
-                .skip(1)
-                .map(|ie| mesh.elements[ie].i)
-                .collect(),
-            k_ii,
-            w,
-        }));
+        blocks.push(Some(MemberBlock { k_ii: factor, w }));
     }
     Ok(MemberParts {
         blocks,
@@ -353,37 +502,40 @@ impl Condensed {
                 }
             }
         }
-        // Interior loads: z = K_ii⁻¹·f_i, and −Wᵀ·f_i on the member ends.
-        let mut z_all: Vec<Option<DVector<f64>>> = Vec::with_capacity(self.blocks.len());
+        // Interior loads f_i (member-local): z = K_ii⁻¹·f_i, and −Wᵀ·f_i on the member
+        // ends. `z` holds every member's interior unknowns one after the other.
+        let mut start = Vec::with_capacity(self.blocks.len() + 1);
+        start.push(0);
+        for b in &self.blocks {
+            let ni = b.as_ref().map_or(0, |b| b.k_ii.n());
+            start.push(start.last().copied().unwrap_or(0) + ni);
+        }
+        let mut z = vec![0.0; start.last().copied().unwrap_or(0)];
+        let mut loaded = vec![false; self.blocks.len()];
         for (m, block) in self.blocks.iter().enumerate() {
-            let Some(b) = block else {
-                z_all.push(None);
-                continue;
-            };
+            let Some(b) = block else { continue };
             let e = &mesh.elements[mesh.member_elements[m].start];
-            let rot = rotation(e.c, e.s);
-            let mut z = DVector::zeros(3 * b.interior.len());
-            for (k, &node) in b.interior.iter().enumerate() {
-                let pl = rot * nalgebra::Vector3::from(p[node]);
-                z.rows_mut(3 * k, 3).copy_from(&pl);
+            let zm = &mut z[start[m]..start[m + 1]];
+            for (k, node) in interior_nodes(mesh, m).enumerate() {
+                zm[3 * k..3 * k + 3].copy_from_slice(&to_local(e.c, e.s, p[node]));
             }
-            if z.iter().any(|&v| v != 0.0) {
-                let on_ends = -b.w.tr_mul(&z);
-                let t = transformation(e.c, e.s);
-                let g = t.transpose() * Vector6::from_iterator(on_ends.iter().copied());
-                for (r, q) in element_equations(&so.dofs, &so.frame.elements[m])
-                    .iter()
-                    .enumerate()
-                {
-                    if let Some(q) = q {
-                        f[*q] += g[r];
-                    }
+            if zm.iter().all(|&v| v == 0.0) {
+                continue;
+            }
+            loaded[m] = true;
+            let on_ends = minus_w_transpose_times(&b.w, zm);
+            let gi = to_global(e.c, e.s, [on_ends[0], on_ends[1], on_ends[2]]);
+            let gj = to_global(e.c, e.s, [on_ends[3], on_ends[4], on_ends[5]]);
+            let g = [gi[0], gi[1], gi[2], gj[0], gj[1], gj[2]];
+            for (r, q) in element_equations(&so.dofs, &so.frame.elements[m])
+                .iter()
+                .enumerate()
+            {
+                if let Some(q) = q {
+                    f[*q] += g[r];
                 }
-                b.k_ii.solve(z.as_mut_slice());
-                z_all.push(Some(z));
-            } else {
-                z_all.push(None);
             }
+            b.k_ii.solve(zm);
         }
         self.factor.solve(&mut f);
         let mut u = vec![[0.0; 3]; mesh.nodes.len()];
@@ -393,20 +545,22 @@ impl Condensed {
             }
         }
         // Interior displacements: u_i = z − W·u_e.
-        for ((m, block), z) in self.blocks.iter().enumerate().zip(z_all) {
+        for (m, block) in self.blocks.iter().enumerate() {
             let Some(b) = block else { continue };
             let e = &mesh.elements[mesh.member_elements[m].start];
             let fe = &so.frame.elements[m];
-            let (a, c) = (u[fe.i], u[fe.j]);
-            let ue = transformation(e.c, e.s) * Vector6::new(a[0], a[1], a[2], c[0], c[1], c[2]);
-            let mut ui = -(&b.w * DVector::from_iterator(6, ue.iter().copied()));
-            if let Some(z) = z {
-                ui += z;
-            }
-            let back = rotation(e.c, e.s).transpose();
-            for (k, &node) in b.interior.iter().enumerate() {
-                let g = back * ui.fixed_rows::<3>(3 * k);
-                u[node] = [g[0], g[1], g[2]];
+            let (a, c) = (to_local(e.c, e.s, u[fe.i]), to_local(e.c, e.s, u[fe.j]));
+            let ue = [a[0], a[1], a[2], c[0], c[1], c[2]];
+            let zm = &z[start[m]..start[m + 1]];
+            for (k, node) in interior_nodes(mesh, m).enumerate() {
+                let mut ui = [0.0; 3];
+                for (d, v) in ui.iter_mut().enumerate() {
+                    let r = 3 * k + d;
+                    let wr = &b.w[r * 6..r * 6 + 6];
+                    let s: f64 = wr.iter().zip(&ue).map(|(w, x)| w * x).sum();
+                    *v = if loaded[m] { zm[r] - s } else { -s };
+                }
+                u[node] = to_global(e.c, e.s, ui);
             }
         }
         u
@@ -419,11 +573,12 @@ impl Condensed {
         so: &Layout,
         model: &Model,
         loads: &MeshLoads,
+        terms: &LoadTerms,
     ) -> Result<Response, SystemError> {
         let axial = self.axial.as_deref();
-        let p = equivalent_nodal_loads(model, mesh, &so.mesh_dofs, axial, loads)?;
+        let p = equivalent_nodal_loads_with(model, mesh, &so.mesh_dofs, axial, loads, terms)?;
         let u = self.solve_nodal(mesh, so, &p);
-        Ok(recover(mesh, &so.mesh_dofs, axial, loads, u))
+        Ok(recover_with(mesh, &so.mesh_dofs, axial, loads, terms, u))
     }
 }
 
@@ -466,7 +621,9 @@ impl SecondOrderModel {
 
     /// First-order response to `loads` on the segmented mesh.
     pub fn first_order(&self, model: &Model, loads: &MeshLoads) -> Result<Response, SystemError> {
-        self.elastic.respond(&self.mesh, &self.layout, model, loads)
+        let terms = LoadTerms::new(&self.mesh, loads);
+        self.elastic
+            .respond(&self.mesh, &self.layout, model, loads, &terms)
     }
 
     /// The stiffness with the geometric stiffness of element axial forces `axial`,
@@ -486,7 +643,10 @@ impl SecondOrderModel {
         model: &Model,
         loads: &MeshLoads,
     ) -> Result<SecondOrderOutcome, SystemError> {
-        let first = self.first_order(model, loads)?;
+        let terms = LoadTerms::new(&self.mesh, loads);
+        let first = self
+            .elastic
+            .respond(&self.mesh, &self.layout, model, loads, &terms)?;
         let mut axial = element_axial(&first);
         let mut previous = first.displacements.clone();
         for iteration in 1..=MAX_ITERATIONS {
@@ -505,7 +665,7 @@ impl SecondOrderModel {
                 }
                 Err(e) => return Err(e),
             };
-            let r = system.respond(&self.mesh, &self.layout, model, loads)?;
+            let r = system.respond(&self.mesh, &self.layout, model, loads, &terms)?;
             let scale = max_translation(&r.displacements).max(f64::MIN_POSITIVE);
             let change = r
                 .displacements

@@ -250,6 +250,35 @@ impl SkylineMatrix {
     /// The active-column reduction of [`Self::factor_with_tol`]; with `indefinite` a
     /// negative pivot is kept (and counted) instead of refused.
     fn eliminate(&self, tol: f64, indefinite: bool) -> Result<(SkylineFactor, usize), FactorError> {
+        #[cfg(target_arch = "x86_64")]
+        if std::arch::is_x86_feature_detected!("avx") {
+            // SAFETY: the processor has AVX (checked just above).
+            return unsafe { self.eliminate_avx(tol, indefinite) };
+        }
+        self.eliminate_with::<false>(tol, indefinite)
+    }
+
+    /// [`Self::eliminate`] with AVX: the four partial sums of [`dot`] fill one 256-bit
+    /// register, so every sum is added in the same order and the factor is the same to the
+    /// last bit.
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx")]
+    fn eliminate_avx(
+        &self,
+        tol: f64,
+        indefinite: bool,
+    ) -> Result<(SkylineFactor, usize), FactorError> {
+        self.eliminate_with::<true>(tol, indefinite)
+    }
+
+    /// The active-column reduction of [`Self::eliminate`]; `AVX` only where the processor
+    /// has it.
+    #[inline(always)]
+    fn eliminate_with<const AVX: bool>(
+        &self,
+        tol: f64,
+        indefinite: bool,
+    ) -> Result<(SkylineFactor, usize), FactorError> {
         let mut negative: usize = 0;
         let n: usize = self.n();
         let first_row: &[usize] = &self.first_row;
@@ -268,7 +297,7 @@ impl SkylineMatrix {
                 if m < i {
                     let l_col_i: &[f64] = &done[col_start[i] + m - fi..col_start[i] + i - fi];
                     let g_col_j: &[f64] = &column[m - fj..i - fj];
-                    column[i - fj] -= dot(l_col_i, g_col_j);
+                    column[i - fj] -= dot::<AVX>(l_col_i, g_col_j);
                 }
             }
 
@@ -312,7 +341,16 @@ impl SkylineMatrix {
 /// (terms k, k+4, k+8, … in each) so that the processor can overlap the additions: the
 /// factorization and the forward substitution spend most of their time here (issue 21).
 /// The order of the additions differs from a running sum only by round-off.
-fn dot(a: &[f64], b: &[f64]) -> f64 {
+///
+/// With `AVX` (only where the processor has it) the four partial sums are the four lanes of
+/// one 256-bit register: the same additions in the same order.
+#[inline(always)]
+fn dot<const AVX: bool>(a: &[f64], b: &[f64]) -> f64 {
+    #[cfg(target_arch = "x86_64")]
+    if AVX {
+        // SAFETY: `AVX` is set only where the processor has AVX.
+        return unsafe { dot_avx(a, b) };
+    }
     let n = a.len().min(b.len());
     let (a4, b4) = (a[..n].chunks_exact(4), b[..n].chunks_exact(4));
     let (ra, rb) = (a4.remainder(), b4.remainder());
@@ -324,6 +362,39 @@ fn dot(a: &[f64], b: &[f64]) -> f64 {
         s[3] += x[3] * y[3];
     }
     let tail: f64 = ra.iter().zip(rb).map(|(x, y)| x * y).sum();
+    (s[0] + s[1]) + (s[2] + s[3]) + tail
+}
+
+/// [`dot`] on AVX registers: lane k sums the terms k, k+4, k+8, … as `s[k]` does.
+///
+/// # Safety
+/// The processor must have AVX.
+#[cfg(target_arch = "x86_64")]
+#[inline(always)]
+unsafe fn dot_avx(a: &[f64], b: &[f64]) -> f64 {
+    use std::arch::x86_64::{
+        _mm256_add_pd, _mm256_loadu_pd, _mm256_mul_pd, _mm256_setzero_pd, _mm256_storeu_pd,
+    };
+    let n = a.len().min(b.len());
+    let whole = n - n % 4;
+    let mut s = [0.0f64; 4];
+    // SAFETY: every load reads four values at k < whole ≤ n of both slices.
+    unsafe {
+        let mut acc = _mm256_setzero_pd();
+        let mut k = 0;
+        while k < whole {
+            let x = _mm256_loadu_pd(a.as_ptr().add(k));
+            let y = _mm256_loadu_pd(b.as_ptr().add(k));
+            acc = _mm256_add_pd(acc, _mm256_mul_pd(x, y));
+            k += 4;
+        }
+        _mm256_storeu_pd(s.as_mut_ptr(), acc);
+    }
+    let tail: f64 = a[whole..n]
+        .iter()
+        .zip(&b[whole..n])
+        .map(|(x, y)| x * y)
+        .sum();
     (s[0] + s[1]) + (s[2] + s[3]) + tail
 }
 
@@ -346,12 +417,30 @@ impl SkylineFactor {
     /// If `b.len() != self.n()`.
     pub fn solve(&self, b: &mut [f64]) {
         assert_eq!(b.len(), self.n(), "solve: vector length ≠ matrix order");
+        #[cfg(target_arch = "x86_64")]
+        if std::arch::is_x86_feature_detected!("avx") {
+            // SAFETY: the processor has AVX (checked just above).
+            return unsafe { self.solve_avx(b) };
+        }
+        self.solve_with::<false>(b)
+    }
+
+    /// [`Self::solve`] with AVX (the same sums in the same order, see [`dot`]).
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx")]
+    fn solve_avx(&self, b: &mut [f64]) {
+        self.solve_with::<true>(b)
+    }
+
+    /// The substitutions of [`Self::solve`].
+    #[inline(always)]
+    fn solve_with<const AVX: bool>(&self, b: &mut [f64]) {
         let n: usize = self.n();
         // L·y = b: y_j = b_j − Σ l_rj y_r.
         for j in 0..n {
             let fj: usize = self.first_row[j];
             let l_col: &[f64] = &self.values[self.col_start[j]..self.col_start[j + 1] - 1];
-            b[j] -= dot(l_col, &b[fj..j]);
+            b[j] -= dot::<AVX>(l_col, &b[fj..j]);
         }
         // z = D⁻¹·y.
         for (j, bj) in b.iter_mut().enumerate() {
@@ -538,13 +627,19 @@ mod tests {
             let running: f64 = a.iter().zip(&b).map(|(x, y)| x * y).sum();
             let scale: f64 = a.iter().zip(&b).map(|(x, y)| (x * y).abs()).sum();
             assert!(
-                (dot(&a, &b) - running).abs() <= 1e-15 * scale.max(1.0),
+                (dot::<false>(&a, &b) - running).abs() <= 1e-15 * scale.max(1.0),
                 "n = {n}"
             );
             let ints: Vec<f64> = (0..n).map(|k| k as f64).collect();
             // closed form: Σ k² for k < n is (n − 1)·n·(2n − 1)/6.
             let sq = ((n as f64 - 1.0) * n as f64 * (2.0 * n as f64 - 1.0) / 6.0).max(0.0);
-            assert_eq!(dot(&ints, &ints), sq);
+            assert_eq!(dot::<false>(&ints, &ints), sq);
+            // The AVX lanes are the four partial sums: the same value to the last bit.
+            #[cfg(target_arch = "x86_64")]
+            if std::arch::is_x86_feature_detected!("avx") {
+                let lanes = unsafe { dot_avx(&a, &b) };
+                assert_eq!(lanes.to_bits(), dot::<false>(&a, &b).to_bits(), "n = {n}");
+            }
         }
     }
 
