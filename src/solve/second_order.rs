@@ -37,7 +37,7 @@ use super::mesh::{MemberStiffness, Mesh};
 use super::skyline::{PIVOT_TOL, SkylineFactor, SkylineMatrix};
 use super::system::{
     Direction, Dof, FreeDirection, Restraints, SystemError, assemble_with, element_equations,
-    element_matrices, factor_or_locate, number_dofs,
+    element_matrices, factor_owned_or_locate, number_dofs,
 };
 use crate::model::Model;
 
@@ -464,7 +464,7 @@ impl Condensed {
             }])
         })?;
         let matrix = assemble_with(&so.frame, &so.dofs, so.n, |m, _| parts.condensed[m]);
-        let factor = factor_or_locate(model, &so.frame, &so.dofs, &matrix, axial.is_some())?;
+        let factor = factor_owned_or_locate(model, &so.frame, &so.dofs, matrix, axial.is_some())?;
         Ok(Condensed {
             blocks: parts.blocks,
             factor,
@@ -481,7 +481,7 @@ impl Condensed {
         let parts = condense_members(mesh, Some(axial), true).ok()?;
         let matrix: SkylineMatrix =
             assemble_with(&so.frame, &so.dofs, so.n, |m, _| parts.condensed[m]);
-        let (_, frame) = matrix.factor_inertia().ok()?;
+        let (_, frame) = matrix.into_factor_inertia().ok()?;
         let released: usize = mesh
             .elements
             .iter()

@@ -247,9 +247,29 @@ impl SkylineMatrix {
         self.eliminate(PIVOT_TOL, true)
     }
 
+    /// [`Self::factor`], in the matrix's own storage (no copy of it is made).
+    pub fn into_factor(self) -> Result<SkylineFactor, FactorError> {
+        self.into_eliminated(PIVOT_TOL, false)
+            .map(|(factor, _)| factor)
+    }
+
+    /// [`Self::factor_inertia`], in the matrix's own storage.
+    pub fn into_factor_inertia(self) -> Result<(SkylineFactor, usize), FactorError> {
+        self.into_eliminated(PIVOT_TOL, true)
+    }
+
     /// The active-column reduction of [`Self::factor_with_tol`]; with `indefinite` a
     /// negative pivot is kept (and counted) instead of refused.
     fn eliminate(&self, tol: f64, indefinite: bool) -> Result<(SkylineFactor, usize), FactorError> {
+        self.clone().into_eliminated(tol, indefinite)
+    }
+
+    /// [`Self::eliminate`] in place.
+    fn into_eliminated(
+        self,
+        tol: f64,
+        indefinite: bool,
+    ) -> Result<(SkylineFactor, usize), FactorError> {
         #[cfg(target_arch = "x86_64")]
         if std::arch::is_x86_feature_detected!("avx") {
             // SAFETY: the processor has AVX (checked just above).
@@ -264,7 +284,7 @@ impl SkylineMatrix {
     #[cfg(target_arch = "x86_64")]
     #[target_feature(enable = "avx")]
     fn eliminate_avx(
-        &self,
+        self,
         tol: f64,
         indefinite: bool,
     ) -> Result<(SkylineFactor, usize), FactorError> {
@@ -275,15 +295,17 @@ impl SkylineMatrix {
     /// has it.
     #[inline(always)]
     fn eliminate_with<const AVX: bool>(
-        &self,
+        self,
         tol: f64,
         indefinite: bool,
     ) -> Result<(SkylineFactor, usize), FactorError> {
         let mut negative: usize = 0;
         let n: usize = self.n();
-        let first_row: &[usize] = &self.first_row;
-        let col_start: &[usize] = &self.col_start;
-        let mut a: Vec<f64> = self.values.clone();
+        let SkylineMatrix {
+            first_row,
+            col_start,
+            values: mut a,
+        } = self;
 
         for j in 0..n {
             let fj: usize = first_row[j];
@@ -329,8 +351,8 @@ impl SkylineMatrix {
             diag[0] = d_j;
         }
         let factor = SkylineFactor {
-            first_row: first_row.to_vec(),
-            col_start: col_start.to_vec(),
+            first_row,
+            col_start,
             values: a,
         };
         Ok((factor, negative))

@@ -269,14 +269,40 @@ pub fn factor_or_locate(
     matrix: &SkylineMatrix,
     geometric: bool,
 ) -> Result<SkylineFactor, SystemError> {
-    matrix.factor().map_err(|err| {
-        let free = locate_free(mesh, model, dofs, matrix.n(), geometric, err);
-        if geometric {
-            SystemError::Unstable(free)
-        } else {
-            SystemError::Mechanism(free)
-        }
-    })
+    matrix
+        .factor()
+        .map_err(|err| located(model, mesh, dofs, matrix.n(), geometric, err))
+}
+
+/// [`factor_or_locate`] in the matrix's own storage (no copy of it is made).
+pub fn factor_owned_or_locate(
+    model: &Model,
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    matrix: SkylineMatrix,
+    geometric: bool,
+) -> Result<SkylineFactor, SystemError> {
+    let n = matrix.n();
+    matrix
+        .into_factor()
+        .map_err(|err| located(model, mesh, dofs, n, geometric, err))
+}
+
+/// The error of a failed factorization of `n` equations, with the directions free to move.
+fn located(
+    model: &Model,
+    mesh: &Mesh,
+    dofs: &[[Dof; 3]],
+    n: usize,
+    geometric: bool,
+    err: FactorError,
+) -> SystemError {
+    let free = locate_free(mesh, model, dofs, n, geometric, err);
+    if geometric {
+        SystemError::Unstable(free)
+    } else {
+        SystemError::Mechanism(free)
+    }
 }
 
 /// After a failed factorization, find the directions free to move: the near-null vector of
