@@ -34,10 +34,7 @@ fn handoff_section(out: &mut String, s: &Summary) {
         .collect();
     out.push_str("<figure>");
     out.push_str(&super::svg_forces::drawing(
-        s.model,
-        s.envelope,
-        &shown,
-        WIDTH,
+        s.model, s.envelope, &shown, WIDTH,
     ));
     out.push_str(&format!(
         "<figcaption>Factored support reactions under each support, largest / smallest over \
