@@ -386,7 +386,7 @@ pub fn approximate(
 /// Story shears (N, +X) of the gravity sway of every story: the reverse of the sum of the
 /// no-sway column shears `(Mz_i + Mz_j)/L` (end actions `mz`, so internal `M(0) = −Mz_i`,
 /// `M(L) = Mz_j` and `V = (M(L) − M(0))/L` is the force the level above applies in +X, as in
-/// [`portal`]); nil in a braced story, whose brace holds it. Statics: the no-sway state plus
+/// the portal method); nil in a braced story, whose brace holds it. Statics: the no-sway state plus
 /// this sway carries no net story shear under gravity alone.
 pub fn gravity_sway_shears(model: &Model, stories: &[Story], mz: &[[f64; 2]]) -> Vec<f64> {
     stories
