@@ -31,6 +31,8 @@
 //! Peak memory is the process's resident high-water mark (`VmHWM` in `/proc/self/status`,
 //! Linux); elsewhere it prints as 0.
 
+mod common;
+
 use std::process::Command;
 use std::time::Instant;
 
@@ -46,70 +48,9 @@ use plumbline::solve::mesh::member_stiffness;
 use plumbline::solve::modes::SwaySearch;
 use plumbline::solve::second_order::SecondOrderModel;
 
-/// The model file of an invented `bays` × `stories` frame (illustrative sections).
+/// The model file of the bench frame (`benches/common`).
 fn model_text(bays: usize, stories: usize) -> String {
-    let list = |n: usize, v: f64| vec![format!("{v}"); n].join(", ");
-    format!(
-        r#"title = "bench frame {bays} x {stories}"
-units = "kN-m"
-[[material]]
-id = "S"
-E = "200 GPa"
-unit_weight = "77 kN/m^3"
-[[section]]
-id = "COL"
-A = "20000 mm^2"
-I = "4.0e8 mm^4"
-role = "column"
-[[section]]
-id = "BM"
-A = "10000 mm^2"
-I = "5.0e8 mm^4"
-role = "beam"
-[frame]
-bays = [{}]
-stories = [{}]
-base = "fixed"
-material = "S"
-columns = ["COL"]
-beams = ["BM"]
-[[case]]
-id = "D"
-category = "dead"
-self_weight = true
-[[case.member_load]]
-members = "B*"
-kind = "uniform"
-direction = "{down}"
-w = 20
-[[case]]
-id = "L"
-category = "live"
-[[case.member_load]]
-members = "B*"
-kind = "uniform"
-direction = "{down}"
-w = 10
-[[case]]
-id = "WL"
-category = "wind"
-alternative = "wind"
-[[case.node_load]]
-nodes = "N1.*"
-fx = 10
-[[case]]
-id = "WR"
-category = "wind"
-alternative = "wind"
-[[case.node_load]]
-nodes = "N{}.*"
-fx = -10
-"#,
-        list(bays, 8.0),
-        list(stories, 4.0),
-        bays + 1,
-        down = DOWN,
-    )
+    common::frame_text("bench frame", bays, stories, false)
 }
 
 /// The whole check before this bench's work (commit 8387666): frame, members, median
@@ -120,9 +61,6 @@ const BEFORE: [(&str, usize, &str, &str, &str); 4] = [
     ("20 x 100", 4100, "42863", "8155", "235"),
     ("1 x 2000", 6000, "133778", "-", "1277"),
 ];
-
-/// The member-load direction key for gravity loads (renamed by issue 10 item 6).
-const DOWN: &str = "down";
 
 /// The model and its factored cases under the shipped ASCE/SEI 7-16 strength table.
 /// A model over the documented size limits (`plumbline::limits`) is an error, not a panic.

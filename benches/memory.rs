@@ -16,6 +16,8 @@
 //!
 //! Peak resident memory is `VmHWM` in `/proc/self/status` (Linux); elsewhere it prints as 0.
 
+mod common;
+
 use std::alloc::{GlobalAlloc, Layout, System};
 use std::process::Command;
 use std::sync::atomic::{AtomicUsize, Ordering};
@@ -88,74 +90,11 @@ fn stage<T>(name: &str, f: impl FnOnce() -> T) -> T {
     out
 }
 
-/// The model file of an invented `bays` × `stories` frame (illustrative sections), with
-/// its table and method: the frame of `benches/check.rs`.
+/// The model file of the frame of `benches/check.rs` (`benches/common`), with its table
+/// and method.
 fn model_text(bays: usize, stories: usize) -> String {
-    let list = |n: usize, v: f64| vec![format!("{v}"); n].join(", ");
-    format!(
-        r#"title = "bench frame {bays} x {stories}"
-units = "kN-m"
-[[material]]
-id = "S"
-E = "200 GPa"
-unit_weight = "77 kN/m^3"
-[[section]]
-id = "COL"
-A = "20000 mm^2"
-I = "4.0e8 mm^4"
-role = "column"
-[[section]]
-id = "BM"
-A = "10000 mm^2"
-I = "5.0e8 mm^4"
-role = "beam"
-[frame]
-bays = [{}]
-stories = [{}]
-base = "fixed"
-material = "S"
-columns = ["COL"]
-beams = ["BM"]
-[[case]]
-id = "D"
-category = "dead"
-self_weight = true
-[[case.member_load]]
-members = "B*"
-kind = "uniform"
-direction = "down"
-w = 20
-[[case]]
-id = "L"
-category = "live"
-[[case.member_load]]
-members = "B*"
-kind = "uniform"
-direction = "down"
-w = 10
-[[case]]
-id = "WL"
-category = "wind"
-alternative = "wind"
-[[case.node_load]]
-nodes = "N1.*"
-fx = 10
-[[case]]
-id = "WR"
-category = "wind"
-alternative = "wind"
-[[case.node_load]]
-nodes = "N{}.*"
-fx = -10
-[combinations]
-table = "asce7-16-strength"
-[analysis]
-method = "aisc-b1b2"
-"#,
-        list(bays, 8.0),
-        list(stories, 4.0),
-        bays + 1,
-    )
+    common::frame_text("bench frame", bays, stories, false)
+        + "[combinations]\ntable = \"asce7-16-strength\"\n[analysis]\nmethod = \"aisc-b1b2\"\n"
 }
 
 /// Write a frame's model file into a temporary directory of its own; its path.

@@ -9,6 +9,8 @@
 //! check's time, and how far the code mode's envelope falls short of the exact one.
 //! Timings are printed, never asserted.
 
+mod common;
+
 use std::time::Instant;
 
 use plumbline::arrange::{arrange, arrange_model, exact};
@@ -18,70 +20,9 @@ use plumbline::envelope::{Envelope, envelope};
 use plumbline::input::parse_model;
 use plumbline::model::{LivePatterns, Model};
 
-/// The model file of an invented `bays` × `stories` frame with arranged live load.
+/// The model file of the bench frame (`benches/common`) with arranged live load.
 fn model_text(bays: usize, stories: usize) -> String {
-    let list = |n: usize, v: f64| vec![format!("{v}"); n].join(", ");
-    format!(
-        r#"title = "pattern bench frame {bays} x {stories}"
-units = "kN-m"
-[[material]]
-id = "S"
-E = "200 GPa"
-unit_weight = "77 kN/m^3"
-[[section]]
-id = "COL"
-A = "20000 mm^2"
-I = "4.0e8 mm^4"
-role = "column"
-[[section]]
-id = "BM"
-A = "10000 mm^2"
-I = "5.0e8 mm^4"
-role = "beam"
-[frame]
-bays = [{}]
-stories = [{}]
-base = "fixed"
-material = "S"
-columns = ["COL"]
-beams = ["BM"]
-[[case]]
-id = "D"
-category = "dead"
-self_weight = true
-[[case.member_load]]
-members = "B*"
-kind = "uniform"
-direction = "down"
-w = 20
-[[case]]
-id = "L"
-category = "live"
-arrange = true
-[[case.member_load]]
-members = "B*"
-kind = "uniform"
-direction = "down"
-w = 10
-[[case]]
-id = "WL"
-category = "wind"
-alternative = "wind"
-[[case.node_load]]
-nodes = "N1.*"
-fx = 10
-[[case]]
-id = "WR"
-category = "wind"
-alternative = "wind"
-[[case.node_load]]
-nodes = "N{}.*"
-fx = -10
-"#,
-        list(bays, 8.0),
-        list(stories, 4.0),
-        bays + 1,
-    )
+    common::frame_text("pattern bench frame", bays, stories, true)
 }
 
 /// Figures of one mode.

@@ -4,6 +4,8 @@
 //! must be exactly those of a run that keeps every case's results, and of the envelope
 //! formed afterwards from the whole report (`envelope::envelope`). No engineering figure
 //! is new here: the check is that two bookkeepings of the same figures agree, bit for bit.
+//! Source: closed form (an identity: the same figures enveloped two ways are equal); no
+//! external value is compared, so nothing here enters the verification record.
 
 use std::path::{Path, PathBuf};
 
