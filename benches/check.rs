@@ -33,6 +33,13 @@
 
 mod common;
 
+use common::peak_mb;
+
+/// CPU time of this process so far, ms ([`common::cpu_s`]).
+fn cpu_ms() -> f64 {
+    common::cpu_s() * 1e3
+}
+
 use std::process::Command;
 use std::time::Instant;
 
@@ -183,35 +190,6 @@ fn buckling_header() {
         "frame            members  cases   lowest (ms)   sorted (ms)   ratio   first (ms)  \
          member  bound   modes"
     );
-}
-
-/// Peak resident memory of this process, MB (Linux `VmHWM`; 0 elsewhere).
-fn peak_mb() -> f64 {
-    std::fs::read_to_string("/proc/self/status")
-        .ok()
-        .and_then(|s| {
-            s.lines()
-                .find(|l| l.starts_with("VmHWM:"))
-                .and_then(|l| l.split_whitespace().nth(1))
-                .and_then(|v| v.parse::<f64>().ok())
-        })
-        .map_or(0.0, |kb| kb / 1024.0)
-}
-
-/// CPU time (user + system) of this process so far, ms (Linux `/proc/self/stat`, 100
-/// ticks per second; 0 elsewhere). On a shared machine it is steadier than the wall clock.
-fn cpu_ms() -> f64 {
-    std::fs::read_to_string("/proc/self/stat")
-        .ok()
-        .and_then(|s| {
-            // Fields after the command name (which ends with ')'): utime is the 12th and
-            // stime the 13th of them.
-            let rest = s.rsplit_once(')')?.1;
-            let f: Vec<&str> = rest.split_whitespace().collect();
-            let ticks = f.get(11)?.parse::<f64>().ok()? + f.get(12)?.parse::<f64>().ok()?;
-            Some(ticks * 10.0)
-        })
-        .unwrap_or(0.0)
 }
 
 /// One run of one frame: prints `members cases checked time_ms peak_mb cpu_ms`.

@@ -106,33 +106,6 @@ fn model_file(bays: usize, stories: usize) -> std::path::PathBuf {
     path
 }
 
-/// Peak resident memory of this process, MB (Linux `VmHWM`; 0 elsewhere).
-fn peak_rss_mb() -> f64 {
-    std::fs::read_to_string("/proc/self/status")
-        .ok()
-        .and_then(|s| {
-            s.lines()
-                .find(|l| l.starts_with("VmHWM:"))
-                .and_then(|l| l.split_whitespace().nth(1))
-                .and_then(|v| v.parse::<f64>().ok())
-        })
-        .map_or(0.0, |kb| kb / 1024.0)
-}
-
-/// CPU time (user + system) of this process so far, s (Linux `/proc/self/stat`, 100
-/// ticks per second; 0 elsewhere).
-fn cpu_s() -> f64 {
-    std::fs::read_to_string("/proc/self/stat")
-        .ok()
-        .and_then(|s| {
-            let rest = s.rsplit_once(')')?.1;
-            let f: Vec<&str> = rest.split_whitespace().collect();
-            let ticks = f.get(11)?.parse::<f64>().ok()? + f.get(12)?.parse::<f64>().ok()?;
-            Some(ticks / 100.0)
-        })
-        .unwrap_or(0.0)
-}
-
 /// One child run of the whole default command: prints `peak_mb cpu_s wall_s`.
 fn run_command(bays: usize, stories: usize) {
     let model = model_file(bays, stories);
@@ -146,7 +119,7 @@ fn run_command(bays: usize, stories: usize) {
     let wall = t.elapsed().as_secs_f64();
     let _ = std::fs::remove_dir_all(model.parent().expect("in a directory"));
     match result {
-        Ok(_) => println!("{:.1} {:.2} {wall:.2}", peak_rss_mb(), cpu_s()),
+        Ok(_) => println!("{:.1} {:.2} {wall:.2}", common::peak_mb(), common::cpu_s()),
         Err(e) => println!("ERR {e}"),
     }
 }

@@ -7,23 +7,15 @@
 //! Source: closed form (an identity: the same figures enveloped two ways are equal); no
 //! external value is compared, so nothing here enters the verification record.
 
-use std::path::{Path, PathBuf};
+mod common;
+
+use common::examples;
+
+use std::path::Path;
 
 use plumbline::app::{CheckArgs, render_check, run_check, run_check_keeping};
 use plumbline::model::SecondOrderMethod;
 use plumbline::report::CheckFormat;
-
-fn examples() -> Vec<PathBuf> {
-    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples");
-    let mut v: Vec<PathBuf> = std::fs::read_dir(dir)
-        .unwrap()
-        .map(|e| e.unwrap().path())
-        .filter(|p| p.extension().is_some_and(|x| x == "toml"))
-        .collect();
-    v.sort();
-    assert!(v.len() >= 3);
-    v
-}
 
 const METHODS: [Option<SecondOrderMethod>; 5] = [
     None,

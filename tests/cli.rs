@@ -8,6 +8,7 @@
 
 mod common;
 
+use common::examples;
 use common::verify;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output, Stdio};
@@ -66,18 +67,6 @@ fn scratch(name: &str) -> PathBuf {
     let _ = std::fs::remove_dir_all(&d);
     std::fs::create_dir_all(&d).unwrap();
     d
-}
-
-/// The example model files, sorted.
-fn examples() -> Vec<PathBuf> {
-    let mut v: Vec<PathBuf> = std::fs::read_dir(Path::new(ROOT).join("examples"))
-        .unwrap()
-        .map(|e| e.unwrap().path())
-        .filter(|p| p.extension().is_some_and(|x| x == "toml"))
-        .collect();
-    v.sort();
-    assert!(v.len() >= 3, "issue #2 asks for at least three examples");
-    v
 }
 
 const OFFICE: &str = "examples/office-3story.toml";

@@ -5,24 +5,15 @@
 
 mod common;
 
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
+use common::examples;
 use common::random_frame::RandomFrame;
 use common::verify;
 use plumbline::app::{CheckArgs, VariantSpec, parse_variant, run_check, run_compare};
 use plumbline::compare::{Comparison, Quantity, VariantRun, compare};
 use plumbline::envelope::{Envelope, Location, envelope};
 use plumbline::model::SecondOrderMethod;
-
-fn examples() -> Vec<PathBuf> {
-    let mut v: Vec<PathBuf> = std::fs::read_dir("examples")
-        .unwrap()
-        .map(|e| e.unwrap().path())
-        .filter(|p| p.extension().is_some_and(|e| e == "toml"))
-        .collect();
-    v.sort();
-    v
-}
 
 fn spec(s: &str, n: usize) -> VariantSpec {
     parse_variant(s, n).unwrap()

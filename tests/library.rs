@@ -7,23 +7,12 @@
 
 mod common;
 
+use common::examples;
 use common::verify;
-use std::path::{Path, PathBuf};
+use std::path::Path;
 
 use plumbline::app::{CheckArgs, run_check};
 use plumbline::{ActionCategory, Check, Error, FrameBuilder, LoadLevel, SecondOrderMethod};
-
-fn examples() -> Vec<PathBuf> {
-    let dir = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples");
-    let mut v: Vec<PathBuf> = std::fs::read_dir(dir)
-        .unwrap()
-        .map(|e| e.unwrap().path())
-        .filter(|p| p.extension().is_some_and(|x| x == "toml"))
-        .collect();
-    v.sort();
-    assert!(v.len() >= 3);
-    v
-}
 
 /// `check_file` gives every example the cases, member envelopes and story envelopes of
 /// `plumbline check` (the strength half of `app::run_check`).

@@ -2,6 +2,37 @@
 //! `bays` bays of 8 m and `stories` storeys of 4 m, fixed bases, steel columns and beams,
 //! dead load (self-weight plus 20 kN/m on every beam), live load 10 kN/m on every beam,
 //! and wind of 10 kN at every level from the left (WL) or the right (WR).
+//! Also the process's own CPU time and peak memory, for the benches that print them.
+#![allow(dead_code)]
+
+/// Peak resident memory of this process, MB (Linux `VmHWM`; 0 elsewhere).
+pub fn peak_mb() -> f64 {
+    std::fs::read_to_string("/proc/self/status")
+        .ok()
+        .and_then(|s| {
+            s.lines()
+                .find(|l| l.starts_with("VmHWM:"))
+                .and_then(|l| l.split_whitespace().nth(1))
+                .and_then(|v| v.parse::<f64>().ok())
+        })
+        .map_or(0.0, |kb| kb / 1024.0)
+}
+
+/// CPU time (user + system) of this process so far, s (Linux `/proc/self/stat`, 100
+/// ticks per second; 0 elsewhere). On a shared machine it is steadier than the wall clock.
+pub fn cpu_s() -> f64 {
+    std::fs::read_to_string("/proc/self/stat")
+        .ok()
+        .and_then(|s| {
+            // Fields after the command name (which ends with ')'): utime is the 12th and
+            // stime the 13th of them.
+            let rest = s.rsplit_once(')')?.1;
+            let f: Vec<&str> = rest.split_whitespace().collect();
+            let ticks = f.get(11)?.parse::<f64>().ok()? + f.get(12)?.parse::<f64>().ok()?;
+            Some(ticks / 100.0)
+        })
+        .unwrap_or(0.0)
+}
 
 /// The model file of the bench frame titled `title`; with `arrange`, its live load is
 /// arranged span by span (`arrange = true`).
