@@ -51,7 +51,13 @@ impl MeshLoads {
         let last = &mesh.elements[range.end - 1];
         cuts.push(last.x0 + last.length);
         for (ie, parts) in range.zip(split_loads(&[load], &cuts)) {
-            self.element[ie].extend(parts);
+            // Most elements carry one or two loads: the first load sizes the list exactly
+            // (rather than for four), later ones grow it as usual.
+            let list = &mut self.element[ie];
+            if list.is_empty() {
+                list.reserve_exact(parts.len());
+            }
+            list.extend(parts);
         }
     }
 

@@ -24,7 +24,8 @@
 //! factorization of `K + α·K_G` fails, estimated by shifted inverse iteration and confirmed
 //! by factorization.
 
-use std::sync::OnceLock;
+use std::collections::HashMap;
+use std::sync::{Arc, OnceLock};
 
 use nalgebra::{DMatrix, DVector, Matrix3, Matrix6, Vector6};
 use serde::Serialize;
@@ -59,7 +60,7 @@ pub struct SecondOrderModel {
     /// The elastic stiffness (no geometric stiffness), condensed and factored.
     elastic: Condensed,
     /// Elastic stiffness of each element in global axes (releases condensed).
-    element_k: Vec<Matrix6<f64>>,
+    element_k: ElementStiffness,
     /// Elements per member.
     segments: usize,
     /// The nested mesh with `2·segments` elements per member, for the mesh error of the
@@ -79,6 +80,54 @@ struct Layout {
     /// DOFs of every mesh node as the segmented system would number them (support, spring,
     /// free or idle; the numbers only seed the inverse iterations).
     mesh_dofs: Vec<[Dof; 3]>,
+}
+
+/// The elastic stiffness of every element of a mesh in global axes (releases condensed),
+/// each distinct matrix stored once. The elements of a member are alike but for a released
+/// end, so a member holds one to three matrices rather than one per element: the same
+/// numbers, from the same arithmetic, in a fraction of the memory.
+#[derive(Debug, Clone)]
+struct ElementStiffness {
+    /// The distinct matrices.
+    unique: Vec<Matrix6<f64>>,
+    /// Per element, its matrix in `unique`.
+    of: Vec<u32>,
+}
+
+impl ElementStiffness {
+    fn new(mesh: &Mesh) -> ElementStiffness {
+        // What an element's matrix depends on: section, length, direction and releases.
+        let key = |e: &super::mesh::Element| {
+            (
+                [e.ea, e.ei, e.length, e.c, e.s].map(f64::to_bits),
+                e.release,
+            )
+        };
+        let mut unique: Vec<Matrix6<f64>> = Vec::new();
+        let mut of = Vec::with_capacity(mesh.elements.len());
+        let mut last = None;
+        for e in &mesh.elements {
+            let k = key(e);
+            if last.as_ref() != Some(&k) {
+                let (kl, _) = element_matrices(e, None, &Vector6::zeros());
+                let t = transformation(e.c, e.s);
+                unique.push(t.transpose() * kl * t);
+                last = Some(k);
+            }
+            of.push((unique.len() - 1) as u32);
+        }
+        ElementStiffness { unique, of }
+    }
+
+    /// The matrix of element `ie`.
+    fn get(&self, ie: usize) -> &Matrix6<f64> {
+        &self.unique[self.of[ie] as usize]
+    }
+
+    /// The matrix of every element, in order.
+    fn iter(&self) -> impl Iterator<Item = &Matrix6<f64>> + '_ {
+        self.of.iter().map(|&k| &self.unique[k as usize])
+    }
 }
 
 /// Outcome of a direct second-order analysis.
@@ -316,8 +365,8 @@ fn interior_nodes(mesh: &Mesh, m: usize) -> impl Iterator<Item = usize> + '_ {
 /// every member's interior nodes condensed out, factored.
 #[derive(Debug, Clone)]
 struct Condensed {
-    /// Per member (`None` for a member of one element).
-    blocks: Vec<Option<MemberBlock>>,
+    /// Per member (`None` for a member of one element); members alike share one.
+    blocks: Vec<Option<Arc<MemberBlock>>>,
     factor: SkylineFactor,
     /// Axial force per element of the geometric stiffness, N, tension positive.
     axial: Option<Vec<f64>>,
@@ -326,105 +375,162 @@ struct Condensed {
 /// The members of a segmented mesh with their interior nodes condensed out.
 struct MemberParts {
     /// Per member (`None` for a member of one element).
-    blocks: Vec<Option<MemberBlock>>,
+    blocks: Vec<Option<Arc<MemberBlock>>>,
     /// Per member, its condensed 6×6 stiffness in global axes.
     condensed: Vec<Matrix6<f64>>,
     /// Negative pivots of the `K_ii` blocks (counted only when indefinite).
     negative: usize,
 }
 
+/// One member with its interior nodes condensed out, in member-local axes: the factored
+/// interior block (`None` for a member of one element), the condensed 6×6 stiffness and the
+/// negative pivots of `K_ii`.
+type LocalParts = (Option<MemberBlock>, Matrix6<f64>, usize);
+
+/// What a member's elastic condensation depends on: per element, E·A, E·I and length (as
+/// bits) and its releases. Members alike in these share one condensation.
+type ElasticKey = Vec<([u64; 3], [bool; 2])>;
+
 /// Condense every member's interior nodes out of the segmented stiffness (elastic, plus the
 /// geometric stiffness of `axial`). With `indefinite`, a `K_ii` with negative pivots is
 /// kept and its negative pivots counted; otherwise it fails. `Err` names the mesh node and
 /// direction (0, 1, 2) of the failing pivot.
+///
+/// Without axial forces, members with the same section, length, segments and releases
+/// have the same interior block in their own axes: it is condensed once and shared (the
+/// same numbers from the same arithmetic), so a frame of repeated members keeps one block
+/// per kind of member.
 fn condense_members(
     mesh: &Mesh,
     axial: Option<&[f64]>,
     indefinite: bool,
 ) -> Result<MemberParts, (usize, usize)> {
-    let mut blocks = Vec::with_capacity(mesh.member_elements.len());
-    let mut condensed = Vec::with_capacity(mesh.member_elements.len());
+    let members = mesh.member_elements.len();
+    let mut blocks = Vec::with_capacity(members);
+    let mut condensed = Vec::with_capacity(members);
     let mut negative = 0;
-    // Scratch space, reused member after member.
-    let (mut k_ii, mut k_ie, mut pad) = (Vec::new(), Vec::new(), Vec::new());
+    let mut scratch = Scratch::default();
+    let mut shared: HashMap<ElasticKey, (Option<Arc<MemberBlock>>, Matrix6<f64>, usize)> =
+        HashMap::new();
     for range in &mesh.member_elements {
         let first = &mesh.elements[range.start];
-        let segments = range.len();
-        let local = |ie: usize| {
-            let zero = Vector6::zeros();
-            element_matrices(&mesh.elements[ie], axial.map(|a| a[ie]), &zero).0
-        };
         let t = transformation(first.c, first.s);
-        if segments == 1 {
-            blocks.push(None);
-            condensed.push(t.transpose() * local(range.start) * t);
-            continue;
-        }
-        // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3, the interior
-        // unknowns 3..3s (numbered from 0 in K_ii). The first element couples end i to the
-        // first interior node, the last the last interior node to end j.
-        let ni = 3 * (segments - 1);
-        k_ii.clear();
-        k_ii.resize(ni * ni, 0.0);
-        let mut k_ee = Matrix6::<f64>::zeros();
-        // K_ie: rows 0..3 couple to end i (columns 0..3), rows ni-3..ni to end j (3..6).
-        k_ie.clear();
-        k_ie.resize(ni * 6, 0.0);
-        for (seg, ie) in range.clone().enumerate() {
-            let kl = local(ie);
-            // Member DOF of each element DOF, as index into [end i | interior | end j].
-            let place = |r: usize| -> (bool, usize) {
-                let node = seg + r / 3;
-                if node == 0 {
-                    (false, r % 3)
-                } else if node == segments {
-                    (false, 3 + r % 3)
-                } else {
-                    (true, 3 * (node - 1) + r % 3)
+        let (block, k_star) = if axial.is_none() {
+            let key: ElasticKey = mesh.elements[range.clone()]
+                .iter()
+                .map(|e| ([e.ea, e.ei, e.length].map(f64::to_bits), e.release))
+                .collect();
+            let (block, k_star, below) = match shared.get(&key) {
+                Some(alike) => alike.clone(),
+                None => {
+                    let (block, k_star, below) =
+                        condense_member(mesh, range.clone(), None, indefinite, &mut scratch)?;
+                    let parts = (block.map(Arc::new), k_star, below);
+                    shared.insert(key, parts.clone());
+                    parts
                 }
             };
-            for r in 0..6 {
-                let (ri, pr) = place(r);
-                for c in 0..6 {
-                    let (ci, pc) = place(c);
-                    let v = kl[(r, c)];
-                    match (ri, ci) {
-                        (true, true) => k_ii[pr * ni + pc] += v,
-                        (true, false) => k_ie[pr * 6 + pc] += v,
-                        (false, false) => k_ee[(pr, pc)] += v,
-                        (false, true) => {}
-                    }
-                }
-            }
-        }
-        let (factor, below) = DenseLdl::factor(&k_ii, ni, indefinite)
-            .map_err(|j| (mesh.elements[range.start + j / 3].j, j % 3))?;
-        negative += below;
-        // W = K_ii⁻¹·K_ie.
-        let mut w = k_ie.clone();
-        factor.solve_columns(&mut w, &mut pad);
-        // K* = K_ee − K_ieᵀ·W: column c of K_ie (c < 3: end i, else end j) is zero but on
-        // the first (c < 3) or the last interior node, so three terms, summed in the order
-        // of the dense product (whose other terms are zero).
-        let mut k_star = k_ee;
-        for r in 0..6 {
-            let q0 = if r < 3 { 0 } else { ni - 3 };
-            for c in 0..6 {
-                let mut sum = 0.0;
-                for q in q0..q0 + 3 {
-                    sum += k_ie[q * 6 + r] * w[q * 6 + c];
-                }
-                k_star[(r, c)] -= sum;
-            }
-        }
+            negative += below;
+            (block, k_star)
+        } else {
+            let (block, k_star, below) =
+                condense_member(mesh, range.clone(), axial, indefinite, &mut scratch)?;
+            negative += below;
+            (block.map(Arc::new), k_star)
+        };
+        blocks.push(block);
         condensed.push(t.transpose() * k_star * t);
-        blocks.push(Some(MemberBlock { k_ii: factor, w }));
     }
     Ok(MemberParts {
         blocks,
         condensed,
         negative,
     })
+}
+
+/// Scratch space of [`condense_member`], reused member after member.
+#[derive(Default)]
+struct Scratch {
+    k_ii: Vec<f64>,
+    k_ie: Vec<f64>,
+    pad: Vec<f64>,
+}
+
+/// Condense the interior nodes of the member whose elements are `range` (see
+/// [`condense_members`]), in member-local axes.
+fn condense_member(
+    mesh: &Mesh,
+    range: std::ops::Range<usize>,
+    axial: Option<&[f64]>,
+    indefinite: bool,
+    scratch: &mut Scratch,
+) -> Result<LocalParts, (usize, usize)> {
+    let Scratch { k_ii, k_ie, pad } = scratch;
+    let segments = range.len();
+    let local = |ie: usize| {
+        let zero = Vector6::zeros();
+        element_matrices(&mesh.elements[ie], axial.map(|a| a[ie]), &zero).0
+    };
+    if segments == 1 {
+        return Ok((None, local(range.start), 0));
+    }
+    // Member DOFs: 3 per node from end i; the ends are 0..3 and 3s..3s+3, the interior
+    // unknowns 3..3s (numbered from 0 in K_ii). The first element couples end i to the
+    // first interior node, the last the last interior node to end j.
+    let ni = 3 * (segments - 1);
+    k_ii.clear();
+    k_ii.resize(ni * ni, 0.0);
+    let mut k_ee = Matrix6::<f64>::zeros();
+    // K_ie: rows 0..3 couple to end i (columns 0..3), rows ni-3..ni to end j (3..6).
+    k_ie.clear();
+    k_ie.resize(ni * 6, 0.0);
+    for (seg, ie) in range.clone().enumerate() {
+        let kl = local(ie);
+        // Member DOF of each element DOF, as index into [end i | interior | end j].
+        let place = |r: usize| -> (bool, usize) {
+            let node = seg + r / 3;
+            if node == 0 {
+                (false, r % 3)
+            } else if node == segments {
+                (false, 3 + r % 3)
+            } else {
+                (true, 3 * (node - 1) + r % 3)
+            }
+        };
+        for r in 0..6 {
+            let (ri, pr) = place(r);
+            for c in 0..6 {
+                let (ci, pc) = place(c);
+                let v = kl[(r, c)];
+                match (ri, ci) {
+                    (true, true) => k_ii[pr * ni + pc] += v,
+                    (true, false) => k_ie[pr * 6 + pc] += v,
+                    (false, false) => k_ee[(pr, pc)] += v,
+                    (false, true) => {}
+                }
+            }
+        }
+    }
+    let (factor, below) = DenseLdl::factor(k_ii, ni, indefinite)
+        .map_err(|j| (mesh.elements[range.start + j / 3].j, j % 3))?;
+    // W = K_ii⁻¹·K_ie.
+    let mut w = k_ie.clone();
+    factor.solve_columns(&mut w, pad);
+    // K* = K_ee − K_ieᵀ·W: column c of K_ie (c < 3: end i, else end j) is zero but on
+    // the first (c < 3) or the last interior node, so three terms, summed in the order
+    // of the dense product (whose other terms are zero).
+    let mut k_star = k_ee;
+    for r in 0..6 {
+        let q0 = if r < 3 { 0 } else { ni - 3 };
+        for c in 0..6 {
+            let mut sum = 0.0;
+            for q in q0..q0 + 3 {
+                sum += k_ie[q * 6 + r] * w[q * 6 + c];
+            }
+            k_star[(r, c)] -= sum;
+        }
+    }
+    Ok((Some(MemberBlock { k_ii: factor, w }), k_star, below))
 }
 
 /// Negative pivots met when element `e`'s released end rotations are condensed out of its
@@ -600,15 +706,7 @@ impl SecondOrderModel {
             mesh_dofs,
         };
         let elastic = Condensed::new(&mesh, &layout, model, None)?;
-        let element_k = mesh
-            .elements
-            .iter()
-            .map(|e| {
-                let (kl, _) = element_matrices(e, None, &Vector6::zeros());
-                let t = transformation(e.c, e.s);
-                t.transpose() * kl * t
-            })
-            .collect();
+        let element_k = ElementStiffness::new(&mesh);
         Ok(SecondOrderModel {
             mesh,
             layout,
@@ -802,7 +900,7 @@ impl SecondOrderModel {
     /// `K·x` for the elastic segmented stiffness (releases condensed, springs included).
     fn elastic_times(&self, x: &[[f64; 3]]) -> Vec<[f64; 3]> {
         let mut y = vec![[0.0; 3]; x.len()];
-        for (e, k) in self.mesh.elements.iter().zip(&self.element_k) {
+        for (e, k) in self.mesh.elements.iter().zip(self.element_k.iter()) {
             add_element_product(&mut y, e, k, x);
         }
         for (node, d) in self.layout.mesh_dofs.iter().enumerate() {
@@ -992,10 +1090,19 @@ impl SecondOrderModel {
             }
             if (lambda - last).abs() <= 1e-3 * lambda.abs() && sigma < 0.99 * lambda {
                 let closer = 0.999 * lambda;
-                if let Some(s) = stable(closer)? {
-                    shifted = s;
-                    sigma = closer;
-                }
+                // One factored system at a time: the old one goes first, and is built again
+                // (the same numbers) in the rare case that the closer shift is past α_cr.
+                drop(shifted);
+                shifted = match stable(closer)? {
+                    Some(s) => {
+                        sigma = closer;
+                        s
+                    }
+                    None => match stable(sigma)? {
+                        Some(s) => s,
+                        None => return Ok(None),
+                    },
+                };
             }
             last = lambda;
         }
@@ -1231,7 +1338,7 @@ impl Pencil {
             .mesh
             .elements
             .iter()
-            .zip(&so.element_k)
+            .zip(so.element_k.iter())
             .zip(&skip)
             .filter(|(_, s)| !**s)
         {
@@ -1296,7 +1403,7 @@ impl Pencil {
             if special[ie] {
                 continue;
             }
-            let k = &so.element_k[ie];
+            let k = so.element_k.get(ie);
             // λ·K_G(N) at one end, from the local [v, θ] block (N/L)·[6/5, ±L/10; ±L/10,
             // 2L²/15] of `geometric_stiffness` with v = −s·ux + c·uy.
             let f = lambda * self.axial[ie] / e.length;
