@@ -537,12 +537,11 @@ impl Context<'_> {
             return Ok(Vec::new());
         }
         let times = self.times;
-        let (combined, total, member_loads, gravity) = times.time(Stage::Combine, || {
+        let (combined, total, gravity) = times.time(Stage::Combine, || {
             let combined = SwayParts::combine(&refs);
             let total = combined.total();
-            let member_loads = combined_member_loads(model, &fc.factors);
             let gravity = story::story_gravity(model, self.stories, &total);
-            (combined, total, member_loads, gravity)
+            (combined, total, gravity)
         });
         // α of AISC 360-16 (1.6 for ASD combinations, App. 8 and C2.1, from memory) belongs
         // to the AISC methods; ACI 318 and EN 1993-1-1 amplify the case's own loads, and
@@ -569,6 +568,9 @@ impl Context<'_> {
                 alpha: m.alpha_cr,
             });
         let buckling = frame_buckling.and_then(|f| f.sway);
+        // The members' own loads, for their design moments (formed after the buckling
+        // analysis, whose working storage is then free).
+        let member_loads = times.time(Stage::Combine, || combined_member_loads(model, &fc.factors));
 
         // Notional loads: which directions, and how large at each level.
         let own: Vec<f64> = combined.holding.iter().map(|h| -h).collect();

@@ -101,7 +101,9 @@ impl Mesh {
     /// Build the mesh with `segments` (≥ 1) elements per member.
     pub fn new(model: &Model, stiffness: &[MemberStiffness], segments: usize) -> Mesh {
         let segments = segments.max(1);
-        let mut nodes: Vec<(f64, f64)> = model.nodes.iter().map(|n| (n.x, n.y)).collect();
+        let mut nodes: Vec<(f64, f64)> =
+            Vec::with_capacity(model.nodes.len() + model.members.len() * (segments - 1));
+        nodes.extend(model.nodes.iter().map(|n| (n.x, n.y)));
         let mut elements = Vec::with_capacity(model.members.len() * segments);
         let mut member_elements = Vec::with_capacity(model.members.len());
         for (m, mem) in model.members.iter().enumerate() {

@@ -485,11 +485,18 @@ impl Block {
         self.gv.drain(..count);
     }
 
-    /// The combinations `Σ_i z[(i, j)]·v_i` for the columns `cols` of `z` (the products
-    /// follow by linearity).
-    fn combine(&self, z: &DMatrix<f64>, cols: std::ops::Range<usize>) -> Block {
+    /// The combinations `Σ_i z[(i, j)]·v_i` for the columns `0..take` of `z`, and with `rest`
+    /// those of `rest` too (the products follow by linearity). The block is consumed list by
+    /// list (vectors, K-products, G-products), each freed as soon as both results have it:
+    /// at most one list's worth of new vectors is held beside the old block.
+    fn into_combined(
+        self,
+        z: &DMatrix<f64>,
+        rest: Option<&DMatrix<f64>>,
+        take: usize,
+    ) -> (Block, Block) {
         let n = self.v.first().map_or(0, Vec::len);
-        let mix = |src: &[Vec<f64>], j: usize| {
+        let mix = |src: &[Vec<f64>], z: &DMatrix<f64>, j: usize| {
             let mut out = vec![0.0; n];
             for (i, s) in src.iter().enumerate() {
                 let c = z[(i, j)];
@@ -499,13 +506,19 @@ impl Block {
             }
             out
         };
-        let mut b = Block::default();
-        for j in cols {
-            b.v.push(mix(&self.v, j));
-            b.kv.push(mix(&self.kv, j));
-            b.gv.push(mix(&self.gv, j));
+        let (mut x, mut p) = (Block::default(), Block::default());
+        let Block { v, kv, gv } = self;
+        for (src, xs, ps) in [
+            (v, &mut x.v, &mut p.v),
+            (kv, &mut x.kv, &mut p.kv),
+            (gv, &mut x.gv, &mut p.gv),
+        ] {
+            xs.extend((0..take).map(|j| mix(&src, z, j)));
+            if let Some(r) = rest {
+                ps.extend((0..take).map(|j| mix(&src, r, j)));
+            }
         }
-        b
+        (x, p)
     }
 
     /// Remove the K-components along the locked modes (K-normalised) from every vector,
@@ -650,19 +663,15 @@ pub(super) fn lowest_modes(
             return (locked, Stop::Exhausted);
         };
         let take = block.min(values.len());
-        x = all.combine(&z, 0..take);
-        // New directions: the part of the new vectors outside the old X.
-        let mut z_rest = z;
+        // New directions P: the part of the new vectors outside the old X.
+        let mut z_rest = z.clone();
         for i in 0..xn {
             for j in 0..take {
                 z_rest[(i, j)] = 0.0;
             }
         }
-        let mut p = if xn > 0 {
-            all.combine(&z_rest, 0..take)
-        } else {
-            Block::default()
-        };
+        let (new_x, mut p) = all.into_combined(&z, (xn > 0).then_some(&z_rest), take);
+        x = new_x;
         let mu = &values[..take];
         // The scale of the problem: the largest μ seen (the lowest mode's).
         scale = mu
@@ -970,22 +979,33 @@ impl Plan<'_> {
     }
 }
 
-/// Element axial forces of the nested mesh (`fine`, two elements per element of `coarse`)
-/// from the first-order response `r` of `coarse`: the mean of N at each half's ends, with N
-/// at the middle of each coarse element from its end forces and loads (statics; the
-/// first-order solution is the same on any mesh).
-fn refine_axial(coarse: &Mesh, fine: &Mesh, r: &Response, loads: &MeshLoads) -> Vec<f64> {
-    let mut axial = vec![0.0; fine.elements.len()];
-    for (rc, rf) in coarse.member_elements.iter().zip(&fine.member_elements) {
-        for (k, ie) in rc.clone().enumerate() {
+/// Element axial forces of the nested mesh (two elements per element of `coarse`) from the
+/// first-order response `r` of `coarse`, per element of `coarse`: the mean of N at each
+/// half's ends, with N at the middle of the element from its end forces and loads (statics;
+/// the first-order solution is the same on any mesh). Worked out before the buckling search
+/// so that the response need not be kept through it.
+fn refine_axial(coarse: &Mesh, r: &Response, loads: &MeshLoads) -> Vec<[f64; 2]> {
+    (0..coarse.elements.len())
+        .map(|ie| {
             let (f, l) = (&r.element_forces[ie], &loads.element[ie]);
             let half = 0.5 * coarse.elements[ie].length;
             let n_i = -f.i[0];
             let n_j = f.j[0];
             let left = internal_forces_at(half, Side::Left, f, l).n;
             let right = internal_forces_at(half, Side::Right, f, l).n;
-            axial[rf.start + 2 * k] = 0.5 * (n_i + left);
-            axial[rf.start + 2 * k + 1] = 0.5 * (right + n_j);
+            [0.5 * (n_i + left), 0.5 * (right + n_j)]
+        })
+        .collect()
+}
+
+/// The axial force of every element of the nested mesh `fine` from the halves of each
+/// element of `coarse` ([`refine_axial`]).
+fn nested_axial(coarse: &Mesh, fine: &Mesh, halves: &[[f64; 2]]) -> Vec<f64> {
+    let mut axial = vec![0.0; fine.elements.len()];
+    for (rc, rf) in coarse.member_elements.iter().zip(&fine.member_elements) {
+        for (k, ie) in rc.clone().enumerate() {
+            axial[rf.start + 2 * k] = halves[ie][0];
+            axial[rf.start + 2 * k + 1] = halves[ie][1];
         }
     }
     axial
@@ -1071,6 +1091,8 @@ pub(super) fn frame_buckling(
         return Ok(None);
     }
     let n = so.segments();
+    let halves = (n < REFINE_BELOW).then(|| refine_axial(&so.mesh, &first, loads));
+    drop(first);
     let Some((alpha0, x0)) = so.lowest_mode(model, &axial)? else {
         return Ok(Some(FrameBuckling {
             sway: None,
@@ -1120,11 +1142,9 @@ pub(super) fn frame_buckling(
         found
     };
     // The nested mesh, started from the coarse modes.
-    let fine_found = if n >= REFINE_BELOW || coarse.modes.is_empty() {
-        None
-    } else {
+    let fine_found = if let Some(halves) = halves.filter(|_| !coarse.modes.is_empty()) {
         let fine = so.refined(model)?;
-        let fine_axial = refine_axial(&so.mesh, &fine.mesh, &first, loads);
+        let fine_axial = nested_axial(&so.mesh, &fine.mesh, &halves);
         let fine_plan = Plan {
             ops: MeshOperators {
                 so: fine,
@@ -1153,6 +1173,8 @@ pub(super) fn frame_buckling(
             .collect();
         let found = fine_plan.run(start);
         Some((fine, found))
+    } else {
+        None
     };
     Ok(Some(assemble(
         so,
