@@ -916,7 +916,7 @@ impl SecondOrderModel {
     /// `G = −K_G` of every element in global axes for the axial forces `axial` at λ = 1,
     /// a released element's as the secant of its condensed matrix between λ = 0 and 1 (the
     /// estimate of [`Self::estimate_alpha_cr`], confirmed by factorization).
-    fn secant_geometric(&self, axial: &[f64]) -> Vec<Matrix6<f64>> {
+    fn secant_geometric(&self, axial: &[f64]) -> Vec<Stored> {
         let zero = Vector6::zeros();
         self.mesh
             .elements
@@ -926,7 +926,7 @@ impl SecondOrderModel {
                 let (with_g, _) = element_matrices(e, Some(n), &zero);
                 let (without, _) = element_matrices(e, None, &zero);
                 let t = transformation(e.c, e.s);
-                -(t.transpose() * (with_g - without) * t)
+                Stored::new(-(t.transpose() * (with_g - without) * t))
             })
             .collect()
     }
@@ -1031,7 +1031,7 @@ impl SecondOrderModel {
         let g = |x: &[[f64; 3]]| -> Vec<[f64; 3]> {
             let mut y = vec![[0.0; 3]; x.len()];
             for (e, kg) in self.mesh.elements.iter().zip(&parts) {
-                add_element_product(&mut y, e, kg, x);
+                add_element_product(&mut y, e, &kg.matrix(), x);
             }
             self.clear_held(&mut y);
             y
@@ -1141,6 +1141,53 @@ impl SecondOrderModel {
             x.iter_mut().flatten().for_each(|v| *v /= norm);
         }
         x
+    }
+}
+
+/// One element matrix, kept as its upper triangle where it is symmetric to the last bit
+/// (as every element's is in axes along the grid, where the transformation only swaps and
+/// negates entries), else whole. [`Stored::matrix`] gives back the same matrix bit for bit,
+/// so products with it are unchanged; the triangle takes 21 numbers rather than 36.
+#[derive(Debug, Clone)]
+enum Stored {
+    Triangle([f64; 21]),
+    Whole(Box<Matrix6<f64>>),
+}
+
+impl Stored {
+    fn new(k: Matrix6<f64>) -> Stored {
+        let symmetric =
+            (0..6).all(|r| (r + 1..6).all(|c| k[(r, c)].to_bits() == k[(c, r)].to_bits()));
+        if !symmetric {
+            return Stored::Whole(Box::new(k));
+        }
+        let mut upper = [0.0; 21];
+        let mut at = 0;
+        for r in 0..6 {
+            for c in r..6 {
+                upper[at] = k[(r, c)];
+                at += 1;
+            }
+        }
+        Stored::Triangle(upper)
+    }
+
+    fn matrix(&self) -> Matrix6<f64> {
+        match self {
+            Stored::Whole(k) => **k,
+            Stored::Triangle(upper) => {
+                let mut k = Matrix6::zeros();
+                let mut at = 0;
+                for r in 0..6 {
+                    for c in r..6 {
+                        k[(r, c)] = upper[at];
+                        k[(c, r)] = upper[at];
+                        at += 1;
+                    }
+                }
+                k
+            }
+        }
     }
 }
 
@@ -1636,4 +1683,55 @@ pub fn member_moment_at(
         &loads.element[ie],
         Some(&p),
     )
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::solve::element::{elastic_stiffness, geometric_stiffness, transformation};
+    use crate::solve::test_rng::Lcg;
+
+    /// Bit patterns of a matrix, so that −0 and +0 count as different.
+    fn bits(k: &Matrix6<f64>) -> Vec<u64> {
+        k.iter().map(|v| v.to_bits()).collect()
+    }
+
+    #[test]
+    fn stored_element_matrices_come_back_bit_for_bit() {
+        // Property (no engineering number, common practice, no source): the triangle kept
+        // for a symmetric matrix gives back the same 36 bit patterns, signed zeros
+        // included; a matrix that is not symmetric to the bit is kept whole. The secant
+        // geometric stiffness of members along the grid (c, s in {0, ±1}) is symmetric to
+        // the bit, so it takes the triangle; an inclined member's may not be.
+        let mut rng = Lcg(7);
+        for trial in 0..400 {
+            let (c, s) = match trial % 4 {
+                0 => (1.0, 0.0),
+                1 => (0.0, 1.0),
+                2 => (0.0, -1.0),
+                _ => {
+                    let a = rng.symmetric() * 3.0;
+                    (a.cos(), a.sin())
+                }
+            };
+            let l = 1.0 + rng.symmetric().abs() * 5.0;
+            let n = rng.symmetric() * 1e6;
+            let ke = elastic_stiffness(2e9 * (1.5 + rng.symmetric()), 4e7, l);
+            let with_g = ke + geometric_stiffness(n, l);
+            let t = transformation(c, s);
+            let g = -(t.transpose() * (with_g - ke) * t);
+            let stored = Stored::new(g);
+            assert_eq!(bits(&stored.matrix()), bits(&g), "trial {trial}");
+            if trial % 4 != 3 {
+                assert!(matches!(stored, Stored::Triangle(_)), "trial {trial}");
+            }
+        }
+        // Signed zeros that differ across the diagonal: kept whole.
+        let mut k = Matrix6::identity();
+        k[(0, 1)] = 0.0;
+        k[(1, 0)] = -0.0;
+        let stored = Stored::new(k);
+        assert!(matches!(stored, Stored::Whole(_)));
+        assert_eq!(bits(&stored.matrix()), bits(&k));
+    }
 }
