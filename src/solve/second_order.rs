@@ -387,6 +387,9 @@ struct MemberParts {
 /// negative pivots of `K_ii`.
 type LocalParts = (Option<MemberBlock>, Matrix6<f64>, usize);
 
+/// [`LocalParts`] with the interior block shared among members alike.
+type SharedParts = (Option<Arc<MemberBlock>>, Matrix6<f64>, usize);
+
 /// What a member's elastic condensation depends on: per element, E·A, E·I and length (as
 /// bits) and its releases. Members alike in these share one condensation.
 type ElasticKey = Vec<([u64; 3], [bool; 2])>;
@@ -410,8 +413,7 @@ fn condense_members(
     let mut condensed = Vec::with_capacity(members);
     let mut negative = 0;
     let mut scratch = Scratch::default();
-    let mut shared: HashMap<ElasticKey, (Option<Arc<MemberBlock>>, Matrix6<f64>, usize)> =
-        HashMap::new();
+    let mut shared: HashMap<ElasticKey, SharedParts> = HashMap::new();
     for range in &mesh.member_elements {
         let first = &mesh.elements[range.start];
         let t = transformation(first.c, first.s);
