@@ -1,7 +1,7 @@
 //! Report of `plumbline check`: the stories, then for each factored case the story figures
 //! and the per-member moments (no-sway part, sway part, amplifiers, design value).
 
-use super::page::Table;
+use super::page::RowStream;
 use super::{num, opt, table_fitting, table_of, text_width};
 use crate::check::story::StiffnessSource;
 use crate::check::{CaseCheck, CheckReport, MemberCheck, StoryFigures};
@@ -67,71 +67,58 @@ pub fn detail_text(model: &Model, report: &CheckReport) -> String {
     out
 }
 
-/// The per-case detail as tables for CSV: one row per case and member, and one row per
-/// case and story.
-pub fn detail_tables(model: &Model, report: &CheckReport) -> Vec<Table> {
+/// The per-case detail as tables for CSV: one row per case and member, per case and story,
+/// per case and support, and per case and member end. Each row is formed as it is written,
+/// so the largest of them (a row per case and member) is never held whole.
+pub fn detail_tables<'a>(model: &'a Model, report: &'a CheckReport) -> Vec<RowStream<'a>> {
     let mut header = vec!["case".to_string()];
     header.extend(member_header(model));
     header.push("stable".into());
-    let mut rows = Vec::new();
-    for c in &report.cases {
-        for mc in &c.members {
-            let mut row = vec![c.id.clone()];
-            row.extend(member_row(model, mc, 3));
-            row.push((c.stable && mc.stable).to_string());
-            rows.push(row);
-        }
-    }
-    let members = Table {
+    let members = RowStream {
         name: "case-members",
-        title: "Members by case".into(),
         header,
-        rows,
+        rows: Box::new(report.cases.iter().flat_map(move |c| {
+            c.members.iter().map(move |mc| {
+                let mut row = vec![c.id.clone()];
+                row.extend(member_row(model, mc, 3));
+                row.push((c.stable && mc.stable).to_string());
+                row
+            })
+        })),
     };
     let mut header = vec!["case".to_string()];
     header.extend(story_header(model));
-    let rows = report
-        .cases
-        .iter()
-        .flat_map(|c| {
-            c.stories.iter().map(|s| {
+    let stories = RowStream {
+        name: "case-stories",
+        header,
+        rows: Box::new(report.cases.iter().flat_map(move |c| {
+            c.stories.iter().map(move |s| {
                 let mut row = vec![c.id.clone()];
                 row.extend(story_row(model, s, 3));
                 row
             })
-        })
-        .collect();
-    let stories = Table {
-        name: "case-stories",
-        title: "Stories by case".into(),
-        header,
-        rows,
+        })),
     };
     let mut header = vec!["case".to_string()];
     header.extend(super::handoff::case_reaction_header(model));
-    let reactions = Table {
+    let reactions = RowStream {
         name: "case-reactions",
-        title: "Support reactions by case".into(),
         header,
-        rows: report
-            .cases
-            .iter()
-            .flat_map(|c| {
-                super::handoff::case_reaction_rows(model, c, 3)
-                    .into_iter()
-                    .map(|r| std::iter::once(c.id.clone()).chain(r).collect())
-            })
-            .collect(),
+        rows: Box::new(report.cases.iter().flat_map(move |c| {
+            super::handoff::case_reaction_rows(model, c, 3)
+                .into_iter()
+                .map(move |r| std::iter::once(c.id.clone()).chain(r).collect())
+        })),
     };
-    let end_actions = Table {
+    let end_actions = RowStream {
         name: "case-end-actions",
-        title: "Design end actions by case".into(),
         header: super::handoff::case_end_action_header(model),
-        rows: report
-            .cases
-            .iter()
-            .flat_map(|c| super::handoff::case_end_action_rows(model, c))
-            .collect(),
+        rows: Box::new(
+            report
+                .cases
+                .iter()
+                .flat_map(move |c| super::handoff::case_end_action_rows(model, c)),
+        ),
     };
     vec![members, stories, reactions, end_actions]
 }

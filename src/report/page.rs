@@ -113,6 +113,24 @@ pub struct Table {
     pub rows: Vec<Vec<String>>,
 }
 
+/// A table for a file, its rows formed one at a time as they are written: a large table
+/// (a row per case and member) is never held whole.
+pub struct RowStream<'a> {
+    pub name: &'static str,
+    pub header: Vec<String>,
+    pub rows: Box<dyn Iterator<Item = Vec<String>> + 'a>,
+}
+
+impl<'a> From<Table> for RowStream<'a> {
+    fn from(t: Table) -> RowStream<'a> {
+        RowStream {
+            name: t.name,
+            header: t.header,
+            rows: Box::new(t.rows.into_iter()),
+        }
+    }
+}
+
 /// What a check report reads: the run's summary (`summary.detail` asks for the per-case
 /// detail), the approximate check when it was asked for, and the factored cases analysed
 /// (the drawings of the HTML report take their loads).

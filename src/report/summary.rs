@@ -18,7 +18,7 @@ use crate::envelope::{
 use crate::model::{Model, SecondOrderMethod};
 use crate::units::Dimension;
 
-pub use super::page::{Selection, Setting, Summary, Table, TableInfo};
+pub use super::page::{RowStream, Selection, Setting, Summary, Table, TableInfo};
 
 /// Version of the JSON document of `check`; raised when a key changes meaning.
 pub const SCHEMA_VERSION: u32 = 4;
@@ -870,20 +870,45 @@ pub fn markdown(s: &Summary) -> String {
 
 /// Write one table as CSV to `out` with the `csv` crate, ending with the caution as a
 /// comment line (`#`).
-pub fn write_csv(t: &Table, out: impl std::io::Write) -> std::io::Result<()> {
+pub fn write_csv(t: RowStream<'_>, out: impl std::io::Write) -> std::io::Result<()> {
     let mut w = csv::Writer::from_writer(std::io::BufWriter::with_capacity(1 << 16, out));
     w.write_record(&t.header)?;
-    for r in &t.rows {
-        w.write_record(r)?;
+    for r in t.rows {
+        w.write_record(&r)?;
     }
     let mut out = w.into_inner().map_err(|e| e.into_error())?;
     writeln!(out, "# {CAUTION}")?;
     out.flush()
 }
 
-/// The CSV tables of a run, one file each (named `<table name>.csv`).
-pub fn csv_tables(s: &Summary) -> Vec<Table> {
-    // The CSV files have no heading: the assumptions say which cases were included.
+/// The CSV tables of a run, one file each (named `<table name>.csv`), each formed when it is
+/// reached (and the per-case detail row by row), so that one is held at a time.
+pub fn csv_tables<'s>(s: &'s Summary<'_>) -> impl Iterator<Item = RowStream<'s>> + 's {
+    let envelope: [fn(&Summary) -> Table; 7] = [
+        story_table_tidy,
+        |s| member_table(s, true),
+        |s| column_table(s, true),
+        |s| super::handoff::axial_table(s, true),
+        |s| super::handoff::shear_table(s, true),
+        |s| super::handoff::reaction_table(s, true),
+        |s| super::handoff::service_reaction_table(s, true),
+    ];
+    std::iter::once_with(move || csv_assumptions(s).into())
+        .chain(envelope.into_iter().map(move |table| table(s).into()))
+        .chain(
+            std::iter::once_with(move || super::check::detail_tables(s.model, s.report)).flatten(),
+        )
+        .chain(
+            s.service
+                .into_iter()
+                .flat_map(move |r| super::service::tables(s.model, r))
+                .map(RowStream::from),
+        )
+}
+
+/// The assumptions table of the CSV files. They have no heading: it says which cases were
+/// included.
+fn csv_assumptions(s: &Summary) -> Table {
     let mut assumptions = assumptions_table(s);
     assumptions.rows.push(vec![
         "cases included".into(),
@@ -894,21 +919,7 @@ pub fn csv_tables(s: &Summary) -> Vec<Table> {
             "combination table".into()
         },
     ]);
-    let mut tables = vec![
-        assumptions,
-        story_table_tidy(s),
-        member_table(s, true),
-        column_table(s, true),
-        super::handoff::axial_table(s, true),
-        super::handoff::shear_table(s, true),
-        super::handoff::reaction_table(s, true),
-        super::handoff::service_reaction_table(s, true),
-    ];
-    tables.extend(super::check::detail_tables(s.model, s.report));
-    if let Some(r) = s.service {
-        tables.extend(super::service::tables(s.model, r));
-    }
-    tables
+    assumptions
 }
 
 /// The story envelope in tidy form: one row per story and figure.

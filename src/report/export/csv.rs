@@ -4,18 +4,24 @@
 use super::exporter::{
     CasesView, CheckView, CompareView, ExportError, Exporter, Sink, SolveView, whole,
 };
-use crate::report::page::Table;
+use crate::report::page::RowStream;
 use crate::report::{approx, combos, compare, solve, summary};
 
 /// One CSV file per table.
 pub struct Csv;
 
-/// Write each table as its own part, `<table name>.csv`, one at a time: each is dropped
-/// once written.
-fn tables(out: &mut dyn Sink, tables: impl IntoIterator<Item = Table>) -> Result<(), ExportError> {
+/// Write each table as its own part, `<table name>.csv`, one at a time: each is formed as
+/// it is written and dropped once written.
+fn tables<'a, T: Into<RowStream<'a>>>(
+    out: &mut dyn Sink,
+    tables: impl IntoIterator<Item = T>,
+) -> Result<(), ExportError> {
     for t in tables {
-        out.part(&format!("{}.csv", t.name), &mut |w| {
-            summary::write_csv(&t, w)
+        let mut t = Some(t.into());
+        let name = format!("{}.csv", t.as_ref().map_or("", |t| t.name));
+        out.part(&name, &mut |w| match t.take() {
+            Some(t) => summary::write_csv(t, w),
+            None => Ok(()),
         })?;
     }
     Ok(())
@@ -30,11 +36,8 @@ impl Exporter for Csv {
     /// then the approximate check.
     fn check(&self, doc: &CheckView, out: &mut dyn Sink) -> Result<(), ExportError> {
         let s = &doc.summary;
-        let mut all = summary::csv_tables(s);
-        if let Some(a) = doc.approximate {
-            all.push(approx::table(s.model, a));
-        }
-        tables(out, all)
+        let approximate = doc.approximate.map(|a| approx::table(s.model, a).into());
+        tables(out, summary::csv_tables(s).chain(approximate))
     }
 
     fn solve(&self, doc: &SolveView, out: &mut dyn Sink) -> Result<(), ExportError> {
