@@ -10,7 +10,9 @@
 //!   `plumbline check MODEL -o FILE` runs it (reading, checking, the summary written), in
 //!   its own process so that its peak memory is its own: peak resident memory (MB, the
 //!   process's high-water mark) and CPU time (user + system, s), the median of 3 runs.
-//! * `cargo bench --bench memory -- heap [BAYS STORIES]` — where the memory goes: heap
+//!   Last, the 1 × 1,600 frame with no two storeys alike (every member its own section
+//!   and length), for which no stiffness is shared among members.
+//! * `cargo bench --bench memory -- heap [BAYS STORIES] [distinct]` — where the memory goes: heap
 //!   bytes live after, and at their peak during, each stage of one frame (default 1 ×
 //!   1,600), counted by this bench's own allocator.
 //!
@@ -91,24 +93,24 @@ fn stage<T>(name: &str, f: impl FnOnce() -> T) -> T {
 }
 
 /// The model file of the frame of `benches/check.rs` (`benches/common`), with its table
-/// and method.
-fn model_text(bays: usize, stories: usize) -> String {
-    common::frame_text("bench frame", bays, stories, false)
+/// and method; with `distinct`, no two storeys alike (`common::frame_text_with`).
+fn model_text(bays: usize, stories: usize, distinct: bool) -> String {
+    common::frame_text_with("bench frame", bays, stories, false, distinct)
         + "[combinations]\ntable = \"asce7-16-strength\"\n[analysis]\nmethod = \"aisc-b1b2\"\n"
 }
 
 /// Write a frame's model file into a temporary directory of its own; its path.
-fn model_file(bays: usize, stories: usize) -> std::path::PathBuf {
+fn model_file(bays: usize, stories: usize, distinct: bool) -> std::path::PathBuf {
     let dir = std::env::temp_dir().join(format!("plumbline-memory-{}", std::process::id()));
     std::fs::create_dir_all(&dir).expect("temporary directory");
     let path = dir.join(format!("frame-{bays}x{stories}.toml"));
-    std::fs::write(&path, model_text(bays, stories)).expect("model file written");
+    std::fs::write(&path, model_text(bays, stories, distinct)).expect("model file written");
     path
 }
 
 /// One child run of the whole default command: prints `peak_mb cpu_s wall_s`.
-fn run_command(bays: usize, stories: usize) {
-    let model = model_file(bays, stories);
+fn run_command(bays: usize, stories: usize, distinct: bool) {
+    let model = model_file(bays, stories, distinct);
     let out = model.with_extension("out.txt");
     let args = CheckArgs {
         format: CheckFormat::Table,
@@ -125,12 +127,13 @@ fn run_command(bays: usize, stories: usize) {
 }
 
 /// Median peak memory (MB), CPU (s) and wall time (s) of `runs` child runs of one frame.
-fn measured(bays: usize, stories: usize, runs: usize) -> Result<[f64; 3], String> {
+fn measured(bays: usize, stories: usize, distinct: bool, runs: usize) -> Result<[f64; 3], String> {
     let exe = std::env::current_exe().expect("own path");
     let mut all: Vec<[f64; 3]> = Vec::new();
     for _ in 0..runs {
         let out = Command::new(&exe)
             .args(["command", &bays.to_string(), &stories.to_string()])
+            .args(distinct.then_some("distinct"))
             .output()
             .expect("child runs");
         let text = String::from_utf8_lossy(&out.stdout);
@@ -156,20 +159,26 @@ fn curve() {
     println!("the default `check` (summary written to a file), ASCE/SEI 7-16 strength table,");
     println!("AISC App. 8; median of 3 runs, each in its own process");
     println!("frame         members   peak (MB)   cpu (s)   wall (s)   MB per storey");
-    for (bays, stories) in [(1, 200), (1, 400), (1, 800), (1, 1600), (20, 100)] {
+    let frames = [(1, 200), (1, 400), (1, 800), (1, 1600), (20, 100)]
+        .map(|(b, s)| (b, s, false))
+        .into_iter()
+        .chain([(1, 1600, true)]);
+    for (bays, stories, distinct) in frames {
         let members = bays * stories + (bays + 1) * stories;
-        match measured(bays, stories, 3) {
+        let mark = if distinct { "*" } else { " " };
+        match measured(bays, stories, distinct, 3) {
             Ok([mb, cpu, wall]) => println!(
-                "{bays:>3} x {stories:<6} {members:>9} {mb:>11.1} {cpu:>9.2} {wall:>10.2} {:>15.3}",
+                "{bays:>3} x {stories:<5}{mark} {members:>9} {mb:>11.1} {cpu:>9.2} {wall:>10.2} {:>15.3}",
                 mb / stories as f64
             ),
-            Err(e) => println!("{bays:>3} x {stories:<6} {members:>9}   refused: {e}"),
+            Err(e) => println!("{bays:>3} x {stories:<5}{mark} {members:>9}   refused: {e}"),
         }
     }
+    println!("* no two storeys alike: every member its own section and length (nothing shared)");
 }
 
 /// Heap live after, and peak during, each stage of one frame's check.
-fn heap(bays: usize, stories: usize) {
+fn heap(bays: usize, stories: usize, distinct: bool) {
     use plumbline::check::check;
     use plumbline::combos::{expand, load_table};
     use plumbline::input::parse_model;
@@ -182,7 +191,7 @@ fn heap(bays: usize, stories: usize) {
         "  {:<40} {:>9} {:>9} {:>8}",
         "stage", "live", "peak", "time"
     );
-    let text = model_text(bays, stories);
+    let text = model_text(bays, stories, distinct);
     let model = stage("model read", || {
         parse_model(&text, "bench.toml").expect("the bench frame reads")
     });
@@ -236,7 +245,7 @@ fn heap(bays: usize, stories: usize) {
     let envelope = stage("envelope", || plumbline::envelope::envelope(&report));
     drop(envelope);
     drop(report);
-    let path = model_file(bays, stories);
+    let path = model_file(bays, stories, distinct);
     let args = CheckArgs {
         format: CheckFormat::Table,
         ..Default::default()
@@ -254,11 +263,21 @@ fn main() {
     let args: Vec<String> = std::env::args().skip(1).collect();
     let num = |k: usize| args.get(k).and_then(|s| s.parse::<usize>().ok());
     if let Some(at) = args.iter().position(|a| a == "command") {
-        run_command(num(at + 1).expect("BAYS"), num(at + 2).expect("STORIES"));
+        let distinct = args.iter().any(|a| a == "distinct");
+        run_command(
+            num(at + 1).expect("BAYS"),
+            num(at + 2).expect("STORIES"),
+            distinct,
+        );
         return;
     }
     if let Some(at) = args.iter().position(|a| a == "heap") {
-        heap(num(at + 1).unwrap_or(1), num(at + 2).unwrap_or(1600));
+        let distinct = args.iter().any(|a| a == "distinct");
+        heap(
+            num(at + 1).unwrap_or(1),
+            num(at + 2).unwrap_or(1600),
+            distinct,
+        );
         return;
     }
     curve();

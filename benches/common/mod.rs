@@ -37,8 +37,55 @@ pub fn cpu_s() -> f64 {
 /// The model file of the bench frame titled `title`; with `arrange`, its live load is
 /// arranged span by span (`arrange = true`).
 pub fn frame_text(title: &str, bays: usize, stories: usize, arrange: bool) -> String {
+    frame_text_with(title, bays, stories, arrange, false)
+}
+
+/// [`frame_text`]; with `distinct`, no two storeys alike: storey k has columns and beams of
+/// their own sections (A and I growing by 0.03 % and 0.02 % a storey) and a height from
+/// 3.6 m stepping 0.05 m through a cycle of 17, so that no two members share a section and
+/// a length (the frame for which no stiffness is shared).
+pub fn frame_text_with(
+    title: &str,
+    bays: usize,
+    stories: usize,
+    arrange: bool,
+    distinct: bool,
+) -> String {
     let list = |n: usize, v: f64| vec![format!("{v}"); n].join(", ");
     let arranged = if arrange { "arrange = true\n" } else { "" };
+    let (sections, columns, beams, heights) = if distinct {
+        let mut sections = String::new();
+        for k in 0..stories {
+            sections += &format!(
+                "[[section]]\nid = \"C{k}\"\nA = \"{} mm^2\"\nI = \"{:e} mm^4\"\nrole = \"column\"\n\
+                 [[section]]\nid = \"B{k}\"\nA = \"{} mm^2\"\nI = \"{:e} mm^4\"\nrole = \"beam\"\n",
+                20000 + 6 * k,
+                4.0e8 * (1.0 + 0.0003 * k as f64),
+                10000 + 2 * k,
+                5.0e8 * (1.0 + 0.0002 * k as f64),
+            );
+        }
+        let ids = |p: &str| {
+            (0..stories)
+                .map(|k| format!("\"{p}{k}\""))
+                .collect::<Vec<_>>()
+                .join(", ")
+        };
+        let heights = (0..stories)
+            .map(|k| format!("{:.2}", 3.6 + 0.05 * (k % 17) as f64))
+            .collect::<Vec<_>>()
+            .join(", ");
+        (sections, ids("C"), ids("B"), heights)
+    } else {
+        (
+            "[[section]]\nid = \"COL\"\nA = \"20000 mm^2\"\nI = \"4.0e8 mm^4\"\nrole = \"column\"\n\
+             [[section]]\nid = \"BM\"\nA = \"10000 mm^2\"\nI = \"5.0e8 mm^4\"\nrole = \"beam\"\n"
+                .to_string(),
+            "\"COL\"".to_string(),
+            "\"BM\"".to_string(),
+            list(stories, 4.0),
+        )
+    };
     format!(
         r#"title = "{title} {bays} x {stories}"
 units = "kN-m"
@@ -46,23 +93,13 @@ units = "kN-m"
 id = "S"
 E = "200 GPa"
 unit_weight = "77 kN/m^3"
-[[section]]
-id = "COL"
-A = "20000 mm^2"
-I = "4.0e8 mm^4"
-role = "column"
-[[section]]
-id = "BM"
-A = "10000 mm^2"
-I = "5.0e8 mm^4"
-role = "beam"
-[frame]
+{sections}[frame]
 bays = [{}]
-stories = [{}]
+stories = [{heights}]
 base = "fixed"
 material = "S"
-columns = ["COL"]
-beams = ["BM"]
+columns = [{columns}]
+beams = [{beams}]
 [[case]]
 id = "D"
 category = "dead"
@@ -96,7 +133,6 @@ nodes = "N{}.*"
 fx = -10
 "#,
         list(bays, 8.0),
-        list(stories, 4.0),
         bays + 1,
     )
 }
