@@ -36,7 +36,7 @@
 
 use serde::Serialize;
 
-use crate::check::story::is_moment_frame_column;
+use crate::check::story::moment_frame_members;
 use crate::combos::FactoredCase;
 use crate::model::{LocalLoad, Model, Restraint, Role};
 use crate::solve::beam::internal_forces;
@@ -328,18 +328,23 @@ pub fn approximate(
             applied[nl.node] += f * nl.mz;
         }
     }
-    let columns: Vec<usize> = (0..nm)
-        .filter(|&m| model.members[m].role != Role::Beam)
-        .collect();
+    // The member ends at each node, in member order: (member, end).
+    let mut ends_at: Vec<Vec<(usize, usize)>> = vec![Vec::new(); model.nodes.len()];
+    for (m, mem) in model.members.iter().enumerate() {
+        ends_at[mem.i].push((m, 0));
+        ends_at[mem.j].push((m, 1));
+    }
+    let is_beam = |m: usize| model.members[m].role == Role::Beam;
     for (v, &applied_v) in applied.iter().enumerate() {
-        let beams: f64 = (0..nm)
-            .filter(|&m| model.members[m].role == Role::Beam)
-            .map(|m| end_at(model, m, v).map_or(0.0, |e| mz[m][e]))
-            .sum();
-        let share: Vec<(usize, usize, f64)> = columns
+        let beams: f64 = ends_at[v]
             .iter()
-            .filter_map(|&c| {
-                let e = end_at(model, c, v)?;
+            .filter(|&&(m, _)| is_beam(m))
+            .map(|&(m, e)| mz[m][e])
+            .fold(0.0, |a, b| a + b);
+        let share: Vec<(usize, usize, f64)> = ends_at[v]
+            .iter()
+            .filter(|&&(c, _)| !is_beam(c))
+            .filter_map(|&(c, e)| {
                 let mem = &model.members[c];
                 let released = if e == 0 { mem.release_i } else { mem.release_j };
                 (!released).then(|| (c, e, model.gross_stiffness(c).1 / model.length(c)))
@@ -389,10 +394,12 @@ pub fn approximate(
 /// the portal method); nil in a braced story, whose brace holds it. Statics: the no-sway state plus
 /// this sway carries no net story shear under gravity alone.
 pub fn gravity_sway_shears(model: &Model, stories: &[Story], mz: &[[f64; 2]]) -> Vec<f64> {
+    let braced = braced_stories(model, stories);
     stories
         .iter()
-        .map(|st| {
-            if is_braced(model, st) {
+        .zip(braced)
+        .map(|(st, braced)| {
+            if braced {
                 return 0.0;
             }
             -st.columns
@@ -416,18 +423,6 @@ fn applied_story_shears(model: &Model, stories: &[Story], fx: &[f64]) -> Vec<f64
                 .sum()
         })
         .collect()
-}
-
-/// 0 when member `m` has end i at `node`, 1 for end j.
-fn end_at(model: &Model, m: usize, node: usize) -> Option<usize> {
-    let mem = &model.members[m];
-    if mem.i == node {
-        Some(0)
-    } else if mem.j == node {
-        Some(1)
-    } else {
-        None
-    }
 }
 
 /// Lateral loads of the case lumped at the nodes: global X, N. Nodal loads as they are; a
@@ -458,12 +453,14 @@ fn lateral_at_nodes(model: &Model, factors: &[(usize, f64)], loads: &[Vec<LocalL
 fn portal(model: &Model, stories: &[Story], shears: &[f64]) -> Vec<(f64, f64)> {
     let mut out = vec![(0.0, 0.0); model.members.len()];
     let mut column_mz_at = vec![0.0; model.nodes.len()];
-    for (st, &v) in stories.iter().zip(shears) {
-        let mut cols = portal_columns(model, &st.columns);
+    let frame = moment_frame_members(model);
+    let braced = braced_stories(model, stories);
+    for ((st, &v), braced) in stories.iter().zip(shears).zip(braced) {
+        let mut cols = portal_columns(model, &frame, &st.columns);
         cols.sort_by(|&a, &b| column_x(model, a).total_cmp(&column_x(model, b)));
         // A braced story's shear goes to its braces first (their axial stiffness dwarfs the
         // columns' bending stiffness): the moment columns take none of it.
-        let v = if is_braced(model, st) { 0.0 } else { v };
+        let v = if braced { 0.0 } else { v };
         for (&c, vc) in cols.iter().zip(portal_shares(cols.len(), v)) {
             let l = model.length(c);
             let x0 = inflection_height(model, c);
@@ -527,26 +524,36 @@ fn is_brace(model: &Model, m: usize) -> bool {
     }
 }
 
-/// Whether story `st` is braced: a brace (see [`is_brace`]) spans its height, from at or
-/// below its bottom to at or above its top.
-fn is_braced(model: &Model, st: &Story) -> bool {
-    (0..model.members.len()).any(|m| {
-        let mem = &model.members[m];
-        let (a, b) = (model.nodes[mem.i].y, model.nodes[mem.j].y);
-        is_brace(model, m)
-            && a.min(b) <= st.bottom + LEVEL_TOLERANCE
-            && a.max(b) >= st.top - LEVEL_TOLERANCE
-    })
+/// Whether each story is braced: a brace (see [`is_brace`]) spans its height, from at or
+/// below its bottom to at or above its top. The braces are found once, not per story.
+fn braced_stories(model: &Model, stories: &[Story]) -> Vec<bool> {
+    let braces: Vec<(f64, f64)> = (0..model.members.len())
+        .filter(|&m| is_brace(model, m))
+        .map(|m| {
+            let mem = &model.members[m];
+            let (a, b) = (model.nodes[mem.i].y, model.nodes[mem.j].y);
+            (a.min(b), a.max(b))
+        })
+        .collect();
+    stories
+        .iter()
+        .map(|st| {
+            braces.iter().any(|&(low, high)| {
+                low <= st.bottom + LEVEL_TOLERANCE && high >= st.top - LEVEL_TOLERANCE
+            })
+        })
+        .collect()
 }
 
 /// The story members that take a portal share of the story shear: the columns of the
 /// moment frame, not braces and not leaning columns (hinged at both ends, or onto beams
 /// released at them), which carry gravity load only.
-fn portal_columns(model: &Model, story_members: &[usize]) -> Vec<usize> {
+/// `frame`: [`moment_frame_members`] of the model.
+fn portal_columns(model: &Model, frame: &[bool], story_members: &[usize]) -> Vec<usize> {
     story_members
         .iter()
         .copied()
-        .filter(|&m| !is_brace(model, m) && is_moment_frame_column(model, m))
+        .filter(|&m| !is_brace(model, m) && frame[m])
         .collect()
 }
 
@@ -617,9 +624,15 @@ pub fn compare_case(
             .flat_map(|e| e.rows.iter().map(|r| r.computed.abs()))
             .fold(0.0, f64::max)
     };
+    let roles = [Role::Beam, Role::Column, Role::Brace].map(|r| (r, reference(r, &members)));
     let refs: Vec<f64> = members
         .iter()
-        .map(|e| reference(e.role, &members))
+        .map(|e| {
+            roles
+                .iter()
+                .find(|(r, _)| *r == e.role)
+                .map_or(0.0, |&(_, v)| v)
+        })
         .collect();
     for (e, r) in members.iter_mut().zip(refs) {
         for row in &mut e.rows {

@@ -435,3 +435,39 @@ fn spread_of_b2_against_the_direct_drift_ratio() {
         "≥ 1",
     );
 }
+
+#[test]
+fn moment_frame_table_agrees_with_the_member_by_member_rule() {
+    // Property (no engineering number, common practice, no source): the one-pass table of
+    // moment-frame members (`moment_frame_members`, used for Pmf of AISC 360-16 App. 8
+    // A-8-8 and the portal columns) equals the member-by-member rule
+    // (`is_moment_frame_column`) on every member of the seeded random frames: releases,
+    // pinned and fixed bases, leaning columns and pin-ended braces included.
+    use plumbline::check::story::{is_moment_frame_column, moment_frame_members};
+    let mut differ = 0;
+    let mut members = 0;
+    for seed in 0..FRAMES {
+        for rf in [RandomFrame::new(seed), RandomFrame::symmetric(seed)] {
+            let table = moment_frame_members(&rf.model);
+            assert_eq!(table.len(), rf.model.members.len());
+            for (m, &t) in table.iter().enumerate() {
+                members += 1;
+                if t != is_moment_frame_column(&rf.model, m) {
+                    differ += 1;
+                }
+            }
+        }
+    }
+    assert_eq!(differ, 0);
+    verify::property(
+        "random_frames/moment_frame_table_agrees_with_the_member_by_member_rule",
+        &format!(
+            "the one-pass table of moment-frame columns equals the member-by-member rule \
+             on all {members} members (common practice, no source)"
+        ),
+        2 * FRAMES as usize,
+        "members where the two differ",
+        differ as f64,
+        "none",
+    );
+}

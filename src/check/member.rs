@@ -20,7 +20,7 @@ use crate::solve::beam::{
 };
 use crate::solve::forces::EndForces;
 use crate::solve::mesh::MemberStiffness;
-use crate::stories::{Story, member_stories};
+use crate::stories::Story;
 
 /// A converged direct second-order solution at the case's load level and the extreme
 /// moments along each member.
@@ -125,6 +125,8 @@ pub struct MemberCheck {
 pub struct MemberInput<'a> {
     pub model: &'a Model,
     pub stories: &'a [Story],
+    /// The stories of each member, as [`crate::stories::member_stories`] finds them.
+    pub member_stories: &'a [Vec<usize>],
     pub stiffness: &'a [MemberStiffness],
     pub no_sway: &'a Solution,
     pub sway: &'a Solution,
@@ -434,7 +436,7 @@ fn member(input: &MemberInput, m: usize) -> MemberCheck {
     // The route of the member's stories: the second-order analysis's moments if any of
     // them takes that route (always with the direct method), else the largest sway
     // amplifier among them (1 for a member in no story).
-    let in_stories = member_stories(model, input.stories, m);
+    let in_stories = &input.member_stories[m];
     let figures: Vec<&StoryFigures> = in_stories.iter().map(|&k| &input.figures[k]).collect();
     let story_unstable = figures.iter().any(|f| f.route == SwayRoute::None);
     // A member in no story (a grade beam, a link at the base) follows the case: every

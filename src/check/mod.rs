@@ -427,6 +427,9 @@ pub fn check_streamed(
     })?;
     let flexibility = story::StoryFlexibility::new(&stories, &split);
     let stiffness = member_stiffness(model);
+    let member_stories: Vec<Vec<usize>> = (0..model.members.len())
+        .map(|m| crate::stories::member_stories(model, &stories, m))
+        .collect();
     let second = times.time(Stage::SecondOrderModel, || {
         SecondOrderModel::new(model, &stiffness, model.analysis.segments)
     })?;
@@ -438,6 +441,7 @@ pub fn check_streamed(
         flexibility: &flexibility,
         second: &second,
         stiffness: &stiffness,
+        member_stories: &member_stories,
     };
     // Factored cases are independent: every core, results in the order of `cases`. The
     // first error in that order is the run's.
@@ -525,6 +529,8 @@ struct Context<'a> {
     flexibility: &'a story::StoryFlexibility<'a>,
     second: &'a SecondOrderModel,
     stiffness: &'a [crate::solve::mesh::MemberStiffness],
+    /// The stories of each member ([`crate::stories::member_stories`]), found once.
+    member_stories: &'a [Vec<usize>],
 }
 
 impl Context<'_> {
@@ -667,6 +673,7 @@ impl Context<'_> {
                 member::members(&member::MemberInput {
                     model,
                     stories: self.stories,
+                    member_stories: self.member_stories,
                     stiffness: self.stiffness,
                     no_sway: &combined.no_sway,
                     sway: &sway,

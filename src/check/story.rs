@@ -381,17 +381,45 @@ pub fn is_moment_frame_column(model: &Model, m: usize) -> bool {
     takes_moment(model, m, mem.i, mem.release_i) || takes_moment(model, m, mem.j, mem.release_j)
 }
 
+/// [`is_moment_frame_column`] of every member at once, in one pass over the members and
+/// supports (rather than one per member): a member end takes moment where it is not
+/// released and a support restrains the node's rotation or another member end framing in
+/// there is not released either.
+pub fn moment_frame_members(model: &Model) -> Vec<bool> {
+    let mut restrained = vec![false; model.nodes.len()];
+    for s in &model.supports {
+        if s.dofs[2] != Restraint::Free {
+            restrained[s.node] = true;
+        }
+    }
+    // Member ends at each node that are not released.
+    let mut fixed_ends = vec![0usize; model.nodes.len()];
+    for o in &model.members {
+        fixed_ends[o.i] += usize::from(!o.release_i);
+        fixed_ends[o.j] += usize::from(!o.release_j);
+    }
+    // A member's own unreleased end is one of those at its node: another takes more than one.
+    let takes =
+        |node: usize, released: bool| !released && (restrained[node] || fixed_ends[node] > 1);
+    model
+        .members
+        .iter()
+        .map(|mem| takes(mem.i, mem.release_i) || takes(mem.j, mem.release_j))
+        .collect()
+}
+
 /// ΣP, Pmf and the level gravity loads Yi of each story for the first-order total `s`.
 pub fn story_gravity(model: &Model, stories: &[Story], s: &Solution) -> Gravity {
     let mut sum_p = Vec::with_capacity(stories.len());
     let mut p_mf = Vec::with_capacity(stories.len());
+    let frame = moment_frame_members(model);
     for st in stories {
         let mut p = 0.0;
         let mut mf = 0.0;
         for &m in &st.columns {
             let load = column_load(model, s, m);
             p += load;
-            if is_moment_frame_column(model, m) {
+            if frame[m] {
                 mf += load;
             }
         }
