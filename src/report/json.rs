@@ -9,29 +9,100 @@
 use std::io::{self, Write};
 
 use serde::Serialize;
-use serde_json::ser::{PrettyFormatter, Serializer};
+use serde_json::ser::{Formatter, Serializer};
 
-/// A writer that indents every line after the first by one level (two spaces), so that a
-/// value pretty-printed on its own nests under a top-level key. JSON strings never contain
-/// a raw line break (it is escaped), so every `\n` written is a line break of the layout.
-struct Indented<W: Write> {
-    out: W,
+/// serde_json's pretty layout (`PrettyFormatter`: two spaces a level, `": "` after a key)
+/// for a value that sits one level deep, under a top-level key: every line break is
+/// followed by the indentation of its level plus one, written in one piece rather than a
+/// piece per level. JSON strings never contain a raw line break (it is escaped), so the
+/// layout is the whole value's as `serde_json::to_string_pretty` prints it.
+struct Nested {
+    /// Nesting level of what is being written, the top-level object's members at 1.
+    level: usize,
+    has_value: bool,
 }
 
-impl<W: Write> Write for Indented<W> {
-    fn write(&mut self, buf: &[u8]) -> io::Result<usize> {
-        let mut rest = buf;
-        while let Some(at) = rest.iter().position(|&b| b == b'\n') {
-            self.out.write_all(&rest[..=at])?;
-            self.out.write_all(b"  ")?;
-            rest = &rest[at + 1..];
+/// A line break and up to [`Nested::MAX_ONE_PIECE`] levels of indentation.
+const BREAK: [u8; 129] = {
+    let mut b = [b' '; 129];
+    b[0] = b'\n';
+    b
+};
+
+impl Nested {
+    /// Levels whose line break and indentation go in one write.
+    const MAX_ONE_PIECE: usize = (BREAK.len() - 1) / 2;
+
+    /// A line break and the indentation of the current level.
+    fn line<W: ?Sized + Write>(&self, w: &mut W) -> io::Result<()> {
+        let mut level = self.level;
+        let first = level.min(Self::MAX_ONE_PIECE);
+        w.write_all(&BREAK[..1 + 2 * first])?;
+        level -= first;
+        while level > 0 {
+            let more = level.min(Self::MAX_ONE_PIECE);
+            w.write_all(&BREAK[1..1 + 2 * more])?;
+            level -= more;
         }
-        self.out.write_all(rest)?;
-        Ok(buf.len())
+        Ok(())
+    }
+}
+
+impl Formatter for Nested {
+    fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        self.level += 1;
+        self.has_value = false;
+        w.write_all(b"[")
     }
 
-    fn flush(&mut self) -> io::Result<()> {
-        self.out.flush()
+    fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        self.level -= 1;
+        if self.has_value {
+            self.line(w)?;
+        }
+        w.write_all(b"]")
+    }
+
+    fn begin_array_value<W: ?Sized + Write>(&mut self, w: &mut W, first: bool) -> io::Result<()> {
+        if !first {
+            w.write_all(b",")?;
+        }
+        self.line(w)
+    }
+
+    fn end_array_value<W: ?Sized + Write>(&mut self, _: &mut W) -> io::Result<()> {
+        self.has_value = true;
+        Ok(())
+    }
+
+    fn begin_object<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        self.level += 1;
+        self.has_value = false;
+        w.write_all(b"{")
+    }
+
+    fn end_object<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        self.level -= 1;
+        if self.has_value {
+            self.line(w)?;
+        }
+        w.write_all(b"}")
+    }
+
+    fn begin_object_key<W: ?Sized + Write>(&mut self, w: &mut W, first: bool) -> io::Result<()> {
+        if !first {
+            w.write_all(b",")?;
+        }
+        self.line(w)
+    }
+
+    fn begin_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        w.write_all(b": ")
+    }
+
+    fn end_object_value<W: ?Sized + Write>(&mut self, _: &mut W) -> io::Result<()> {
+        self.has_value = true;
+        Ok(())
     }
 }
 
@@ -56,8 +127,11 @@ impl<W: Write> JsonObject<W> {
         self.out.write_all(lead)?;
         serde_json::to_writer(&mut self.out, key)?;
         self.out.write_all(b": ")?;
-        let mut ser =
-            Serializer::with_formatter(Indented { out: &mut self.out }, PrettyFormatter::new());
+        let nested = Nested {
+            level: 1,
+            has_value: false,
+        };
+        let mut ser = Serializer::with_formatter(&mut self.out, nested);
         value.serialize(&mut ser).map_err(io::Error::from)
     }
 
@@ -88,5 +162,15 @@ mod tests {
         assert_eq!(text, serde_json::to_string_pretty(&whole).unwrap() + "\n");
         let empty = JsonObject::begin(Vec::new()).unwrap().finish().unwrap();
         assert_eq!(empty, b"{}\n");
+        // Deeper than one piece of indentation holds (70 levels).
+        let mut deep = serde_json::json!([1, {"k": "v"}]);
+        for _ in 0..70 {
+            deep = serde_json::json!([deep, 2]);
+        }
+        let mut doc = JsonObject::begin(Vec::new()).unwrap();
+        doc.section("deep", &deep).unwrap();
+        let text = String::from_utf8(doc.finish().unwrap()).unwrap();
+        let whole = serde_json::json!({"deep": deep});
+        assert_eq!(text, serde_json::to_string_pretty(&whole).unwrap() + "\n");
     }
 }
