@@ -366,7 +366,7 @@ fn interior_nodes(mesh: &Mesh, m: usize) -> impl Iterator<Item = usize> + '_ {
 #[derive(Debug, Clone)]
 struct Condensed {
     /// Per member (`None` for a member of one element); members alike share one.
-    blocks: Vec<Option<Arc<MemberBlock>>>,
+    blocks: Vec<Option<Block>>,
     factor: SkylineFactor,
     /// Axial force per element of the geometric stiffness, N, tension positive.
     axial: Option<Vec<f64>>,
@@ -375,7 +375,7 @@ struct Condensed {
 /// The members of a segmented mesh with their interior nodes condensed out.
 struct MemberParts {
     /// Per member (`None` for a member of one element).
-    blocks: Vec<Option<Arc<MemberBlock>>>,
+    blocks: Vec<Option<Block>>,
     /// Per member, its condensed 6×6 stiffness in global axes.
     condensed: Vec<Matrix6<f64>>,
     /// Negative pivots of the `K_ii` blocks (counted only when indefinite).
@@ -389,6 +389,23 @@ type LocalParts = (Option<MemberBlock>, Matrix6<f64>, usize);
 
 /// [`LocalParts`] with the interior block shared among members alike.
 type SharedParts = (Option<Arc<MemberBlock>>, Matrix6<f64>, usize);
+
+/// A member's condensed interior: its own, or shared with the members alike (elastic).
+#[derive(Debug, Clone)]
+enum Block {
+    Own(MemberBlock),
+    Shared(Arc<MemberBlock>),
+}
+
+impl std::ops::Deref for Block {
+    type Target = MemberBlock;
+    fn deref(&self) -> &MemberBlock {
+        match self {
+            Block::Own(b) => b,
+            Block::Shared(b) => b,
+        }
+    }
+}
 
 /// What a member's elastic condensation depends on: per element, E·A, E·I and length (as
 /// bits) and its releases. Members alike in these share one condensation.
@@ -433,12 +450,12 @@ fn condense_members(
                 }
             };
             negative += below;
-            (block, k_star)
+            (block.map(Block::Shared), k_star)
         } else {
             let (block, k_star, below) =
                 condense_member(mesh, range.clone(), axial, indefinite, &mut scratch)?;
             negative += below;
-            (block.map(Arc::new), k_star)
+            (block.map(Block::Own), k_star)
         };
         blocks.push(block);
         condensed.push(t.transpose() * k_star * t);
