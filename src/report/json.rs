@@ -48,26 +48,43 @@ impl Nested {
     }
 }
 
-impl Formatter for Nested {
-    fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+impl Nested {
+    /// Open an array or object: one level deeper, nothing in it yet.
+    fn open<W: ?Sized + Write>(&mut self, w: &mut W, bracket: &[u8]) -> io::Result<()> {
         self.level += 1;
         self.has_value = false;
-        w.write_all(b"[")
+        w.write_all(bracket)
     }
 
-    fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+    /// Close it: back a level, on a line of its own unless it is empty.
+    fn close<W: ?Sized + Write>(&mut self, w: &mut W, bracket: &[u8]) -> io::Result<()> {
         self.level -= 1;
         if self.has_value {
             self.line(w)?;
         }
-        w.write_all(b"]")
+        w.write_all(bracket)
     }
 
-    fn begin_array_value<W: ?Sized + Write>(&mut self, w: &mut W, first: bool) -> io::Result<()> {
+    /// An element or key on a line of its own, after a comma unless it is the first.
+    fn item<W: ?Sized + Write>(&mut self, w: &mut W, first: bool) -> io::Result<()> {
         if !first {
             w.write_all(b",")?;
         }
         self.line(w)
+    }
+}
+
+impl Formatter for Nested {
+    fn begin_array<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        self.open(w, b"[")
+    }
+
+    fn end_array<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
+        self.close(w, b"]")
+    }
+
+    fn begin_array_value<W: ?Sized + Write>(&mut self, w: &mut W, first: bool) -> io::Result<()> {
+        self.item(w, first)
     }
 
     fn end_array_value<W: ?Sized + Write>(&mut self, _: &mut W) -> io::Result<()> {
@@ -76,24 +93,15 @@ impl Formatter for Nested {
     }
 
     fn begin_object<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.level += 1;
-        self.has_value = false;
-        w.write_all(b"{")
+        self.open(w, b"{")
     }
 
     fn end_object<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
-        self.level -= 1;
-        if self.has_value {
-            self.line(w)?;
-        }
-        w.write_all(b"}")
+        self.close(w, b"}")
     }
 
     fn begin_object_key<W: ?Sized + Write>(&mut self, w: &mut W, first: bool) -> io::Result<()> {
-        if !first {
-            w.write_all(b",")?;
-        }
-        self.line(w)
+        self.item(w, first)
     }
 
     fn begin_object_value<W: ?Sized + Write>(&mut self, w: &mut W) -> io::Result<()> {
