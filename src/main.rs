@@ -206,6 +206,13 @@ struct CheckCli {
     /// load) beside the computed ones, and flag members far off.
     #[arg(long)]
     approximate: bool,
+    /// JSON and CSV without each case's member results: the JSON's report.cases[].members
+    /// and buckled_shape are left empty (case_detail: false), the CSV files case-members and
+    /// case-end-actions are not written. The envelopes, governing moments, story figures and
+    /// reactions of every case stay. For large frames: a far smaller file, and the run keeps
+    /// no case's members. The one-page summary is lean already.
+    #[arg(long, conflicts_with_all = ["detail", "case"])]
+    lean: bool,
     #[command(flatten)]
     out: Output,
 }
@@ -367,6 +374,7 @@ fn run(cli: Cli) -> Result<Done, AppError> {
         Command::Check(a) => {
             let (model, mut args) = a.run.args(a.format, a.detail);
             args.approximate = a.approximate;
+            args.lean = a.lean;
             let output = a.out.output;
             let (written, unstable) =
                 app::check_and_emit(&model, &args, output.as_deref(), &mut progress_bar())?;

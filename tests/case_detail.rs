@@ -86,3 +86,54 @@ fn a_case_prefix_envelopes_only_the_cases_it_keeps() {
     assert_eq!(full.envelope, plumbline::envelope::envelope(&full.report));
     assert_eq!(lean.envelope, full.envelope);
 }
+
+/// `--lean` (issue 21 goal 2, a leaner JSON): the JSON document of a lean run is the full
+/// run's with each case's `members` emptied, its `buckled_shape` null and `case_detail`
+/// false, and nothing else changed; the lean CSV files are the full run's but the two
+/// tables of member rows by case. Every example under its own method.
+#[test]
+fn lean_json_and_csv_are_the_full_ones_less_the_member_rows_by_case() {
+    use plumbline::app::run_check_for;
+    for path in examples() {
+        let name = path.display().to_string();
+        let run = |format: CheckFormat, lean: bool| {
+            let args = CheckArgs {
+                format,
+                lean,
+                ..Default::default()
+            };
+            let run = run_check_for(&path, &args, &mut |_, _| {}).unwrap();
+            assert_eq!(run.case_detail, !lean, "{name}");
+            render_check(&run, format, false)
+        };
+        let full: serde_json::Value =
+            serde_json::from_str(&run(CheckFormat::Json, false).joined()).unwrap();
+        let lean: serde_json::Value =
+            serde_json::from_str(&run(CheckFormat::Json, true).joined()).unwrap();
+        assert_eq!(full["case_detail"], true, "{name}");
+        let mut expected = full.clone();
+        expected["case_detail"] = false.into();
+        for case in expected["report"]["cases"].as_array_mut().unwrap() {
+            case["members"] = serde_json::json!([]);
+            case["buckled_shape"] = serde_json::Value::Null;
+        }
+        assert_eq!(lean, expected, "{name}: lean JSON");
+        let files = |lean: bool| -> Vec<(String, String)> { run(CheckFormat::Csv, lean).files };
+        let expected: Vec<(String, String)> = files(false)
+            .into_iter()
+            .filter(|(n, _)| n != "case-members.csv" && n != "case-end-actions.csv")
+            .collect();
+        assert_eq!(files(true), expected, "{name}: lean CSV");
+    }
+    // With the per-case detail asked for, a lean run is refused.
+    let path = &examples()[0];
+    let args = CheckArgs {
+        lean: true,
+        detail: true,
+        ..Default::default()
+    };
+    let err = run_check_for(path, &args, &mut |_, _| {})
+        .err()
+        .expect("refused");
+    assert!(err.to_string().contains("--lean"), "{err}");
+}

@@ -42,6 +42,10 @@ pub struct CheckArgs {
     pub detail: bool,
     /// Add the approximate check (hand methods beside the stiffness solution).
     pub approximate: bool,
+    /// `--lean`: JSON and CSV without each case's member results and buckled shape (the
+    /// envelopes, governing moments, story figures and reactions stay); the run then keeps
+    /// no case's members, as the one-page summary does. Not with `detail`.
+    pub lean: bool,
     /// `--service`: the serviceability table of the run (shipped name or path); overrides
     /// the model's `[combinations] service`.
     pub service: Option<String>,
@@ -166,6 +170,7 @@ impl CheckRun {
             envelope: &self.envelope,
             service: self.service.as_ref().map(|s| &s.report),
             detail: false,
+            case_detail: self.case_detail,
         }
     }
 
@@ -395,9 +400,30 @@ pub fn run_check(
 
 /// Whether the output of `format` reads every case's member results: the per-case detail
 /// (`detail`), the JSON document (its `report` section) and the CSV files (the detail
-/// tables). The one-page text or Markdown summary reads only the envelope.
-pub fn needs_case_detail(format: CheckFormat, detail: bool) -> bool {
-    detail || matches!(format, CheckFormat::Json | CheckFormat::Csv)
+/// tables), unless `lean` leaves them out. The one-page text or Markdown summary reads
+/// only the envelope.
+pub fn needs_case_detail(format: CheckFormat, detail: bool, lean: bool) -> bool {
+    detail || (!lean && matches!(format, CheckFormat::Json | CheckFormat::Csv))
+}
+
+/// The run `args` ask for: every case's member results kept only where the output reads
+/// them ([`needs_case_detail`]). `--lean` with `--detail` or `--case` is refused: those show
+/// what the lean run leaves out.
+pub fn run_check_for(
+    model_path: &Path,
+    args: &CheckArgs,
+    progress: &mut dyn FnMut(usize, usize),
+) -> Result<CheckRun, AppError> {
+    let detail = args.detail || args.case.is_some();
+    if args.lean && detail {
+        return Err(AppError::Usage(
+            "--lean leaves out each case's member results, which --detail and --case show: \
+             give one or the other"
+                .into(),
+        ));
+    }
+    let keep = needs_case_detail(args.format, detail, args.lean);
+    run_check_keeping(model_path, args, progress, keep)
 }
 
 /// [`run_check`]; with `case_detail` false, each case's member results are folded into the
@@ -724,8 +750,8 @@ fn service_settings(
 /// adds the per-case tables after the summary, in text and Markdown), in memory.
 pub fn render_check(run: &CheckRun, format: CheckFormat, detail: bool) -> Rendered {
     debug_assert!(
-        run.case_detail || !needs_case_detail(format, detail),
-        "this output reads every case's member results: run with run_check"
+        run.case_detail || !detail,
+        "the per-case detail reads every case's member results: run with run_check"
     );
     Rendered {
         files: export::offered(format, |e, out| e.check(&run.view(detail), out)),
@@ -748,9 +774,8 @@ pub fn check_output_status(
     args: &CheckArgs,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<(Rendered, bool), AppError> {
+    let run = run_check_for(model_path, args, progress)?;
     let detail = args.detail || args.case.is_some();
-    let keep = needs_case_detail(args.format, detail);
-    let run = run_check_keeping(model_path, args, progress, keep)?;
     let unstable = run.report.cases.iter().any(|c| !c.stable)
         || run
             .service
@@ -773,9 +798,8 @@ pub fn check_and_emit(
     output: Option<&Path>,
     progress: &mut dyn FnMut(usize, usize),
 ) -> Result<(Vec<PathBuf>, bool), AppError> {
+    let run = run_check_for(model_path, args, progress)?;
     let detail = args.detail || args.case.is_some();
-    let keep = needs_case_detail(args.format, detail);
-    let run = run_check_keeping(model_path, args, progress, keep)?;
     let unstable = run.report.cases.iter().any(|c| !c.stable);
     let written = emit_check(&run, args.format, detail, output)?;
     Ok((written, unstable))
@@ -792,8 +816,8 @@ pub fn emit_check(
     output: Option<&Path>,
 ) -> Result<Vec<PathBuf>, AppError> {
     debug_assert!(
-        run.case_detail || !needs_case_detail(format, detail),
-        "this output reads every case's member results: run with run_check"
+        run.case_detail || !detail,
+        "the per-case detail reads every case's member results: run with run_check"
     );
     let mut destination = Destination::new(output);
     export::exporter(&format.to_string())?.check(&run.view(detail), &mut destination)?;

@@ -18,7 +18,7 @@ pub use cases::{cases, combos};
 pub use check::{
     CheckArgs, CheckRun, ServiceRun, apply_settings, check, check_and_emit, check_output,
     check_output_status, emit_check, needs_case_detail, render_check, report, run_check,
-    run_check_keeping, sha256_hex,
+    run_check_for, run_check_keeping, sha256_hex,
 };
 pub use compare::{CompareRun, VariantSpec, parse_variant, run_compare};
 pub use error::{AppError, exit, model_warnings};

@@ -69,12 +69,18 @@ pub fn detail_text(model: &Model, report: &CheckReport) -> String {
 
 /// The per-case detail as tables for CSV: one row per case and member, per case and story,
 /// per case and support, and per case and member end. Each row is formed as it is written,
-/// so the largest of them (a row per case and member) is never held whole.
-pub fn detail_tables<'a>(model: &'a Model, report: &'a CheckReport) -> Vec<RowStream<'a>> {
+/// so the largest of them (a row per case and member) is never held whole. Without
+/// `members` (a lean run, which keeps no case's member results) the two tables of member
+/// rows are left out.
+pub fn detail_tables<'a>(
+    model: &'a Model,
+    report: &'a CheckReport,
+    members: bool,
+) -> Vec<RowStream<'a>> {
     let mut header = vec!["case".to_string()];
     header.extend(member_header(model));
     header.push("stable".into());
-    let members = RowStream {
+    let case_members = RowStream {
         name: "case-members",
         header,
         rows: Box::new(report.cases.iter().flat_map(move |c| {
@@ -120,7 +126,11 @@ pub fn detail_tables<'a>(model: &'a Model, report: &'a CheckReport) -> Vec<RowSt
                 .flat_map(move |c| super::handoff::case_end_action_rows(model, c)),
         ),
     };
-    vec![members, stories, reactions, end_actions]
+    if members {
+        vec![case_members, stories, reactions, end_actions]
+    } else {
+        vec![stories, reactions]
+    }
 }
 
 /// The text block of one case.

@@ -82,6 +82,10 @@ pub struct Summary<'a> {
     /// `--detail`: every table with all its columns (the default page keeps the figures of
     /// the chosen method and leaves the secondary columns out, to fit the width).
     pub detail: bool,
+    /// Whether `report` holds every case's member results and buckled shape (false in a
+    /// lean run, `--lean`, and for the one-page summary): the JSON says so
+    /// (`case_detail`), and the CSV files of them are written only with it.
+    pub case_detail: bool,
 }
 
 impl Summary<'_> {

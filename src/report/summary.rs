@@ -58,6 +58,10 @@ pub struct CheckDoc {
     pub envelope: Envelope,
     /// The largest design moment of each member over the stable cases.
     pub governing: Vec<GoverningMoment>,
+    /// Whether `report.cases[]` carry each case's member results and buckled shape (false
+    /// in a `--lean` document; documents written before the key existed carry them).
+    #[serde(default = "carries_case_detail")]
+    pub case_detail: bool,
     /// The per-case detail: `stiffness`, `stories[]`, `cases[]` (see docs/json-output.md).
     pub report: serde_json::Value,
     /// The serviceability half of the run (see the README), when it has one.
@@ -67,6 +71,12 @@ pub struct CheckDoc {
     #[serde(default, skip_serializing_if = "Option::is_none")]
     pub approximate: Option<serde_json::Value>,
     pub caution: String,
+}
+
+/// What a document without `case_detail` holds: every case's members (they were always
+/// written before `--lean`).
+fn carries_case_detail() -> bool {
+    true
 }
 
 /// Write the JSON document of a run (the keys of [`CheckDoc`], documented in the README)
@@ -108,6 +118,7 @@ pub fn write_json(
     doc.section("selection", &s.selection)?;
     doc.section("envelope", &s.envelope)?;
     doc.section("governing", &governing(&s.envelope.members))?;
+    doc.section("case_detail", &s.case_detail)?;
     doc.section("report", s.report)?;
     if let Some(r) = s.service {
         doc.section("serviceability", r)?;
@@ -896,7 +907,10 @@ pub fn csv_tables<'s>(s: &'s Summary<'_>) -> impl Iterator<Item = RowStream<'s>>
     std::iter::once_with(move || csv_assumptions(s).into())
         .chain(envelope.into_iter().map(move |table| table(s).into()))
         .chain(
-            std::iter::once_with(move || super::check::detail_tables(s.model, s.report)).flatten(),
+            std::iter::once_with(move || {
+                super::check::detail_tables(s.model, s.report, s.case_detail)
+            })
+            .flatten(),
         )
         .chain(
             s.service
