@@ -20,8 +20,9 @@
 //!   the JSON document, on one frame (default 20 × 100).
 //! * `cargo bench --bench check -- goal [BAYS STORIES]` — the figures of issue 21 for one
 //!   frame (default 20 × 100): the whole command as `plumbline check MODEL -o FILE` runs it
-//!   (reading, checking, writing the file) for the summary, JSON and CSV, 5 runs each in
-//!   a child process, beside the stored figures of the code before issue 21.
+//!   (reading, checking, writing the file) for the summary, JSON and CSV, and JSON and CSV
+//!   with `--lean`, 5 runs each in a child process, beside the stored figures of the code
+//!   before issue 21.
 //! * `cargo bench --bench check -- buckling [BAYS STORIES [lean]]` — the buckling analysis
 //!   alone, per factored case: the raw lowest mode (`critical_factor`) against the sorted
 //!   modes with factors on the safe side (`buckling`), on the standard frames (their lowest
@@ -348,7 +349,13 @@ fn model_file(bays: usize, stories: usize) -> std::path::PathBuf {
 
 /// The `check` arguments of the bench: the model's own table and method, `format`.
 fn check_args(format: CheckFormat) -> CheckArgs {
+    lean_args(format, false)
+}
+
+/// [`check_args`], with `--lean` when `lean`.
+fn lean_args(format: CheckFormat, lean: bool) -> CheckArgs {
     CheckArgs {
+        lean,
         combos: Some("asce7-16-strength".into()),
         sets: Vec::new(),
         method: None,
@@ -374,11 +381,11 @@ fn output_mb(path: &std::path::Path) -> f64 {
 }
 
 /// One child run of the whole command: prints `wall_ms cpu_ms peak_mb output_mb`.
-fn run_command(bays: usize, stories: usize, format: CheckFormat) {
+fn run_command(bays: usize, stories: usize, format: CheckFormat, lean: bool) {
     let model = model_file(bays, stories);
     let out = model.with_extension(format!("out.{format}"));
     let (t, cpu0) = (Instant::now(), cpu_ms());
-    let result = check_and_emit(&model, &check_args(format), Some(&out), &mut |_, _| {});
+    let result = check_and_emit(&model, &lean_args(format, lean), Some(&out), &mut |_, _| {});
     let ms = t.elapsed().as_secs_f64() * 1e3;
     let cpu = cpu_ms() - cpu0;
     if let Err(e) = result {
@@ -396,10 +403,12 @@ fn goal_table(bays: usize, stories: usize) {
     println!("write the file), ASCE/SEI 7-16 strength table, AISC App. 8; 5 runs each in its");
     println!("own process: median wall and CPU (user + system), largest peak resident memory");
     println!("output      code     wall (s)   cpu (s)   peak (MB)   file (MB)   runs (s)");
-    for (format, name) in [
-        (CheckFormat::Table, "summary"),
-        (CheckFormat::Json, "json"),
-        (CheckFormat::Csv, "csv"),
+    for (format, lean, name) in [
+        (CheckFormat::Table, false, "summary"),
+        (CheckFormat::Json, false, "json"),
+        (CheckFormat::Csv, false, "csv"),
+        (CheckFormat::Json, true, "json lean"),
+        (CheckFormat::Csv, true, "csv lean"),
     ] {
         if let Some(b) = GOAL_BEFORE.iter().find(|b| b.0 == name)
             && bays == 20
@@ -415,6 +424,7 @@ fn goal_table(bays: usize, stories: usize) {
             let out = Command::new(&exe)
                 .args(["command", &bays.to_string(), &stories.to_string()])
                 .arg(format.to_string())
+                .args(lean.then_some("lean"))
                 .output()
                 .expect("child runs");
             let text = String::from_utf8_lossy(&out.stdout);
@@ -504,7 +514,7 @@ fn main() {
             .get(at + 3)
             .and_then(|f| f.parse().ok())
             .unwrap_or(CheckFormat::Table);
-        run_command(b, s, format);
+        run_command(b, s, format, args.iter().any(|a| a == "lean"));
         return;
     }
     if let Some(at) = args.iter().position(|a| a == "goal") {
