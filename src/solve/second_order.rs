@@ -935,7 +935,7 @@ impl SecondOrderModel {
     /// `G = −K_G` of every element in global axes for the axial forces `axial` at λ = 1,
     /// a released element's as the secant of its condensed matrix between λ = 0 and 1 (the
     /// estimate of [`Self::estimate_alpha_cr`], confirmed by factorization).
-    fn secant_geometric(&self, axial: &[f64]) -> Vec<Stored> {
+    fn secant_geometric(&self, axial: &[f64]) -> Vec<CompactMatrix> {
         let zero = Vector6::zeros();
         self.mesh
             .elements
@@ -945,7 +945,7 @@ impl SecondOrderModel {
                 let (with_g, _) = element_matrices(e, Some(n), &zero);
                 let (without, _) = element_matrices(e, None, &zero);
                 let t = transformation(e.c, e.s);
-                Stored::new(-(t.transpose() * (with_g - without) * t))
+                CompactMatrix::new(-(t.transpose() * (with_g - without) * t))
             })
             .collect()
     }
@@ -1165,20 +1165,20 @@ impl SecondOrderModel {
 
 /// One element matrix, kept as its upper triangle where it is symmetric to the last bit
 /// (as every element's is in axes along the grid, where the transformation only swaps and
-/// negates entries), else whole. [`Stored::matrix`] gives back the same matrix bit for bit,
-/// so products with it are unchanged; the triangle takes 21 numbers rather than 36.
+/// negates entries), else whole. [`CompactMatrix::matrix`] gives back the same matrix bit
+/// for bit, so products with it are unchanged; the triangle takes 21 numbers, not 36.
 #[derive(Debug, Clone)]
-enum Stored {
+enum CompactMatrix {
     Triangle([f64; 21]),
     Whole(Box<Matrix6<f64>>),
 }
 
-impl Stored {
-    fn new(k: Matrix6<f64>) -> Stored {
+impl CompactMatrix {
+    fn new(k: Matrix6<f64>) -> CompactMatrix {
         let symmetric =
             (0..6).all(|r| (r + 1..6).all(|c| k[(r, c)].to_bits() == k[(c, r)].to_bits()));
         if !symmetric {
-            return Stored::Whole(Box::new(k));
+            return CompactMatrix::Whole(Box::new(k));
         }
         let mut upper = [0.0; 21];
         let mut at = 0;
@@ -1188,13 +1188,13 @@ impl Stored {
                 at += 1;
             }
         }
-        Stored::Triangle(upper)
+        CompactMatrix::Triangle(upper)
     }
 
     fn matrix(&self) -> Matrix6<f64> {
         match self {
-            Stored::Whole(k) => **k,
-            Stored::Triangle(upper) => {
+            CompactMatrix::Whole(k) => **k,
+            CompactMatrix::Triangle(upper) => {
                 let mut k = Matrix6::zeros();
                 let mut at = 0;
                 for r in 0..6 {
@@ -1739,18 +1739,21 @@ mod tests {
             let with_g = ke + geometric_stiffness(n, l);
             let t = transformation(c, s);
             let g = -(t.transpose() * (with_g - ke) * t);
-            let stored = Stored::new(g);
+            let stored = CompactMatrix::new(g);
             assert_eq!(bits(&stored.matrix()), bits(&g), "trial {trial}");
             if trial % 4 != 3 {
-                assert!(matches!(stored, Stored::Triangle(_)), "trial {trial}");
+                assert!(
+                    matches!(stored, CompactMatrix::Triangle(_)),
+                    "trial {trial}"
+                );
             }
         }
         // Signed zeros that differ across the diagonal: kept whole.
         let mut k = Matrix6::identity();
         k[(0, 1)] = 0.0;
         k[(1, 0)] = -0.0;
-        let stored = Stored::new(k);
-        assert!(matches!(stored, Stored::Whole(_)));
+        let stored = CompactMatrix::new(k);
+        assert!(matches!(stored, CompactMatrix::Whole(_)));
         assert_eq!(bits(&stored.matrix()), bits(&k));
     }
 }
